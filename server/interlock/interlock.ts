@@ -1,0 +1,158 @@
+/**
+ * The latched software interlock. It watches the trip conditions on every evaluation; the
+ * first violation trips it once (the caller publishes the TripCommand at once, the controller
+ * ramps to zero), latches it, and records the first-out condition with the values of every
+ * condition at that moment. It resets only with a reason and only when no condition holds.
+ *
+ * Supervisory only: this software can fail, so the apparatus keeps its own hardware,
+ * safety-rated interlocks, which Tiltwatch shows (`hardwareTripped`) but never resets.
+ */
+import { DEMO_INTERLOCK_CONFIG, type InterlockConfig } from './interlock-config.js';
+import { FrameLossWindow } from './frame-loss.js';
+import {
+  conditionStatus,
+  describeCondition,
+  tripConditions,
+  violates,
+  type ConditionStatus,
+  type InterlockInputs,
+  type TripCondition,
+} from './trip-conditions.js';
+
+/** The condition that tripped the interlock. Times in Unix epoch ms. */
+export interface FirstOut {
+  condition: string;
+  channel: string;
+  value: number | null;
+  limit: number;
+  at: number;
+}
+
+export interface TripRecord {
+  at: number;
+  firstOut: FirstOut;
+  /** Every condition at the moment of the trip. */
+  valuesAtTrip: ConditionStatus[];
+  /** Text for the TripCommand and the history (at most 500 characters). */
+  reason: string;
+}
+
+export interface ResetRecord {
+  at: number;
+  actor: string;
+  reason: string;
+  trip: TripRecord;
+}
+
+/** Body of `GET /api/interlock`. */
+export interface InterlockState {
+  state: 'ok' | 'tripped';
+  firstOut: FirstOut | null;
+  conditions: ConditionStatus[];
+  hardwareTripped: boolean;
+  /** The trip in force, null while ok. */
+  trip: TripRecord | null;
+  lastReset: ResetRecord | null;
+}
+
+export type ResetResult =
+  | { ok: true; reset: ResetRecord }
+  | { ok: false; code: 'reason-required' | 'not-tripped'; message: string }
+  | { ok: false; code: 'conditions-active'; message: string; active: ConditionStatus[] };
+
+const MAX_TRIP_REASON_CHARS = 500;
+const MAX_RESET_REASON_CHARS = 500;
+
+export class Interlock {
+  private readonly defs: TripCondition[];
+  /** Present value of each condition, parallel to `defs`; updated in place on every evaluation. */
+  private readonly values: (number | null)[];
+  private readonly frameLoss: FrameLossWindow;
+  private inputs: InterlockInputs | null = null;
+  private trip: TripRecord | null = null;
+  private lastReset: ResetRecord | null = null;
+
+  constructor(readonly config: InterlockConfig = DEMO_INTERLOCK_CONFIG) {
+    this.defs = tripConditions(config);
+    this.values = this.defs.map(() => null);
+    this.frameLoss = new FrameLossWindow(config.lostFrameWindowMs);
+  }
+
+  /** Records a fast frame's sequence number, seen at server time `atMs` (Unix epoch ms). */
+  observeFrame(seq: number, atMs: number): void {
+    this.frameLoss.observe(seq, atMs);
+  }
+
+  /**
+   * Evaluates every condition at server time `nowMs` (Unix epoch ms). Returns the trip record
+   * on the evaluation that trips the interlock, and null otherwise — also while it stays
+   * tripped, so the caller publishes exactly one TripCommand per trip. Call it on every frame
+   * and on a timer, so that silence (stale telemetry) is noticed without frames.
+   */
+  evaluate(inputs: InterlockInputs, nowMs: number): TripRecord | null {
+    this.inputs = inputs;
+    let first = -1;
+    const lost = this.frameLoss.lostWithin(nowMs);
+    for (let i = 0; i < this.defs.length; i++) {
+      const value = this.defs[i].measure(inputs, nowMs, lost);
+      this.values[i] = value;
+      if (first < 0 && violates(this.defs[i], value)) first = i;
+    }
+    if (this.trip || first < 0) return null;
+    const valuesAtTrip = this.conditions();
+    const cause = valuesAtTrip[first];
+    this.trip = {
+      at: nowMs,
+      firstOut: { condition: cause.name, channel: cause.channel, value: cause.value, limit: cause.limit, at: nowMs },
+      valuesAtTrip,
+      reason: `Software interlock tripped by ${cause.name}: ${describeCondition(cause)}`.slice(0, MAX_TRIP_REASON_CHARS),
+    };
+    return this.trip;
+  }
+
+  /** Every condition as of the last evaluation. */
+  conditions(): ConditionStatus[] {
+    return this.defs.map((def, i) => conditionStatus(def, this.values[i]));
+  }
+
+  state(): InterlockState {
+    return {
+      state: this.trip ? 'tripped' : 'ok',
+      firstOut: this.trip?.firstOut ?? null,
+      conditions: this.conditions(),
+      hardwareTripped: this.inputs?.hardwareTripped ?? false,
+      trip: this.trip,
+      lastReset: this.lastReset,
+    };
+  }
+
+  /**
+   * Resets the latch at `nowMs` (Unix epoch ms). Refused without a reason, when not tripped,
+   * or while any condition holds — measured again at `nowMs` from the last inputs, so time
+   * spent without telemetry counts. Role checks are the caller's (operator or above).
+   */
+  reset(actor: string, reason: unknown, nowMs: number): ResetResult {
+    const why = typeof reason === 'string' ? reason.trim() : '';
+    if (why === '') {
+      return { ok: false, code: 'reason-required', message: 'a reason is required to reset the interlock: say what caused the trip and what was done' };
+    }
+    if (why.length > MAX_RESET_REASON_CHARS) {
+      return { ok: false, code: 'reason-required', message: `the reason must be at most ${MAX_RESET_REASON_CHARS} characters` };
+    }
+    if (!this.trip) return { ok: false, code: 'not-tripped', message: 'the interlock is not tripped; there is nothing to reset' };
+    if (this.inputs) this.evaluate(this.inputs, nowMs);
+    const active = this.conditions().filter((c) => c.active);
+    if (active.length > 0) {
+      return {
+        ok: false,
+        code: 'conditions-active',
+        message: `cannot reset while a trip condition holds: ${active.map(describeCondition).join('; ')}. Clear the cause first.`,
+        active,
+      };
+    }
+    const record: ResetRecord = { at: nowMs, actor, reason: why, trip: this.trip };
+    this.trip = null;
+    this.lastReset = record;
+    return { ok: true, reset: record };
+  }
+}
