@@ -28,6 +28,46 @@ export interface LiveState {
     /** ISO time of the newest telemetry frame, used by clients to judge staleness. */
     lastFrameAt: string | null;
   };
+  /** Live prediction for the measured field direction and the active sample profile. */
+  prediction: LivePrediction | null;
+}
+
+/** An ellipse as the camera sees it: semi-axes and the major axis angle from u towards v. */
+export interface CameraEllipse {
+  major: number;
+  minor: number;
+  /** Degrees from the camera's u axis towards v, in [−90°, 90°); null when circular. */
+  majorAngleDeg: number | null;
+}
+
+/** Summary of the Hartree–Fock prediction (shared/physics) carried by the live state. */
+export interface LivePrediction {
+  stable: boolean;
+  /** Why the gas is reported collapsed or the prediction is missing. */
+  reason: string | null;
+  /** β = K∥/K⊥. */
+  fermiSurfaceAspect: number | null;
+  /** Largest over smallest real-space radius. */
+  cloudAspect: number | null;
+  /** Principal TOF aspect ratio (major/minor) at the profile's first TOF time. */
+  tofAspect: number | null;
+  tofMajorAngleDeg: number | null;
+  /** ε_dd / ε_dd,crit (1 = collapse threshold); null while not yet computed. */
+  collapseMargin: number | null;
+  epsDd: number;
+  profileId: number;
+  /** Field direction the prediction was computed for (trap frame). */
+  thetaDeg: number;
+  phiDeg: number;
+  computedAt: string;
+  /** Camera view of the profile's imaging geometry: in-situ cloud (µm), momentum (µm⁻¹), TOF (µm). */
+  camera: {
+    imaging: string;
+    tofMs: number;
+    inSituUm: CameraEllipse;
+    momentumPerUm: CameraEllipse;
+    tofUm: CameraEllipse;
+  } | null;
 }
 
 /**

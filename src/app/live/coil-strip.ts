@@ -1,0 +1,56 @@
+import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
+import type { ChannelBand } from '../../../shared/live/channels';
+import type { LiveState, PerAxis } from '../../../shared/live/live-state';
+import { GaugeBar } from '../gauges/gauge-bar';
+import { formatQuantity } from '../readout/format-quantity';
+
+/** Bands of the live channels, as served by `GET /api/channels`. */
+export type ChannelBands = Record<'current' | 'voltage' | 'temperature' | 'flow' | 'waterSupply', ChannelBand>;
+
+type Axis = keyof PerAxis<number>;
+const AXES: readonly Axis[] = ['x', 'y', 'z'];
+
+/**
+ * The three coil pairs side by side: per axis current against setpoint, voltage, coil
+ * temperature and coolant flow as gauge bars, plus the return-water temperature and its rise
+ * over the supply; below them the shared water supply.
+ */
+@Component({
+  selector: 'tw-coil-strip',
+  imports: [GaugeBar],
+  templateUrl: './coil-strip.html',
+  styleUrl: './coil-strip.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  host: { role: 'region', 'aria-label': 'Coils' },
+})
+export class CoilStrip {
+  readonly live = input<LiveState | null>(null);
+  readonly bands = input.required<ChannelBands>();
+  readonly stale = input(false);
+
+  protected readonly axes = computed(() => {
+    const live = this.live();
+    const pick = (values: PerAxis<number> | null | undefined, axis: Axis) => values?.[axis] ?? null;
+    return AXES.map((axis) => {
+      const returnC = pick(live?.waterReturnC, axis);
+      const supplyC = live?.waterSupplyC ?? null;
+      return {
+        axis,
+        name: axis.toUpperCase(),
+        current: pick(live?.currents, axis),
+        setpoint: pick(live?.setpoints, axis),
+        voltage: pick(live?.voltageV, axis),
+        temperature: pick(live?.temperatureC, axis),
+        flow: pick(live?.flowLpm, axis),
+        returnText: formatQuantity(returnC, '°C', 1),
+        riseText: returnC !== null && supplyC !== null ? `ΔT ${formatSigned(returnC - supplyC)}` : null,
+      };
+    });
+  });
+}
+
+/** Temperature difference with explicit sign, in kelvin (a difference, not a temperature). */
+function formatSigned(differenceK: number): string {
+  const text = formatQuantity(differenceK, 'K', 1);
+  return differenceK >= 0.05 ? `+${text}` : text;
+}

@@ -1,0 +1,84 @@
+import { httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatIconModule } from '@angular/material/icon';
+import { errorText } from '../api/error-text';
+import { ChartPanel, type ChartAxis, type ChartLine } from '../charts/chart-panel';
+import { FAST, SLOW, TelemetryHistory } from '../charts/telemetry-history';
+import { DEFAULT_WINDOW_SECONDS, TIME_WINDOWS } from '../charts/time-window';
+import { isStale } from '../feed/connection-state';
+import { LiveFeed } from '../feed/live-feed';
+import { formatLocalTime } from '../readout/format-quantity';
+import { CoilStrip, type ChannelBands } from './coil-strip';
+import { ControllerStatus } from './controller-status';
+import { FieldPanel } from './field-panel';
+
+const AXIS_LINES = [
+  { axis: 'X', color: '--tw-series-1' },
+  { axis: 'Y', color: '--tw-series-2', dash: [7, 4] },
+  { axis: 'Z', color: '--tw-series-3', dash: [2, 3] },
+];
+
+/** The Live page: field, coils, controller state and charts of the recent past. */
+@Component({
+  selector: 'tw-live-page',
+  imports: [ChartPanel, CoilStrip, ControllerStatus, FieldPanel, MatButtonModule, MatButtonToggleModule, MatIconModule],
+  providers: [TelemetryHistory],
+  templateUrl: './live-page.html',
+  styleUrl: './live-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class LivePage {
+  private readonly feed = inject(LiveFeed);
+  protected readonly history = inject(TelemetryHistory);
+
+  protected readonly live = this.feed.live;
+  /**
+   * Bands and limits from the server. Nothing is drawn against limits the server did not send:
+   * bars against someone else's limits would look right and be wrong.
+   */
+  protected readonly bands = httpResource<ChannelBands>(() => '/api/channels');
+  protected readonly bandsError = computed(() => (this.bands.error() ? errorText(this.bands.error()) : null));
+
+  protected readonly stale = computed(() => isStale(this.feed.connection().state));
+  /** "Stale since hh:mm:ss" (local time of the newest data), or null while data is current. */
+  protected readonly staleNote = computed(() => {
+    const reading = this.feed.connection();
+    if (!isStale(reading.state)) return null;
+    return reading.newestDataAtMs === null ? 'No data received yet' : `Stale since ${formatLocalTime(reading.newestDataAtMs)}`;
+  });
+
+  protected readonly windows = TIME_WINDOWS;
+  protected readonly windowSeconds = signal(DEFAULT_WINDOW_SECONDS);
+
+  protected readonly currentLines: ChartLine[] = AXIS_LINES.map((l, i) => ({
+    label: `I${l.axis.toLowerCase()} (A)`, column: FAST.currentX + i, scale: 'A', color: l.color, dash: l.dash, digits: 3,
+  }));
+  protected readonly currentAxes: ChartAxis[] = [{ scale: 'A', label: 'Current (A)', side: 'left' }];
+
+  protected readonly temperatureLines: ChartLine[] = AXIS_LINES.map((l, i) => ({
+    label: `T${l.axis.toLowerCase()} (°C)`, column: SLOW.temperatureX + i, scale: '°C', color: l.color, dash: l.dash, digits: 2,
+  }));
+  protected readonly temperatureAxes: ChartAxis[] = [{ scale: '°C', label: 'Coil temperature (°C)', side: 'left' }];
+
+  protected readonly fieldLines: ChartLine[] = [
+    { label: 'θ (°)', column: FAST.theta, scale: 'deg', color: '--tw-series-1', digits: 1 },
+    { label: 'φ (°)', column: FAST.phi, scale: 'deg', color: '--tw-series-2', dash: [7, 4], digits: 1, breakAbove: 180 },
+    { label: '|B| (G)', column: FAST.bMag, scale: 'G', color: '--tw-series-3', dash: [2, 3], digits: 3 },
+  ];
+  protected readonly fieldAxes: ChartAxis[] = [
+    { scale: 'deg', label: 'Angle (°)', side: 'left', range: [0, 360], step: 90 },
+    { scale: 'G', label: '|B| (G)', side: 'right', fromZero: true },
+  ];
+
+  constructor() {
+    void this.history.showWindow(this.windowSeconds());
+  }
+
+  protected chooseWindow(seconds: number): void {
+    if (seconds === this.windowSeconds()) return;
+    this.windowSeconds.set(seconds);
+    void this.history.showWindow(seconds);
+  }
+}

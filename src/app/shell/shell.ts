@@ -1,0 +1,59 @@
+import { BreakpointObserver } from '@angular/cdk/layout';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { MatListModule } from '@angular/material/list';
+import { MatSidenavModule } from '@angular/material/sidenav';
+import { MatToolbarModule } from '@angular/material/toolbar';
+import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import { map } from 'rxjs';
+import { Session } from '../auth/session';
+import { LiveFeed } from '../feed/live-feed';
+import { ConnectionIndicator } from './connection-indicator';
+import { SafetyNote } from './safety-note';
+
+/** Widest screen on which the navigation folds away behind a menu button. */
+const WIDE_SCREEN = '(min-width: 1000px)';
+
+/** The signed-in frame: toolbar, navigation, connection state, the page, and the safety note. */
+@Component({
+  selector: 'tw-shell',
+  imports: [
+    ConnectionIndicator, MatButtonModule, MatIconModule, MatListModule, MatSidenavModule, MatToolbarModule,
+    RouterLink, RouterLinkActive, RouterOutlet, SafetyNote,
+  ],
+  templateUrl: './shell.html',
+  styleUrl: './shell.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class Shell {
+  private readonly session = inject(Session);
+  protected readonly feed = inject(LiveFeed);
+
+  protected readonly user = this.session.user;
+  protected readonly wide = toSignal(inject(BreakpointObserver).observe(WIDE_SCREEN).pipe(map((state) => state.matches)), {
+    initialValue: true,
+  });
+  protected readonly navToggled = signal(false);
+  protected readonly navOpen = computed(() => this.wide() || this.navToggled());
+
+  constructor() {
+    this.feed.start();
+    inject(DestroyRef).onDestroy(() => this.feed.stop());
+    this.session.refreshUser().catch(() => undefined); // a 401 ends the session in the interceptor
+  }
+
+  protected toggleNavigation(): void {
+    this.navToggled.update((open) => !open);
+  }
+
+  protected closeNavigationOnNarrowScreen(): void {
+    if (!this.wide()) this.navToggled.set(false);
+  }
+
+  protected signOut(): void {
+    this.feed.stop();
+    this.session.signOut();
+  }
+}
