@@ -1,0 +1,14 @@
+-- The audit trail is append-only: rows may be inserted, never changed or removed.
+CREATE FUNCTION audit_log_refuse_change() RETURNS trigger LANGUAGE plpgsql AS $$
+BEGIN
+  RAISE EXCEPTION 'audit_log is append-only: % refused', TG_OP;
+END;
+$$;
+--> statement-breakpoint
+CREATE TRIGGER audit_log_append_only
+  BEFORE UPDATE OR DELETE ON audit_log
+  FOR EACH ROW EXECUTE FUNCTION audit_log_refuse_change();
+--> statement-breakpoint
+CREATE TRIGGER audit_log_no_truncate
+  BEFORE TRUNCATE ON audit_log
+  FOR EACH STATEMENT EXECUTE FUNCTION audit_log_refuse_change();

@@ -1,0 +1,80 @@
+import type { RequestHandler } from 'express';
+import { Passport } from 'passport';
+import { ExtractJwt, Strategy as JwtStrategy } from 'passport-jwt';
+import { hasRole, type Role } from '../../shared/auth/roles.js';
+import type { Db } from '../db/database.js';
+import { HttpError } from '../http/http-error.js';
+import { claimsOf, type TokenClaims, type TokenIssuer } from './tokens.js';
+import { findUserById } from './users-repository.js';
+
+/** The person behind a request, as the database knows them now. */
+export interface SignedInUser {
+  id: number;
+  email: string;
+  role: Role;
+}
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    // passport types `req.user` as Express.User; ours carries the role.
+    interface User extends SignedInUser {}
+  }
+}
+
+/**
+ * Who may do what: Bearer-token sign-in (passport-jwt) for the HTTP API and the same check
+ * for the WebSocket. The role comes from the database, not from the token, so a changed role
+ * or a removed account takes effect at the next request.
+ */
+export class AccessControl {
+  private readonly passport = new Passport();
+
+  constructor(
+    private readonly db: Db,
+    private readonly tokens: TokenIssuer,
+  ) {
+    this.passport.use(
+      'jwt',
+      new JwtStrategy(
+        { ...tokens.verifyOptions, jwtFromRequest: ExtractJwt.fromAuthHeaderAsBearerToken() },
+        (payload: object, done: (error: unknown, user?: SignedInUser | false) => void) => {
+          this.userFor(claimsOf(payload)).then((user) => done(null, user ?? false), done);
+        },
+      ),
+    );
+  }
+
+  /** The signed-in user for a token (WebSocket sign-in); null when the token is not good. */
+  userForToken(token: string): Promise<SignedInUser | null> {
+    return this.userFor(this.tokens.verify(token));
+  }
+
+  /**
+   * Middleware admitting signed-in users whose role is at least `role`: 401 without a valid
+   * token, 403 with too little authority.
+   */
+  requireRole(role: Role): RequestHandler {
+    return (req, res, next) => {
+      const authenticate = this.passport.authenticate('jwt', { session: false }, (error: unknown, user: SignedInUser | false) => {
+        if (error) return next(error);
+        if (!user) {
+          return next(new HttpError(401, 'Sign in first: send "Authorization: Bearer <token>" with a token from POST /api/auth/login (it is missing, invalid or expired)'));
+        }
+        if (!hasRole(user.role, role)) {
+          return next(new HttpError(403, `This needs the ${role} role or higher; ${user.email} is ${user.role}`));
+        }
+        req.user = user;
+        next();
+      }) as RequestHandler;
+      authenticate(req, res, next);
+    };
+  }
+
+  private async userFor(claims: TokenClaims | null): Promise<SignedInUser | null> {
+    if (!claims) return null;
+    const user = await findUserById(this.db, claims.userId);
+    if (!user || user.email !== claims.email) return null;
+    return { id: user.id, email: user.email, role: user.role };
+  }
+}

@@ -1,0 +1,127 @@
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import jwt from 'jsonwebtoken';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ROLES, hasRole, type Role } from '../../shared/auth/roles.js';
+import { API_ROUTES, type RouteId } from '../http/route-table.js';
+import type { RunningServer } from '../server.js';
+import { makeDataDir, removeDataDir, signIn, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
+import { JWT_SECRET_FILE } from './jwt-secret.js';
+
+/** A request each route answers with 2xx when the caller may use it. */
+const VALID_REQUEST: Record<RouteId, { query?: string; body?: unknown }> = {
+  health: {},
+  'auth.login': { body: { email: 'viewer@tiltwatch.example', password: TEST_PASSWORD } },
+  'auth.me': {},
+  live: {},
+  series: { query: '?seconds=60' },
+  channels: {},
+  'calibrations.list': {},
+  'calibrations.active': {},
+};
+
+describe('sign-in and roles', () => {
+  let dir: string;
+  let server: RunningServer;
+  const tokens = new Map<Role, string>();
+
+  beforeAll(async () => {
+    dir = await makeDataDir();
+    server = await startTestServer(dir, undefined, { TILTWATCH_LOGIN_ATTEMPTS_PER_MIN: '5' });
+    for (const role of ROLES) tokens.set(role, await signIn(server, role));
+  });
+  afterAll(async () => {
+    await server?.close();
+    removeDataDir(dir);
+  });
+
+  const login = (body: unknown, contentType = 'application/json') =>
+    fetch(`${server.url}/api/auth/login`, {
+      method: 'POST',
+      headers: { 'content-type': contentType },
+      body: typeof body === 'string' ? body : JSON.stringify(body),
+    });
+  const me = (token: string) => fetch(`${server.url}/api/auth/me`, { headers: { authorization: `Bearer ${token}` } });
+
+  it('signs a demo account in and returns a token and the user', async () => {
+    const res = await login({ email: 'Operator@Tiltwatch.example ', password: TEST_PASSWORD });
+    expect(res.status).toBe(200);
+    const body = (await res.json()) as { token: string; user: unknown };
+    expect(body.user).toEqual({ email: 'operator@tiltwatch.example', role: 'operator' });
+    expect((await (await me(body.token)).json())).toEqual({ email: 'operator@tiltwatch.example', role: 'operator' });
+  });
+
+  it('answers 401 with the same message for a wrong password and an unknown e-mail', async () => {
+    const wrong = await login({ email: 'lead@tiltwatch.example', password: 'not-the-password' });
+    const unknown = await login({ email: 'nobody@tiltwatch.example', password: 'whatever-password' });
+    expect(wrong.status).toBe(401);
+    expect(unknown.status).toBe(401);
+    expect(await wrong.json()).toEqual(await unknown.json());
+  });
+
+  it.each([
+    ['a missing password', { email: 'viewer@tiltwatch.example' }, /password/],
+    ['a malformed e-mail', { email: 'viewer', password: 'x' }, /email: must be an e-mail address/],
+    ['an empty body', {}, /email/],
+    ['a body that is not JSON', '{"email":', /not valid JSON/],
+  ])('answers 400 with a message for %s', async (_what, body, message) => {
+    const res = await login(body);
+    expect(res.status).toBe(400);
+    expect(((await res.json()) as { error: string }).error).toMatch(message);
+  });
+
+  it('refuses an expired token with 401', async () => {
+    const secret = Buffer.from(readFileSync(path.join(dir, JWT_SECRET_FILE), 'utf8'), 'base64');
+    const good = jwt.decode(tokens.get('admin')!) as jwt.JwtPayload;
+    const expired = jwt.sign(
+      { email: good['email'], role: 'admin', sub: good.sub, iss: 'tiltwatch', exp: Math.floor(Date.now() / 1000) - 60 },
+      secret,
+      { algorithm: 'HS256' },
+    );
+    expect((await me(expired)).status).toBe(401);
+  });
+
+  it('refuses a token signed with another key, and one claiming a higher role than the account has', async () => {
+    const forged = jwt.sign({ email: 'viewer@tiltwatch.example', role: 'admin' }, 'another-key', { subject: '1', issuer: 'tiltwatch' });
+    expect((await me(forged)).status).toBe(401);
+    // Correctly signed but the role in the token is ignored: the database says viewer.
+    const secret = Buffer.from(readFileSync(path.join(dir, JWT_SECRET_FILE), 'utf8'), 'base64');
+    const viewer = jwt.decode(tokens.get('viewer')!) as jwt.JwtPayload;
+    const inflated = jwt.sign({ email: viewer['email'], role: 'admin' }, secret, { subject: viewer.sub, issuer: 'tiltwatch', expiresIn: 60 });
+    expect(await (await me(inflated)).json()).toEqual({ email: 'viewer@tiltwatch.example', role: 'viewer' });
+  });
+
+  it('answers 429 once failed sign-ins for one address and e-mail exceed the limit, without locking out other accounts', async () => {
+    const attempt = () => login({ email: 'admin@tiltwatch.example', password: 'guess-guess' });
+    const statuses: number[] = [];
+    for (let i = 0; i < 6; i++) statuses.push((await attempt()).status);
+    expect(statuses).toEqual([401, 401, 401, 401, 401, 429]);
+    expect((await login({ email: 'admin@tiltwatch.example', password: TEST_PASSWORD })).status).toBe(429);
+    expect((await login({ email: 'lead@tiltwatch.example', password: TEST_PASSWORD })).status).toBe(200);
+  });
+
+  it('answers a JSON 404 for an unknown API path', async () => {
+    const res = await fetch(`${server.url}/api/no-such-thing`, { headers: { authorization: `Bearer ${tokens.get('admin')}` } });
+    expect(res.status).toBe(404);
+    expect(((await res.json()) as { error: string }).error).toMatch(/No API route GET \/api\/no-such-thing/);
+  });
+
+  const callers: (Role | 'nobody')[] = ['nobody', ...ROLES];
+  const cases = API_ROUTES.flatMap((route) => callers.map((caller) => ({ route, caller })));
+  it.each(cases)('$route.method $route.path as $caller: allowed exactly as the route table says', async ({ route, caller }) => {
+    const example = VALID_REQUEST[route.id];
+    const headers: Record<string, string> = { 'content-type': 'application/json' };
+    if (caller !== 'nobody') headers['authorization'] = `Bearer ${tokens.get(caller)}`;
+    const res = await fetch(`${server.url}${route.path}${example.query ?? ''}`, {
+      method: route.method.toUpperCase(),
+      headers,
+      body: example.body === undefined ? undefined : JSON.stringify(example.body),
+    });
+    await res.arrayBuffer();
+    const minRole: Role | null = route.minRole;
+    if (minRole === null) expect(res.status).toBeLessThan(300);
+    else if (caller === 'nobody') expect(res.status).toBe(401);
+    else if (!hasRole(caller, minRole)) expect(res.status).toBe(403);
+    else expect(res.status).toBeLessThan(300);
+  });
+});

@@ -1,0 +1,54 @@
+import { count, eq } from 'drizzle-orm';
+import { ROLES, type Role } from '../../shared/auth/roles.js';
+import { appendAudit } from '../audit/audit-log.js';
+import type { Db } from '../db/database.js';
+import { users } from '../db/schema.js';
+import { hashPassword } from './password.js';
+
+export interface UserRecord {
+  id: number;
+  email: string;
+  role: Role;
+  passwordHash: string;
+}
+
+/** Sign-in names are e-mail addresses compared without case or surrounding blanks. */
+export function normaliseEmail(email: string): string {
+  return email.trim().toLowerCase();
+}
+
+export async function findUserByEmail(db: Db, email: string): Promise<UserRecord | null> {
+  const [row] = await db.select().from(users).where(eq(users.email, normaliseEmail(email)));
+  return row ?? null;
+}
+
+export async function findUserById(db: Db, id: number): Promise<UserRecord | null> {
+  const [row] = await db.select().from(users).where(eq(users.id, id));
+  return row ?? null;
+}
+
+/** The demo accounts: one per role, `<role>@tiltwatch.example`. */
+export const DEMO_ACCOUNTS: { email: string; role: Role }[] = ROLES.map((role) => ({ email: `${role}@tiltwatch.example`, role }));
+
+/**
+ * On a database without users, creates the demo accounts with `password` and records each in
+ * the audit trail. Does nothing when any user exists, so changed passwords stay changed.
+ */
+export async function seedDemoAccounts(db: Db, password: string): Promise<boolean> {
+  const [{ n }] = await db.select({ n: count() }).from(users);
+  if (n > 0) return false;
+  const hashes = await Promise.all(DEMO_ACCOUNTS.map(() => hashPassword(password)));
+  await db.transaction(async (tx) => {
+    for (const [i, account] of DEMO_ACCOUNTS.entries()) {
+      await tx.insert(users).values({ email: account.email, role: account.role, passwordHash: hashes[i] });
+      await appendAudit(tx, {
+        actor: 'system',
+        action: 'user.create',
+        subject: `user:${account.email}`,
+        newValue: { email: account.email, role: account.role },
+        reason: 'first start: demo account seeded',
+      });
+    }
+  });
+  return true;
+}

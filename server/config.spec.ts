@@ -1,0 +1,66 @@
+import { describe, expect, it } from 'vitest';
+import { ConfigError, loadConfig } from './config.js';
+
+function problemsOf(env: NodeJS.ProcessEnv): string[] {
+  try {
+    loadConfig(env);
+  } catch (error) {
+    expect(error).toBeInstanceOf(ConfigError);
+    return (error as ConfigError).problems;
+  }
+  throw new Error('expected a ConfigError');
+}
+
+describe('loadConfig', () => {
+  it('uses the documented defaults for an empty environment', () => {
+    const config = loadConfig({});
+    expect(config).toMatchObject({
+      port: 4280,
+      host: '127.0.0.1',
+      databaseUrl: null,
+      mqtt: { mode: 'embedded', host: '127.0.0.1', port: 1883 },
+      demoPassword: 'tiltwatch-demo',
+      logLevel: 'info',
+      retention: { rawHours: 24, rollupDays: 30 },
+      loginAttemptsPerMinute: 10,
+    });
+    expect(config.dataDir).toMatch(/[/\\]data$/);
+  });
+
+  it('treats empty variables as unset', () => {
+    expect(loadConfig({ PORT: '', MQTT_URL: ' ' }).port).toBe(4280);
+  });
+
+  it('reads an external broker and a PostgreSQL server', () => {
+    const config = loadConfig({
+      MQTT_URL: 'mqtt://broker.example:1883',
+      MQTT_USERNAME: 'server',
+      MQTT_PASSWORD: 'secret',
+      DATABASE_URL: 'postgres://tiltwatch@db.example/tiltwatch',
+    });
+    expect(config.mqtt).toEqual({ mode: 'external', url: 'mqtt://broker.example:1883', username: 'server', password: 'secret' });
+    expect(config.databaseUrl).toBe('postgres://tiltwatch@db.example/tiltwatch');
+  });
+
+  it.each([
+    [{ PORT: 'eighty' }, /^PORT="eighty" must be a whole number from 0 to 65535/],
+    [{ PORT: '70000' }, /^PORT="70000" must be a whole number/],
+    [{ MQTT_PORT: '-1' }, /^MQTT_PORT="-1" must be a whole number/],
+    [{ DATABASE_URL: 'mysql://x' }, /^DATABASE_URL="mysql:\/\/x" must start with postgres:\/\//],
+    [{ MQTT_URL: 'localhost:1883' }, /^MQTT_URL="localhost:1883" must look like mqtt:\/\/host:1883/],
+    [{ LOG_LEVEL: 'loud' }, /^LOG_LEVEL="loud" must be one of fatal, error/],
+    [{ TILTWATCH_DEMO_PASSWORD: 'short' }, /^TILTWATCH_DEMO_PASSWORD="short" must be at least 8 characters/],
+    [{ TILTWATCH_RAW_RETENTION_HOURS: '0' }, /^TILTWATCH_RAW_RETENTION_HOURS="0" must be a number of hours above 0/],
+    [{ TILTWATCH_ROLLUP_RETENTION_DAYS: 'forever' }, /^TILTWATCH_ROLLUP_RETENTION_DAYS="forever" must be a number of days/],
+    [{ TILTWATCH_LOGIN_ATTEMPTS_PER_MIN: '2.5' }, /^TILTWATCH_LOGIN_ATTEMPTS_PER_MIN="2.5" must be a whole number/],
+    [{ MQTT_USERNAME: 'server', MQTT_PASSWORD: 'x' }, /only used with MQTT_URL/],
+    [{ MQTT_URL: 'mqtt://b.example', MQTT_USERNAME: 'server' }, /MQTT_USERNAME and MQTT_PASSWORD must be set together/],
+    [{ MQTT_URL: 'mqtt://b.example', MQTT_PORT: '1884' }, /MQTT_HOST\/MQTT_PORT configure the embedded broker and conflict with MQTT_URL/],
+  ])('names the variable and the fix for %o', (env, message) => {
+    expect(problemsOf(env)).toEqual(expect.arrayContaining([expect.stringMatching(message)]));
+  });
+
+  it('lists every bad variable at once', () => {
+    expect(problemsOf({ PORT: 'x', LOG_LEVEL: 'y' })).toHaveLength(2);
+  });
+});

@@ -1,0 +1,140 @@
+import path from 'node:path';
+import { z } from 'zod';
+
+/** Where the server finds its MQTT broker: embedded (started by the server) or external. */
+export type MqttConfig =
+  | { mode: 'embedded'; host: string; port: number }
+  | { mode: 'external'; url: string; username: string | null; password: string | null };
+
+export type LogLevel = 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'trace' | 'silent';
+
+/** Everything the server reads from its environment, validated. */
+export interface ServerConfig {
+  /** HTTP and WebSocket port; 0 picks a free port. */
+  port: number;
+  /** Interface the HTTP server binds to. */
+  host: string;
+  /** Absolute path of the data folder (PGlite, JWT secret, broker credentials, lock file). */
+  dataDir: string;
+  /** PostgreSQL connection string; null runs the embedded PGlite in the data folder. */
+  databaseUrl: string | null;
+  mqtt: MqttConfig;
+  /** Password of the seeded demo accounts (demo only). */
+  demoPassword: string;
+  logLevel: LogLevel;
+  retention: {
+    /** How long raw 1 kHz batches and 10 Hz slow samples are kept, h. */
+    rawHours: number;
+    /** How long the 1 s roll-ups are kept, days. */
+    rollupDays: number;
+  };
+  /** Failed sign-in attempts allowed per client address and e-mail per minute. */
+  loginAttemptsPerMinute: number;
+}
+
+/** Thrown by `loadConfig`; the message names each bad variable and what to fix. */
+export class ConfigError extends Error {
+  constructor(readonly problems: string[]) {
+    super(`Invalid configuration:\n${problems.map((p) => `  - ${p}`).join('\n')}`);
+    this.name = 'ConfigError';
+  }
+}
+
+const LOG_LEVELS = ['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'] as const;
+
+/** Empty strings count as unset, so `PORT=` in a .env file means "use the default". */
+const optional = <T extends z.ZodType>(schema: T) =>
+  z.preprocess((v) => (typeof v === 'string' && v.trim() === '' ? undefined : v), schema.optional());
+
+const integer = (min: number, max: number, what: string) =>
+  z.coerce
+    .number({ error: `must be ${what}` })
+    .refine((n) => Number.isInteger(n) && n >= min && n <= max, `must be ${what}`);
+
+const positive = (max: number, what: string) =>
+  z.coerce.number({ error: `must be ${what}` }).refine((n) => Number.isFinite(n) && n > 0 && n <= max, `must be ${what}`);
+
+const portNumber = integer(0, 65535, 'a whole number from 0 to 65535 (0 picks a free port)');
+
+const EnvSchema = z.object({
+  PORT: optional(portNumber),
+  HOST: optional(z.string().trim()),
+  TILTWATCH_DATA_DIR: optional(z.string()),
+  DATABASE_URL: optional(
+    z.string().refine((s) => /^postgres(ql)?:\/\//.test(s), 'must start with postgres:// or postgresql://'),
+  ),
+  MQTT_URL: optional(
+    z.string().refine((s) => /^(mqtts?|wss?|tcp):\/\/[^/]/.test(s), 'must look like mqtt://host:1883 (mqtt, mqtts, ws or wss)'),
+  ),
+  MQTT_HOST: optional(z.string().trim()),
+  MQTT_PORT: optional(portNumber),
+  MQTT_USERNAME: optional(z.string()),
+  MQTT_PASSWORD: optional(z.string()),
+  TILTWATCH_DEMO_PASSWORD: optional(z.string().min(8, 'must be at least 8 characters')),
+  LOG_LEVEL: optional(z.enum(LOG_LEVELS, { error: `must be one of ${LOG_LEVELS.join(', ')}` })),
+  TILTWATCH_RAW_RETENTION_HOURS: optional(positive(24 * 365, 'a number of hours above 0 (at most one year)')),
+  TILTWATCH_ROLLUP_RETENTION_DAYS: optional(positive(3650, 'a number of days above 0 (at most ten years)')),
+  TILTWATCH_LOGIN_ATTEMPTS_PER_MIN: optional(integer(1, 10_000, 'a whole number from 1 to 10000')),
+});
+
+/** Defaults, also quoted by the README's configuration table. */
+export const CONFIG_DEFAULTS = {
+  port: 4280,
+  host: '127.0.0.1',
+  dataDir: './data',
+  mqttHost: '127.0.0.1',
+  mqttPort: 1883,
+  demoPassword: 'tiltwatch-demo',
+  logLevel: 'info' as LogLevel,
+  rawHours: 24,
+  rollupDays: 30,
+  loginAttemptsPerMinute: 10,
+};
+
+/**
+ * Reads and validates the server's environment. Throws `ConfigError` listing every bad
+ * variable with what to fix; relative paths resolve against the working directory.
+ */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
+  const parsed = EnvSchema.safeParse(env);
+  if (!parsed.success) {
+    throw new ConfigError(
+      parsed.error.issues.map((issue) => {
+        const name = String(issue.path[0] ?? 'environment');
+        return `${name}=${JSON.stringify(env[name] ?? '')} ${issue.message}`;
+      }),
+    );
+  }
+  const e = parsed.data;
+  const problems: string[] = [];
+  if (e.MQTT_URL === undefined && (e.MQTT_USERNAME !== undefined || e.MQTT_PASSWORD !== undefined)) {
+    problems.push('MQTT_USERNAME/MQTT_PASSWORD are only used with MQTT_URL (an external broker); set MQTT_URL or remove them');
+  }
+  if ((e.MQTT_USERNAME === undefined) !== (e.MQTT_PASSWORD === undefined)) {
+    problems.push('MQTT_USERNAME and MQTT_PASSWORD must be set together');
+  }
+  if (e.MQTT_URL !== undefined && (e.MQTT_HOST !== undefined || e.MQTT_PORT !== undefined)) {
+    problems.push('MQTT_HOST/MQTT_PORT configure the embedded broker and conflict with MQTT_URL; remove one of them');
+  }
+  if (problems.length > 0) throw new ConfigError(problems);
+
+  const mqtt: MqttConfig =
+    e.MQTT_URL !== undefined
+      ? { mode: 'external', url: e.MQTT_URL, username: e.MQTT_USERNAME ?? null, password: e.MQTT_PASSWORD ?? null }
+      : { mode: 'embedded', host: e.MQTT_HOST ?? CONFIG_DEFAULTS.mqttHost, port: e.MQTT_PORT ?? CONFIG_DEFAULTS.mqttPort };
+
+  return {
+    port: e.PORT ?? CONFIG_DEFAULTS.port,
+    host: e.HOST ?? CONFIG_DEFAULTS.host,
+    dataDir: path.resolve(e.TILTWATCH_DATA_DIR ?? CONFIG_DEFAULTS.dataDir),
+    databaseUrl: e.DATABASE_URL ?? null,
+    mqtt,
+    demoPassword: e.TILTWATCH_DEMO_PASSWORD ?? CONFIG_DEFAULTS.demoPassword,
+    logLevel: e.LOG_LEVEL ?? CONFIG_DEFAULTS.logLevel,
+    retention: {
+      rawHours: e.TILTWATCH_RAW_RETENTION_HOURS ?? CONFIG_DEFAULTS.rawHours,
+      rollupDays: e.TILTWATCH_ROLLUP_RETENTION_DAYS ?? CONFIG_DEFAULTS.rollupDays,
+    },
+    loginAttemptsPerMinute: e.TILTWATCH_LOGIN_ATTEMPTS_PER_MIN ?? CONFIG_DEFAULTS.loginAttemptsPerMinute,
+  };
+}

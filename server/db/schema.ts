@@ -1,0 +1,175 @@
+/**
+ * The Drizzle schema of Tiltwatch's PostgreSQL database (PGlite or a PostgreSQL server).
+ * Migrations in drizzle/ are generated from this file with `npm run db:generate`.
+ *
+ * Telemetry is stored for kHz rates: one `fast_batches` row holds a contiguous run of frames
+ * (about 0.5 s of 1 kHz samples per channel, as little-endian float32 in bytea), never a row
+ * per sample; `rollups_1s` keeps per-second statistics for long windows.
+ */
+import { sql } from 'drizzle-orm';
+import {
+  bigint,
+  bigserial,
+  boolean,
+  customType,
+  doublePrecision,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  real,
+  serial,
+  text,
+  timestamp,
+  uniqueIndex,
+} from 'drizzle-orm/pg-core';
+import type { Role } from '../../shared/auth/roles.js';
+import type { CalibrationBody } from '../../shared/field/calibration.js';
+
+/** Packed little-endian float32 samples (see server/storage/sample-codec.ts). */
+const float32Samples = customType<{ data: Uint8Array; driverData: Uint8Array }>({
+  dataType: () => 'bytea',
+});
+
+const epochMs = (name: string) => bigint(name, { mode: 'number' });
+
+export const users = pgTable('users', {
+  id: serial('id').primaryKey(),
+  /** Lower-case e-mail address, the sign-in name. */
+  email: text('email').notNull().unique(),
+  role: text('role').$type<Role>().notNull(),
+  /** argon2id PHC string. */
+  passwordHash: text('password_hash').notNull(),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+export const calibrations = pgTable(
+  'calibrations',
+  {
+    id: serial('id').primaryKey(),
+    version: integer('version').notNull().unique(),
+    label: text('label').notNull(),
+    /** K, G/A. */
+    gaussPerAmp: jsonb('gauss_per_amp').$type<CalibrationBody['gaussPerAmp']>().notNull(),
+    /** B0, G (coil frame). */
+    offsetGauss: jsonb('offset_gauss').$type<CalibrationBody['offsetGauss']>().notNull(),
+    /** R, coil frame → trap frame. */
+    coilToTrap: jsonb('coil_to_trap').$type<CalibrationBody['coilToTrap']>().notNull(),
+    createdBy: text('created_by').notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    approvedBy: text('approved_by'),
+    approvedAt: timestamp('approved_at', { withTimezone: true }),
+    active: boolean('active').notNull().default(false),
+  },
+  // At most one row may be active; the seed and every switch keep exactly one.
+  (t) => [uniqueIndex('calibrations_one_active').on(t.active).where(sql`${t.active}`)],
+);
+
+export const fastBatches = pgTable(
+  'fast_batches',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    /** Time of the first sample, Unix epoch ms (UTC). */
+    t0Ms: epochMs('t0_ms').notNull(),
+    /** Time just after the last sample (t0 + n/rate), Unix epoch ms. */
+    t1Ms: epochMs('t1_ms').notNull(),
+    seqFirst: bigint('seq_first', { mode: 'number' }).notNull(),
+    seqLast: bigint('seq_last', { mode: 'number' }).notNull(),
+    rateHz: doublePrecision('rate_hz').notNull(),
+    sampleCount: integer('sample_count').notNull(),
+    /** Calibration in force when the batch arrived. */
+    calibrationId: integer('calibration_id').references(() => calibrations.id),
+    currentX: float32Samples('current_x').notNull(),
+    currentY: float32Samples('current_y').notNull(),
+    currentZ: float32Samples('current_z').notNull(),
+    voltageX: float32Samples('voltage_x').notNull(),
+    voltageY: float32Samples('voltage_y').notNull(),
+    voltageZ: float32Samples('voltage_z').notNull(),
+    /** Setpoints of the batch's last frame, A. */
+    setpointX: real('setpoint_x').notNull(),
+    setpointY: real('setpoint_y').notNull(),
+    setpointZ: real('setpoint_z').notNull(),
+  },
+  (t) => [index('fast_batches_t1').on(t.t1Ms)],
+);
+
+export const slowSamples = pgTable(
+  'slow_samples',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    tMs: epochMs('t_ms').notNull(),
+    seq: bigint('seq', { mode: 'number' }).notNull(),
+    coilTempX: real('coil_temp_x').notNull(),
+    coilTempY: real('coil_temp_y').notNull(),
+    coilTempZ: real('coil_temp_z').notNull(),
+    flowX: real('flow_x').notNull(),
+    flowY: real('flow_y').notNull(),
+    flowZ: real('flow_z').notNull(),
+    waterSupplyC: real('water_supply_c').notNull(),
+    waterReturnX: real('water_return_x').notNull(),
+    waterReturnY: real('water_return_y').notNull(),
+    waterReturnZ: real('water_return_z').notNull(),
+  },
+  (t) => [index('slow_samples_t').on(t.tMs)],
+);
+
+/**
+ * Per-second statistics. Current statistics are over every raw sample; field statistics over
+ * the 100 Hz block means; θ and φ are the angles of the mean field vector (a mean of φ would
+ * break at the 0/360° wrap). Temperatures keep their maximum and flows their minimum, the
+ * directions that trip. Slow columns are null for a second without slow frames.
+ */
+export const rollups1s = pgTable('rollups_1s', {
+  /** Start of the second, Unix epoch ms. */
+  tMs: epochMs('t_ms').primaryKey(),
+  fastSamples: integer('fast_samples').notNull(),
+  currentXMean: real('current_x_mean').notNull(),
+  currentXMin: real('current_x_min').notNull(),
+  currentXMax: real('current_x_max').notNull(),
+  currentYMean: real('current_y_mean').notNull(),
+  currentYMin: real('current_y_min').notNull(),
+  currentYMax: real('current_y_max').notNull(),
+  currentZMean: real('current_z_mean').notNull(),
+  currentZMin: real('current_z_min').notNull(),
+  currentZMax: real('current_z_max').notNull(),
+  bXMean: real('b_x_mean').notNull(),
+  bYMean: real('b_y_mean').notNull(),
+  bZMean: real('b_z_mean').notNull(),
+  bMagMean: real('b_mag_mean').notNull(),
+  bMagMin: real('b_mag_min').notNull(),
+  bMagMax: real('b_mag_max').notNull(),
+  thetaDeg: real('theta_deg'),
+  phiDeg: real('phi_deg'),
+  slowSamples: integer('slow_samples').notNull(),
+  tempXMean: real('temp_x_mean'),
+  tempXMax: real('temp_x_max'),
+  tempYMean: real('temp_y_mean'),
+  tempYMax: real('temp_y_max'),
+  tempZMean: real('temp_z_mean'),
+  tempZMax: real('temp_z_max'),
+  flowXMean: real('flow_x_mean'),
+  flowXMin: real('flow_x_min'),
+  flowYMean: real('flow_y_mean'),
+  flowYMin: real('flow_y_min'),
+  flowZMean: real('flow_z_mean'),
+  flowZMin: real('flow_z_min'),
+});
+
+/** Append-only trail of every change and operator action; a trigger refuses UPDATE and DELETE. */
+export const auditLog = pgTable(
+  'audit_log',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+    /** E-mail of the person, or `system` for the server's own actions. */
+    actor: text('actor').notNull(),
+    action: text('action').notNull(),
+    subject: text('subject').notNull(),
+    oldValue: jsonb('old_value'),
+    newValue: jsonb('new_value'),
+    reason: text('reason'),
+  },
+  (t) => [index('audit_log_at').on(t.at)],
+);
+
+export const schema = { users, calibrations, fastBatches, slowSamples, rollups1s, auditLog };

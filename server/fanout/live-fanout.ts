@@ -1,0 +1,231 @@
+import type { IncomingMessage, Server } from 'node:http';
+import type { Duplex } from 'node:stream';
+import type { Logger } from 'pino';
+import { WebSocket, WebSocketServer } from 'ws';
+import { z } from 'zod';
+import { hasRole, type Role } from '../../shared/auth/roles.js';
+import type { SeriesChunk, ServerMessage, SlowChunk } from '../../shared/live/live-state.js';
+import type { AccessControl, SignedInUser } from '../auth/access-control.js';
+import type { LiveStore } from '../live/live-store.js';
+import { appendSeriesChunk, appendSlowChunk, DECIMATED_RATE_HZ, emptySeriesChunk, emptySlowChunk } from '../live/series-chunk.js';
+import type { ChunkSink } from '../pipeline/telemetry-pipeline.js';
+
+export const WS_PATH = '/ws';
+/** Close codes: sign-in missing, late or invalid / role too low. */
+export const WS_CLOSE_UNAUTHENTICATED = 4401;
+export const WS_CLOSE_FORBIDDEN = 4403;
+/** Standard close code 1013: try again later (too many unauthenticated connections). */
+export const WS_CLOSE_TRY_AGAIN_LATER = 1013;
+/** Connections allowed to wait for sign-in at once, so idle sockets cannot pile up. */
+const MAX_PENDING_SIGN_IN = 200;
+/** Everyone signed in may watch; the check stays explicit so a later change is one line. */
+const WATCH_ROLE: Role = 'viewer';
+
+const AuthMessage = z.object({ type: z.literal('auth'), token: z.string().min(1).max(4096) });
+
+export interface FanoutOptions {
+  /** Time allowed for the `auth` message after connecting, ms. */
+  authTimeoutMs?: number;
+  /** Least time between two messages to one client, ms (33 ms ≈ 30 per second). */
+  minIntervalMs?: number;
+  /** Unsent bytes above which a client counts as slow and its updates are skipped. */
+  maxBufferedBytes?: number;
+  /** A client slow for this long is disconnected, ms. */
+  maxSlowMs?: number;
+}
+
+export interface FanoutCounters {
+  /** Signed-in clients now connected. */
+  clients: number;
+  /** Connections still waiting to sign in. */
+  pendingSignIn: number;
+  messagesSent: number;
+  /** Updates not sent because the client's send buffer was full. */
+  skippedUpdates: number;
+  /** Clients disconnected for staying slow. */
+  droppedClients: number;
+}
+
+interface Viewer {
+  ws: WebSocket;
+  user: SignedInUser;
+  series: SeriesChunk;
+  slow: SlowChunk;
+  lastSentAt: number;
+  timer: NodeJS.Timeout | null;
+  slowSince: number | null;
+}
+
+/**
+ * WebSocket fan-out of the live state on `/ws` of the HTTP server. Protocol: the client's
+ * first message is `{"type":"auth","token":…}` within 5 s (else close 4401); the server
+ * answers `hello`, then sends `live` messages carrying the chart points gathered since that
+ * client's previous message, at most one per `minIntervalMs`. A client whose send buffer is
+ * over the bound has updates skipped, and is dropped if that lasts; the pipeline only appends
+ * to per-client buffers, so no browser can slow ingest.
+ */
+export class LiveFanout implements ChunkSink {
+  private readonly wss = new WebSocketServer({ noServer: true, maxPayload: 8 * 1024 });
+  private readonly viewers = new Set<Viewer>();
+  private readonly waiting = new Map<WebSocket, NodeJS.Timeout>();
+  private readonly counts = { messagesSent: 0, skippedUpdates: 0, droppedClients: 0 };
+  private readonly opts: Required<FanoutOptions>;
+  private closing: Promise<void> | undefined;
+  private readonly onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer) => this.upgrade(req, socket, head);
+
+  constructor(
+    private readonly server: Server,
+    private readonly access: AccessControl,
+    private readonly live: LiveStore,
+    private readonly log: Logger,
+    opts: FanoutOptions = {},
+  ) {
+    this.opts = { authTimeoutMs: 5000, minIntervalMs: 33, maxBufferedBytes: 1 << 20, maxSlowMs: 10_000, ...opts };
+    server.on('upgrade', this.onUpgrade);
+  }
+
+  publish(series: SeriesChunk | null, slow: SlowChunk | null): void {
+    for (const viewer of this.viewers) {
+      if (series) appendSeriesChunk(viewer.series, series);
+      if (slow) appendSlowChunk(viewer.slow, slow);
+      this.schedule(viewer);
+    }
+  }
+
+  counters(): FanoutCounters {
+    return { clients: this.viewers.size, pendingSignIn: this.waiting.size, ...this.counts };
+  }
+
+  /** Disconnects every client and stops accepting new ones. Safe to call more than once. */
+  close(): Promise<void> {
+    this.closing ??= this.shutDown();
+    return this.closing;
+  }
+
+  private async shutDown(): Promise<void> {
+    this.server.off('upgrade', this.onUpgrade);
+    for (const [ws, timer] of this.waiting) {
+      clearTimeout(timer);
+      ws.terminate();
+    }
+    this.waiting.clear();
+    for (const viewer of this.viewers) this.forget(viewer);
+    for (const ws of this.wss.clients) ws.terminate();
+    await new Promise<void>((resolve) => this.wss.close(() => resolve()));
+  }
+
+  private upgrade(req: IncomingMessage, socket: Duplex, head: Buffer): void {
+    const path = new URL(req.url ?? '/', 'http://localhost').pathname;
+    if (path !== WS_PATH) {
+      socket.end('HTTP/1.1 404 Not Found\r\nConnection: close\r\n\r\n');
+      return;
+    }
+    this.wss.handleUpgrade(req, socket, head, (ws) => this.awaitSignIn(ws));
+  }
+
+  private awaitSignIn(ws: WebSocket): void {
+    if (this.waiting.size >= MAX_PENDING_SIGN_IN) {
+      ws.close(WS_CLOSE_TRY_AGAIN_LATER, 'too many connections waiting to sign in');
+      return;
+    }
+    const timer = setTimeout(() => this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'sign-in timed out: send {"type":"auth","token":…} first'), this.opts.authTimeoutMs);
+    this.waiting.set(ws, timer);
+    ws.on('error', (error) => this.log.debug({ err: error }, 'websocket error'));
+    ws.once('close', () => {
+      clearTimeout(timer);
+      this.waiting.delete(ws);
+    });
+    ws.once('message', (data, isBinary) => {
+      clearTimeout(timer);
+      const parsed = isBinary ? null : AuthMessage.safeParse(safeJson(data.toString()));
+      if (!parsed?.success) {
+        this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'the first message must be {"type":"auth","token":…}');
+        return;
+      }
+      this.access.userForToken(parsed.data.token).then(
+        (user) => this.admit(ws, user),
+        (error: unknown) => {
+          this.log.error({ err: error }, 'websocket sign-in failed');
+          this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'sign-in failed');
+        },
+      );
+    });
+  }
+
+  private admit(ws: WebSocket, user: SignedInUser | null): void {
+    this.waiting.delete(ws);
+    if (ws.readyState !== WebSocket.OPEN) return;
+    if (!user) return this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'invalid or expired token: sign in again');
+    if (!hasRole(user.role, WATCH_ROLE)) return this.refuse(ws, WS_CLOSE_FORBIDDEN, `watching needs the ${WATCH_ROLE} role`);
+    const viewer: Viewer = { ws, user, series: emptySeriesChunk(), slow: emptySlowChunk(), lastSentAt: -Infinity, timer: null, slowSince: null };
+    this.viewers.add(viewer);
+    ws.on('close', () => this.forget(viewer));
+    this.sendMessage(ws, {
+      type: 'hello',
+      user: { email: user.email, role: user.role },
+      serverTime: new Date().toISOString(),
+      decimatedRateHz: DECIMATED_RATE_HZ,
+    });
+    this.send(viewer);
+  }
+
+  private refuse(ws: WebSocket, code: number, reason: string): void {
+    this.waiting.delete(ws);
+    if (ws.readyState === WebSocket.OPEN) ws.close(code, reason);
+  }
+
+  private schedule(viewer: Viewer): void {
+    if (viewer.timer) return;
+    const wait = viewer.lastSentAt + this.opts.minIntervalMs - performance.now();
+    if (wait <= 0) {
+      this.send(viewer);
+      return;
+    }
+    viewer.timer = setTimeout(() => {
+      viewer.timer = null;
+      this.send(viewer);
+    }, wait);
+  }
+
+  private send(viewer: Viewer): void {
+    const { ws } = viewer;
+    if (ws.readyState !== WebSocket.OPEN) return;
+    const now = performance.now();
+    if (ws.bufferedAmount > this.opts.maxBufferedBytes) {
+      this.counts.skippedUpdates++;
+      viewer.series = emptySeriesChunk();
+      viewer.slow = emptySlowChunk();
+      viewer.slowSince ??= now;
+      if (now - viewer.slowSince > this.opts.maxSlowMs) {
+        this.counts.droppedClients++;
+        this.log.warn({ user: viewer.user.email }, 'websocket client too slow; disconnected');
+        ws.terminate();
+      }
+      return;
+    }
+    viewer.slowSince = null;
+    this.sendMessage(ws, { type: 'live', live: this.live.snapshot(), series: viewer.series, slow: viewer.slow });
+    viewer.series = emptySeriesChunk();
+    viewer.slow = emptySlowChunk();
+    viewer.lastSentAt = now;
+  }
+
+  private sendMessage(ws: WebSocket, message: ServerMessage): void {
+    ws.send(JSON.stringify(message));
+    this.counts.messagesSent++;
+  }
+
+  private forget(viewer: Viewer): void {
+    if (viewer.timer) clearTimeout(viewer.timer);
+    viewer.timer = null;
+    this.viewers.delete(viewer);
+  }
+}
+
+function safeJson(text: string): unknown {
+  try {
+    return JSON.parse(text);
+  } catch {
+    return null;
+  }
+}

@@ -1,0 +1,97 @@
+import { randomUUID } from 'node:crypto';
+import mqtt from 'mqtt';
+import type { Logger } from 'pino';
+import { TOPICS } from '../../shared/telemetry/topics.js';
+import type { AdmittedMessage, FrameGate } from './frame-gate.js';
+
+export interface IngestOptions {
+  url: string;
+  username: string | null;
+  password: string | null;
+  gate: FrameGate;
+  /** Receives every admitted message, synchronously, in arrival order. */
+  deliver: (message: AdmittedMessage) => void;
+  log: Logger;
+  /** How long to wait for the first connection, ms. */
+  connectTimeoutMs?: number;
+}
+
+export interface RunningIngest {
+  connected(): boolean;
+  /** Exceptions thrown by `deliver` (each logged; the message is dropped, ingest goes on). */
+  deliveryErrors(): number;
+  close(): Promise<void>;
+}
+
+/**
+ * The server's MQTT subscription to the controller's telemetry and status (MQTT 3.1.1, the
+ * server account). Every message goes through the frame gate before anything else sees it.
+ * Resolves once subscribed; after a lost connection the client keeps reconnecting.
+ */
+export async function startIngest(opts: IngestOptions): Promise<RunningIngest> {
+  const client = mqtt.connect(opts.url, {
+    protocolVersion: 4,
+    clientId: `tiltwatch-server-${randomUUID().slice(0, 8)}`,
+    username: opts.username ?? undefined,
+    password: opts.password ?? undefined,
+    clean: true,
+    reconnectPeriod: 1000,
+    connectTimeout: 5000,
+  });
+  let deliveryErrors = 0;
+
+  client.on('message', (topic, payload) => {
+    const message = opts.gate.admit(topic, payload);
+    if (!message) return;
+    try {
+      opts.deliver(message);
+    } catch (error) {
+      deliveryErrors++;
+      opts.log.error({ err: error, topic }, 'telemetry pipeline failed on an admitted message');
+    }
+  });
+
+  try {
+    await firstConnection(client, opts.url, opts.connectTimeoutMs ?? 10_000);
+    await client.subscribeAsync({ [TOPICS.fast]: { qos: 0 }, [TOPICS.slow]: { qos: 0 }, [TOPICS.status]: { qos: 1 } });
+  } catch (error) {
+    await client.endAsync(true);
+    throw error;
+  }
+  opts.log.info({ url: opts.url }, 'subscribed to controller telemetry');
+  client.on('offline', () => opts.log.warn({ url: opts.url }, 'MQTT connection lost; reconnecting'));
+  client.on('error', (error) => opts.log.warn({ err: error }, 'MQTT client error'));
+
+  return {
+    connected: () => client.connected,
+    deliveryErrors: () => deliveryErrors,
+    close: () => client.endAsync(true),
+  };
+}
+
+function firstConnection(client: mqtt.MqttClient, url: string, timeoutMs: number): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const timer = setTimeout(() => {
+      finish();
+      reject(new Error(`Cannot reach the MQTT broker at ${url} within ${timeoutMs / 1000} s: check MQTT_URL and that the broker runs`));
+    }, timeoutMs);
+    const onConnect = () => {
+      finish();
+      resolve();
+    };
+    const onError = (error: Error & { code?: number }) => {
+      // CONNACK 4/5: bad user name or password / not authorised. Retrying will not help.
+      if (error.code === 4 || error.code === 5) {
+        finish();
+        reject(new Error(`The MQTT broker at ${url} refused the server's credentials: check MQTT_USERNAME and MQTT_PASSWORD`));
+      }
+    };
+    const finish = () => {
+      clearTimeout(timer);
+      client.off('connect', onConnect);
+      client.off('error', onError);
+    };
+    client.on('connect', onConnect);
+    client.on('error', onError);
+  });
+}

@@ -1,0 +1,28 @@
+import { z } from 'zod';
+import type { Db } from '../db/database.js';
+import type { CalibrationCache } from '../field/calibration-cache.js';
+import type { RouteHandlers } from '../http/route-table.js';
+import { parseInput } from '../http/validate.js';
+import type { TelemetryWriter } from '../storage/telemetry-writer.js';
+import { querySeries } from './series-query.js';
+
+const SeriesRequest = z.object({
+  seconds: z.coerce
+    .number({ error: 'must be a number of seconds' })
+    .int('must be a whole number of seconds')
+    .min(1, 'must be at least 1')
+    .max(86_400, 'must be at most 86400 (one day)'),
+});
+
+/** `GET /api/series?seconds=N` → `{ series, slow }` for the last N seconds (1…86400). */
+export function seriesHandlers(db: Db, calibrations: CalibrationCache, writer: TelemetryWriter): Pick<RouteHandlers, 'series'> {
+  return {
+    series: async (req, res) => {
+      const { seconds } = parseInput(SeriesRequest, req.query, 'query');
+      // Frames still queued for the next flush belong in the answer too.
+      await writer.flush();
+      const toMs = Date.now();
+      res.json(await querySeries(db, calibrations, toMs - seconds * 1000, toMs));
+    },
+  };
+}

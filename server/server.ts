@@ -1,0 +1,192 @@
+import { createServer, type Server } from 'node:http';
+import path from 'node:path';
+import type { Logger } from 'pino';
+import { startBroker, type RunningBroker } from '../broker/broker.js';
+import { loadOrCreateCredentials, type BrokerCredentials } from '../broker/credentials.js';
+import { AccessControl } from './auth/access-control.js';
+import { authHandlers } from './auth/auth-routes.js';
+import { loadOrCreateJwtSecret } from './auth/jwt-secret.js';
+import { LoginUseCase } from './auth/login.js';
+import { TokenIssuer } from './auth/tokens.js';
+import { seedDemoAccounts } from './auth/users-repository.js';
+import { calibrationHandlers } from './calibration/calibration-routes.js';
+import { seedDemoCalibration } from './calibration/calibration-repository.js';
+import type { ServerConfig } from './config.js';
+import { lockDataFolder } from './data-folder/data-folder-lock.js';
+import { openDatabase } from './db/database.js';
+import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
+import { CalibrationCache } from './field/calibration-cache.js';
+import { healthHandlers, type HealthReport } from './health/health-route.js';
+import { createApp } from './http/app.js';
+import { FrameGate } from './ingest/frame-gate.js';
+import { startIngest } from './ingest/mqtt-ingest.js';
+import { LiveStore } from './live/live-store.js';
+import { liveHandlers } from './live/live-routes.js';
+import { createLogger } from './logging/logger.js';
+import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
+import { projectRoot } from './project-root.js';
+import { seriesHandlers } from './series/series-routes.js';
+import { RetentionTask } from './storage/retention.js';
+import { RollupAccumulator } from './storage/rollup-accumulator.js';
+import { TelemetryWriter } from './storage/telemetry-writer.js';
+
+export interface StartOptions {
+  /** Log destination; default a pino logger at `config.logLevel` on stdout. */
+  log?: Logger;
+  /** WebSocket pacing and limits (defaults: 5 s to sign in, ≥ 33 ms between messages, 1 MB buffer). */
+  fanout?: FanoutOptions;
+}
+
+/** A started server; its owner must call `close()`. */
+export interface RunningServer {
+  /** HTTP and WebSocket port actually bound. */
+  port: number;
+  /** Address to open, e.g. `http://127.0.0.1:4280`. */
+  url: string;
+  /** The MQTT broker the server subscribes to (embedded or external). */
+  mqttUrl: string;
+  /** Accounts of the embedded broker; null with an external broker. */
+  brokerCredentials: BrokerCredentials | null;
+  /** True when the demo accounts were created by this start (first start on this database). */
+  seededDemoAccounts: boolean;
+  /** The same report as `GET /api/health`. */
+  counters(): HealthReport;
+  /** Stops everything in reverse order of start; resolves when nothing is left running. */
+  close(): Promise<void>;
+}
+
+/** Built Angular app served at `/`. */
+export const WEB_ROOT = path.join(projectRoot(), 'dist', 'tiltwatch', 'browser');
+
+/**
+ * Starts Tiltwatch's server: takes the data folder, opens and migrates the database, seeds the
+ * demo calibration and accounts on first start, starts the embedded broker (unless MQTT_URL
+ * names an external one), subscribes to telemetry, and serves the API, the WebSocket and the
+ * web app. `config.port` 0 picks a free port. If any step fails, what was started is closed.
+ */
+export async function startServer(config: ServerConfig, opts: StartOptions = {}): Promise<RunningServer> {
+  const log = opts.log ?? createLogger(config.logLevel);
+  const startedAt = performance.now();
+  const closers: (() => unknown)[] = [];
+  let closing: Promise<void> | undefined;
+  const close = () => {
+    closing ??= (async () => {
+      for (const closer of closers.reverse()) {
+        try {
+          await closer();
+        } catch (error) {
+          log.error({ err: error }, 'error while shutting down');
+        }
+      }
+    })();
+    return closing;
+  };
+
+  try {
+    const lock = lockDataFolder(config.dataDir);
+    closers.push(() => lock.release());
+    const tokens = new TokenIssuer(loadOrCreateJwtSecret(config.dataDir));
+
+    const database = await openDatabase({ dataDir: config.dataDir, databaseUrl: config.databaseUrl });
+    closers.push(() => database.close());
+    const { db } = database;
+    await seedDemoCalibration(db);
+    const seededDemoAccounts = await seedDemoAccounts(db, config.demoPassword);
+    const calibrations = new CalibrationCache(db);
+    await calibrations.reload();
+
+    const retention = new RetentionTask(db, config.retention, (error) => log.error({ err: error }, 'pruning old telemetry failed'));
+    closers.push(() => retention.close());
+    const rollups = new RollupAccumulator();
+    const writer = new TelemetryWriter(db, rollups, { onError: (error) => log.error({ err: error }, 'storing telemetry failed') });
+    closers.push(() => writer.close());
+
+    let broker: RunningBroker | null = null;
+    let brokerCredentials: BrokerCredentials | null = null;
+    let mqtt: { url: string; username: string | null; password: string | null };
+    if (config.mqtt.mode === 'embedded') {
+      brokerCredentials = await loadOrCreateCredentials(config.dataDir);
+      const started = await startBroker({
+        port: config.mqtt.port,
+        host: config.mqtt.host,
+        credentials: brokerCredentials,
+        log: (msg, fields) => log.debug(fields ?? {}, msg),
+      });
+      broker = started;
+      closers.push(() => started.close());
+      mqtt = { url: started.url, ...brokerCredentials.server };
+    } else {
+      mqtt = config.mqtt;
+    }
+
+    const access = new AccessControl(db, tokens);
+    const live = new LiveStore();
+    const httpServer = createServer();
+    const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout);
+    closers.push(() => fanout.close());
+    const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout });
+    const gate = new FrameGate();
+    const ingest = await startIngest({ ...mqtt, gate, deliver: (message) => pipeline.handle(message), log });
+    closers.push(() => ingest.close());
+
+    const report = (): HealthReport => {
+      const fanoutCounters = fanout.counters();
+      return {
+        status: 'ok',
+        uptimeS: Math.round((performance.now() - startedAt) / 1000),
+        frames: gate.counters(),
+        clients: fanoutCounters.clients,
+        broker: broker?.counters() ?? null,
+        db: database.kind,
+        mqttConnected: ingest.connected(),
+        fanout: fanoutCounters,
+        storage: writer.counters(),
+      };
+    };
+    const app = createApp({
+      handlers: {
+        ...healthHandlers(report),
+        ...authHandlers(new LoginUseCase(db, tokens), config.loginAttemptsPerMinute),
+        ...liveHandlers(live),
+        ...seriesHandlers(db, calibrations, writer),
+        ...calibrationHandlers(db),
+      },
+      access,
+      webRoot: WEB_ROOT,
+      log,
+    });
+    httpServer.on('request', app);
+    await listen(httpServer, config.port, config.host);
+    closers.push(() => stopHttp(httpServer, fanout));
+
+    const address = httpServer.address();
+    const port = typeof address === 'object' && address !== null ? address.port : config.port;
+    const url = `http://${displayHost(config.host)}:${port}`;
+    log.info({ url, mqtt: mqtt.url, db: database.kind, dataDir: config.dataDir }, 'Tiltwatch server started');
+    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, counters: report, close };
+  } catch (error) {
+    await close();
+    throw error;
+  }
+}
+
+function listen(server: Server, port: number, host: string): Promise<void> {
+  return new Promise((resolve, reject) => {
+    server.once('error', (error) => reject(new Error(`Cannot listen on ${host}:${port} (PORT/HOST): ${error.message}`)));
+    server.listen(port, host, () => resolve());
+  });
+}
+
+/** Stops accepting, ends open HTTP connections and WebSockets, and waits until all are gone. */
+async function stopHttp(server: Server, fanout: LiveFanout): Promise<void> {
+  const closed = new Promise<void>((resolve) => server.close(() => resolve()));
+  server.closeAllConnections();
+  await fanout.close();
+  await closed;
+}
+
+/** A host to print in an address a person can open. */
+function displayHost(host: string): string {
+  if (host === '0.0.0.0' || host === '::' || host === '') return 'localhost';
+  return host.includes(':') ? `[${host}]` : host;
+}
