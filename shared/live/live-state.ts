@@ -1,5 +1,6 @@
 import type { Vec3, FieldState } from '../field/field-vector.js';
 import type { Role } from '../auth/roles.js';
+import type { AlarmsMessage } from '../alarms/alarm-api.js';
 
 /** Per-axis numbers keyed by coil pair. */
 export type PerAxis<T> = { x: T; y: T; z: T };
@@ -92,6 +93,7 @@ export interface SlowChunk {
 export type ServerMessage =
   | { type: 'hello'; user: { email: string; role: Role }; serverTime: string; decimatedRateHz: number }
   | { type: 'live'; live: LiveState; series: SeriesChunk; slow: SlowChunk }
+  | AlarmsMessage
   | { type: 'error'; message: string };
 
 export type { Vec3 };

@@ -1,0 +1,11 @@
+/**
+ * `npm run bench`: every benchmark of the product, printed as figures with their targets and
+ * ratios measured in the same run. Not part of `npm test`: timing belongs here, never in tests.
+ */
+import { benchPhysics } from '../../shared/physics/physics.bench.js';
+import { benchPipeline } from './pipeline.bench.js';
+import { printFigures } from './figures.js';
+
+printFigures('Physics model (shared/physics)', await benchPhysics());
+printFigures('Telemetry pipeline (controller → broker → server → WebSocket)', await benchPipeline());
+process.exit(0);
