@@ -25,7 +25,7 @@ describe('Live page in Chromium', () => {
 
     const field = page.getByRole('region', { name: 'Field' });
     await field.waitFor();
-    await expect.poll(() => field.innerText(), { timeout: 15_000 }).toMatch(/\d+\.\d+ G/);
+    await expect.poll(() => field.innerText(), { timeout: 15_000 }).toMatch(/\d+\.\d+\s*G/);
     const before = await field.innerText();
     await expect.poll(() => field.innerText(), { timeout: 15_000 }).not.toBe(before);
     expect(await page.getByRole('region', { name: 'Coils' }).innerText()).toMatch(/A/);
