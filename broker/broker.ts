@@ -96,7 +96,8 @@ export async function startBroker(opts: BrokerOptions): Promise<RunningBroker> {
 
   // aedes closes only clients that completed CONNECT; sockets still in the handshake are ours.
   const sockets = new Set<Socket>();
-  const server = createServer(aedes.handle);
+  // No Nagle delay: a trip command or frame must not wait for the previous segment's acknowledgement.
+  const server = createServer({ noDelay: true }, aedes.handle);
   server.on('connection', (socket) => {
     sockets.add(socket);
     socket.on('close', () => sockets.delete(socket));

@@ -23,6 +23,8 @@ describe('loadConfig', () => {
       logLevel: 'info',
       retention: { rawHours: 24, rollupDays: 30 },
       loginAttemptsPerMinute: 10,
+      mail: { smtpUrl: null, catcherPort: 0, onCall: ['oncall@lindqvist-hall.example'], from: 'tiltwatch@lindqvist-hall.example' },
+      staleTripMs: 250,
     });
     expect(config.dataDir).toMatch(/[/\\]data$/);
   });
@@ -42,6 +44,23 @@ describe('loadConfig', () => {
     expect(config.databaseUrl).toBe('postgres://tiltwatch@db.example/tiltwatch');
   });
 
+  it('reads the mail server, the on-call list and the stale trip time', () => {
+    const config = loadConfig({
+      SMTP_URL: 'smtp://relay.lindqvist-hall.example:587',
+      TILTWATCH_ON_CALL: ' oncall@lindqvist-hall.example, ada.berg@lindqvist-hall.example ,',
+      TILTWATCH_MAIL_FROM: 'alarms@lindqvist-hall.example',
+      TILTWATCH_STALE_TRIP_MS: '400',
+    });
+    expect(config.mail).toEqual({
+      smtpUrl: 'smtp://relay.lindqvist-hall.example:587',
+      catcherPort: 0,
+      onCall: ['oncall@lindqvist-hall.example', 'ada.berg@lindqvist-hall.example'],
+      from: 'alarms@lindqvist-hall.example',
+    });
+    expect(config.staleTripMs).toBe(400);
+    expect(loadConfig({ SMTP_CATCHER_PORT: '2525' }).mail.catcherPort).toBe(2525);
+  });
+
   it.each([
     [{ PORT: 'eighty' }, /^PORT="eighty" must be a whole number from 0 to 65535/],
     [{ PORT: '70000' }, /^PORT="70000" must be a whole number/],
@@ -56,6 +75,14 @@ describe('loadConfig', () => {
     [{ MQTT_USERNAME: 'server', MQTT_PASSWORD: 'x' }, /only used with MQTT_URL/],
     [{ MQTT_URL: 'mqtt://b.example', MQTT_USERNAME: 'server' }, /MQTT_USERNAME and MQTT_PASSWORD must be set together/],
     [{ MQTT_URL: 'mqtt://b.example', MQTT_PORT: '1884' }, /MQTT_HOST\/MQTT_PORT configure the embedded broker and conflict with MQTT_URL/],
+    [{ SMTP_URL: 'relay.example:25' }, /^SMTP_URL="relay.example:25" must look like smtp:\/\//],
+    [{ SMTP_CATCHER_PORT: 'any' }, /^SMTP_CATCHER_PORT="any" must be a whole number from 0 to 65535/],
+    [{ SMTP_URL: 'smtp://relay.example', SMTP_CATCHER_PORT: '2525' }, /SMTP_CATCHER_PORT configures the local mail catcher/],
+    [{ TILTWATCH_ON_CALL: 'oncall@lindqvist-hall.example;lead' }, /^TILTWATCH_ON_CALL="oncall@lindqvist-hall.example;lead" must be e-mail addresses separated by commas/],
+    [{ TILTWATCH_ON_CALL: ',' }, /^TILTWATCH_ON_CALL="," must be e-mail addresses/],
+    [{ TILTWATCH_MAIL_FROM: 'tiltwatch' }, /^TILTWATCH_MAIL_FROM="tiltwatch" must be an e-mail address/],
+    [{ TILTWATCH_STALE_TRIP_MS: '0' }, /^TILTWATCH_STALE_TRIP_MS="0" must be a whole number of milliseconds from 1 to 60000/],
+    [{ TILTWATCH_STALE_TRIP_MS: '250.5' }, /^TILTWATCH_STALE_TRIP_MS="250.5" must be a whole number of milliseconds/],
   ])('names the variable and the fix for %o', (env, message) => {
     expect(problemsOf(env)).toEqual(expect.arrayContaining([expect.stringMatching(message)]));
   });

@@ -18,12 +18,20 @@ import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
 import { CalibrationCache } from './field/calibration-cache.js';
 import { healthHandlers, type HealthReport } from './health/health-route.js';
 import { createApp } from './http/app.js';
-import { FrameGate } from './ingest/frame-gate.js';
+import { FrameGate, type AdmittedMessage } from './ingest/frame-gate.js';
+import { startSupervision } from './interlock/start-supervision.js';
 import { startIngest } from './ingest/mqtt-ingest.js';
 import { LiveStore } from './live/live-store.js';
 import { liveHandlers } from './live/live-routes.js';
 import { createLogger } from './logging/logger.js';
 import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
+import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
+import { PredictionEngine } from './prediction/prediction-engine.js';
+import { PredictionHistoryRing } from './prediction/prediction-history.js';
+import { predictionHandlers } from './prediction/prediction-routes.js';
+import { ActiveProfileLoader } from './profiles/active-profile.js';
+import { seedDemoProfile } from './profiles/profile-repository.js';
+import { profileHandlers } from './profiles/profile-routes.js';
 import { projectRoot } from './project-root.js';
 import { seriesHandlers } from './series/series-routes.js';
 import { RetentionTask } from './storage/retention.js';
@@ -60,9 +68,10 @@ export const WEB_ROOT = path.join(projectRoot(), 'dist', 'tiltwatch', 'browser')
 
 /**
  * Starts Tiltwatch's server: takes the data folder, opens and migrates the database, seeds the
- * demo calibration and accounts on first start, starts the embedded broker (unless MQTT_URL
- * names an external one), subscribes to telemetry, and serves the API, the WebSocket and the
- * web app. `config.port` 0 picks a free port. If any step fails, what was started is closed.
+ * demo calibration, sample profile and accounts on first start, starts the embedded broker
+ * (unless MQTT_URL names an external one) and the prediction worker, subscribes to telemetry,
+ * and serves the API, the WebSocket and the web app. `config.port` 0 picks a free port. If any
+ * step fails, what was started is closed.
  */
 export async function startServer(config: ServerConfig, opts: StartOptions = {}): Promise<RunningServer> {
   const log = opts.log ?? createLogger(config.logLevel);
@@ -91,6 +100,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     closers.push(() => database.close());
     const { db } = database;
     await seedDemoCalibration(db);
+    await seedDemoProfile(db);
     const seededDemoAccounts = await seedDemoAccounts(db, config.demoPassword);
     const calibrations = new CalibrationCache(db);
     await calibrations.reload();
@@ -124,10 +134,26 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const httpServer = createServer();
     const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout);
     closers.push(() => fanout.close());
-    const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout });
+    // Closed after ingest stops and before the fan-out it publishes to.
+    const engine = new PredictionEngine({ log });
+    closers.push(() => engine.close());
+    const history = new PredictionHistoryRing();
+    const prediction = new LivePredictionFeed({ engine, live, history, fanout });
+    const profiles = new ActiveProfileLoader(db, prediction);
+    await profiles.reload();
+    const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout, prediction });
     const gate = new FrameGate();
-    const ingest = await startIngest({ ...mqtt, gate, deliver: (message) => pipeline.handle(message), log });
+    // Alarms and the software interlock evaluate each message after the pipeline applied it.
+    const supervision = await startSupervision({ db, live, sink: fanout, config, log });
+    closers.push(() => supervision.close());
+    const deliver = (message: AdmittedMessage) => {
+      pipeline.handle(message);
+      supervision.supervisor.observe(message);
+    };
+    const ingest = await startIngest({ ...mqtt, gate, deliver, log });
     closers.push(() => ingest.close());
+    supervision.supervisor.attach(ingest);
+    supervision.supervisor.start();
 
     const report = (): HealthReport => {
       const fanoutCounters = fanout.counters();
@@ -150,6 +176,9 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...liveHandlers(live),
         ...seriesHandlers(db, calibrations, writer),
         ...calibrationHandlers(db),
+        ...profileHandlers(db, () => profiles.reload()),
+        ...predictionHandlers(history),
+        ...supervision.handlers,
       },
       access,
       webRoot: WEB_ROOT,

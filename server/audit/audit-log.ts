@@ -12,18 +12,29 @@ export interface AuditEntry {
   oldValue?: unknown;
   newValue?: unknown;
   reason?: string | null;
+  /** When it happened, when recorded later than it happened (default: the time of writing). */
+  at?: Date;
 }
 
 type Writer = Pick<Db, 'insert'>;
 
 /** Appends an entry; pass a transaction as `db` to make it part of the change it records. */
 export async function appendAudit(db: Writer, entry: AuditEntry): Promise<void> {
-  await db.insert(auditLog).values({
-    actor: entry.actor,
-    action: entry.action,
-    subject: entry.subject,
-    oldValue: entry.oldValue ?? null,
-    newValue: entry.newValue ?? null,
-    reason: entry.reason ?? null,
-  });
+  await appendAuditEntries(db, [entry]);
+}
+
+/** Appends several entries in one statement (e.g. queued operator actions). */
+export async function appendAuditEntries(db: Writer, entries: readonly AuditEntry[]): Promise<void> {
+  if (entries.length === 0) return;
+  await db.insert(auditLog).values(
+    entries.map((entry) => ({
+      actor: entry.actor,
+      action: entry.action,
+      subject: entry.subject,
+      oldValue: entry.oldValue ?? null,
+      newValue: entry.newValue ?? null,
+      reason: entry.reason ?? null,
+      ...(entry.at ? { at: entry.at } : {}),
+    })),
+  );
 }

@@ -3,13 +3,24 @@ import path from 'node:path';
 import jwt from 'jsonwebtoken';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES, hasRole, type Role } from '../../shared/auth/roles.js';
+import { DEMO_PROFILE } from '../../shared/profiles/demo-profile.js';
 import { API_ROUTES, type RouteId } from '../http/route-table.js';
 import type { RunningServer } from '../server.js';
 import { makeDataDir, removeDataDir, signIn, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
 import { JWT_SECRET_FILE } from './jwt-secret.js';
 
-/** A request each route answers with 2xx when the caller may use it. */
-const VALID_REQUEST: Record<RouteId, { query?: string; body?: unknown }> = {
+type Caller = Role | 'nobody';
+
+/** A different alarm for each caller, so that one caller's shelving does not block the next. */
+const alarmFor = (caller: Caller, action: string) => `/api/alarms/current.${caller === 'lead' ? 'y' : caller === 'admin' ? 'z' : 'x'}.H/${action}`;
+
+/**
+ * A request each route answers with 2xx when the caller may use it (`path` fills in a route's
+ * parameters, per caller where needed). `allowedStatus` is the answer of the route itself for
+ * an allowed caller where no 2xx request exists on a quiet apparatus: resetting what is not
+ * tripped or latched is refused with 409 after the role check.
+ */
+const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => string); query?: string; body?: unknown; allowedStatus?: number }> = {
   health: {},
   'auth.login': { body: { email: 'viewer@tiltwatch.example', password: TEST_PASSWORD } },
   'auth.me': {},
@@ -18,6 +29,26 @@ const VALID_REQUEST: Record<RouteId, { query?: string; body?: unknown }> = {
   channels: {},
   'calibrations.list': {},
   'calibrations.active': {},
+  'profiles.list': {},
+  'profiles.active': {},
+  'profiles.save': { body: { profile: { ...DEMO_PROFILE, name: 'Access check' }, reason: 'route access check' } },
+  // The seeded demo profile (id 1) is already active, so activating it again changes nothing.
+  'profiles.activate': { path: '/api/profiles/1/activate', body: { reason: 'route access check' } },
+  'prediction.history': { query: '?seconds=60' },
+  'alarms.list': { query: '?state=all' },
+  'alarms.history': { query: '?hours=1' },
+  'alarms.health': {},
+  // Nothing is raised, so acknowledging changes nothing and answers 200.
+  'alarms.acknowledge': { path: '/api/alarms/stale.H/acknowledge' },
+  'alarms.shelve': { path: (caller) => alarmFor(caller, 'shelve'), body: { minutes: 5, reason: 'route access check' } },
+  'alarms.unshelve': { path: (caller) => alarmFor(caller, 'unshelve'), body: { reason: 'route access check' } },
+  'alarms.out-of-service': { path: (caller) => `/api/alarms/waterSupply.${caller === 'admin' ? 'H' : 'L'}/out-of-service`, body: { on: true, reason: 'route access check' } },
+  'alarms.reset': { path: '/api/alarms/flow.x.LL/reset', body: { reason: 'route access check' }, allowedStatus: 409 },
+  'alarm-limits.list': {},
+  'alarm-limits.update': { path: '/api/alarm-limits/waterReturn.x.H', body: { limit: 35, reason: 'route access check' } },
+  'interlock.status': {},
+  'interlock.reset': { body: { reason: 'route access check' }, allowedStatus: 409 },
+  'admin.outbox': {},
 };
 
 describe('sign-in and roles', () => {
@@ -106,13 +137,14 @@ describe('sign-in and roles', () => {
     expect(((await res.json()) as { error: string }).error).toMatch(/No API route GET \/api\/no-such-thing/);
   });
 
-  const callers: (Role | 'nobody')[] = ['nobody', ...ROLES];
+  const callers: Caller[] = ['nobody', ...ROLES];
   const cases = API_ROUTES.flatMap((route) => callers.map((caller) => ({ route, caller })));
   it.each(cases)('$route.method $route.path as $caller: allowed exactly as the route table says', async ({ route, caller }) => {
     const example = VALID_REQUEST[route.id];
     const headers: Record<string, string> = { 'content-type': 'application/json' };
     if (caller !== 'nobody') headers['authorization'] = `Bearer ${tokens.get(caller)}`;
-    const res = await fetch(`${server.url}${route.path}${example.query ?? ''}`, {
+    const path = typeof example.path === 'function' ? example.path(caller) : (example.path ?? route.path);
+    const res = await fetch(`${server.url}${path}${example.query ?? ''}`, {
       method: route.method.toUpperCase(),
       headers,
       body: example.body === undefined ? undefined : JSON.stringify(example.body),
@@ -122,6 +154,7 @@ describe('sign-in and roles', () => {
     if (minRole === null) expect(res.status).toBeLessThan(300);
     else if (caller === 'nobody') expect(res.status).toBe(401);
     else if (!hasRole(caller, minRole)) expect(res.status).toBe(403);
+    else if (example.allowedStatus !== undefined) expect(res.status).toBe(example.allowedStatus);
     else expect(res.status).toBeLessThan(300);
   });
 });

@@ -25,6 +25,11 @@ import {
 } from 'drizzle-orm/pg-core';
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
+import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
+import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
+import type { AlarmEventKind, AlarmState, AlarmSuppression } from '../alarms/alarm-state.js';
+import type { FirstOut } from '../interlock/interlock.js';
+import type { ConditionStatus } from '../interlock/trip-conditions.js';
 
 /** Packed little-endian float32 samples (see server/storage/sample-codec.ts). */
 const float32Samples = customType<{ data: Uint8Array; driverData: Uint8Array }>({
@@ -63,6 +68,29 @@ export const calibrations = pgTable(
   },
   // At most one row may be active; the seed and every switch keep exactly one.
   (t) => [uniqueIndex('calibrations_one_active').on(t.active).where(sql`${t.active}`)],
+);
+
+/**
+ * Sample profiles (issue 3): every save adds a version under its name, never changes a stored
+ * one; `body` is the whole validated SampleProfile.
+ */
+export const sampleProfiles = pgTable(
+  'sample_profiles',
+  {
+    id: serial('id').primaryKey(),
+    name: text('name').notNull(),
+    version: integer('version').notNull(),
+    body: jsonb('body').$type<SampleProfile>().notNull(),
+    active: boolean('active').notNull().default(false),
+    createdBy: text('created_by').notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    reason: text('reason').notNull(),
+  },
+  // At most one row may be active, as for calibrations; versions are unique per name.
+  (t) => [
+    uniqueIndex('sample_profiles_name_version').on(t.name, t.version),
+    uniqueIndex('sample_profiles_one_active').on(t.active).where(sql`${t.active}`),
+  ],
 );
 
 export const fastBatches = pgTable(
@@ -172,4 +200,64 @@ export const auditLog = pgTable(
   (t) => [index('audit_log_at').on(t.at)],
 );
 
-export const schema = { users, calibrations, fastBatches, slowSamples, rollups1s, auditLog };
+/**
+ * The alarm limits in force (issue 4), one row per alarm id; `definition` is the whole
+ * validated AlarmLimit. Seeded from the demo set; only a lead changes a row, audited.
+ */
+export const alarmLimits = pgTable('alarm_limits', {
+  id: text('id').primaryKey(),
+  definition: jsonb('definition').$type<AlarmLimit>().notNull(),
+  updatedBy: text('updated_by').notNull(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+});
+
+/** Every alarm transition (raise, clear, acknowledge, shelve, …): the alarm history. */
+export const alarmEvents = pgTable(
+  'alarm_events',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    /** Server time of the transition, Unix epoch ms. */
+    atMs: epochMs('at_ms').notNull(),
+    alarmId: text('alarm_id').notNull(),
+    channel: text('channel').notNull(),
+    priority: text('priority').$type<AlarmPriority>().notNull(),
+    kind: text('kind').$type<AlarmEventKind>().notNull(),
+    fromState: text('from_state').$type<AlarmState>().notNull(),
+    toState: text('to_state').$type<AlarmState>().notNull(),
+    /** Channel value at the transition (channel unit). */
+    value: doublePrecision('value'),
+    /** The alarm's level at the time (channel unit). */
+    limitValue: doublePrecision('limit_value').notNull(),
+    actor: text('actor'),
+    reason: text('reason'),
+    hidden: text('hidden').$type<AlarmSuppression>(),
+    firstOutOf: text('first_out_of'),
+  },
+  (t) => [index('alarm_events_at').on(t.atMs)],
+);
+
+/** Software-interlock trips: first-out, every condition at the trip, and the reset. */
+export const interlockTrips = pgTable('interlock_trips', {
+  id: serial('id').primaryKey(),
+  /** Unix epoch ms; one trip at a time, so the time identifies it. */
+  trippedAtMs: epochMs('tripped_at_ms').notNull().unique(),
+  firstOut: jsonb('first_out').$type<FirstOut>().notNull(),
+  valuesAtTrip: jsonb('values_at_trip').$type<ConditionStatus[]>().notNull(),
+  reason: text('reason').notNull(),
+  resetAtMs: epochMs('reset_at_ms'),
+  resetBy: text('reset_by'),
+  resetReason: text('reset_reason'),
+});
+
+export const schema = {
+  users,
+  calibrations,
+  sampleProfiles,
+  fastBatches,
+  slowSamples,
+  rollups1s,
+  auditLog,
+  alarmLimits,
+  alarmEvents,
+  interlockTrips,
+};

@@ -65,7 +65,9 @@ describe('WebSocket fan-out', () => {
     ws.close();
 
     expect(received[0].message).toMatchObject({ type: 'hello', user: { email: 'viewer@tiltwatch.example', role: 'viewer' }, decimatedRateHz: 100 });
-    const live = received.slice(1).map((r) => r.message);
+    // Right after hello comes the interlock state and the active alarms; then only live updates.
+    expect(received[1].message).toMatchObject({ type: 'alarms', interlock: { state: 'ok' }, active: [] });
+    const live = received.slice(2).map((r) => r.message);
     expect(live.every((m) => m.type === 'live')).toBe(true);
     expect(points()).toBe(10); // 5 frames × 20 samples at 1 kHz = 10 blocks of 10 ms
     const last = live.at(-1);

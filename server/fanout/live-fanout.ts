@@ -4,6 +4,7 @@ import type { Logger } from 'pino';
 import { WebSocket, WebSocketServer } from 'ws';
 import { z } from 'zod';
 import { hasRole, type Role } from '../../shared/auth/roles.js';
+import type { AlarmsMessage } from '../../shared/alarms/alarm-api.js';
 import type { SeriesChunk, ServerMessage, SlowChunk } from '../../shared/live/live-state.js';
 import type { AccessControl, SignedInUser } from '../auth/access-control.js';
 import type { LiveStore } from '../live/live-store.js';
@@ -71,6 +72,8 @@ export class LiveFanout implements ChunkSink {
   private readonly counts = { messagesSent: 0, skippedUpdates: 0, droppedClients: 0 };
   private readonly opts: Required<FanoutOptions>;
   private closing: Promise<void> | undefined;
+  /** The newest `alarms` message, sent to each client right after `hello`. */
+  private alarms: AlarmsMessage | null = null;
   private readonly onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer) => this.upgrade(req, socket, head);
 
   constructor(
@@ -89,6 +92,17 @@ export class LiveFanout implements ChunkSink {
       if (series) appendSeriesChunk(viewer.series, series);
       if (slow) appendSlowChunk(viewer.slow, slow);
       this.schedule(viewer);
+    }
+  }
+
+  /**
+   * Sends the interlock state and active alarms to every client at once (not paced: they
+   * change rarely and every screen shows the interlock banner), and keeps it for new clients.
+   */
+  publishAlarms(message: AlarmsMessage): void {
+    this.alarms = message;
+    for (const viewer of this.viewers) {
+      if (viewer.ws.readyState === WebSocket.OPEN) this.sendMessage(viewer.ws, message);
     }
   }
 
@@ -166,6 +180,7 @@ export class LiveFanout implements ChunkSink {
       serverTime: new Date().toISOString(),
       decimatedRateHz: DECIMATED_RATE_HZ,
     });
+    if (this.alarms) this.sendMessage(ws, this.alarms);
     this.send(viewer);
   }
 

@@ -20,6 +20,11 @@ export interface RunningIngest {
   connected(): boolean;
   /** Exceptions thrown by `deliver` (each logged; the message is dropped, ingest goes on). */
   deliveryErrors(): number;
+  /**
+   * Publishes a command (trip, release, setpoints) with the server account. Returns at once:
+   * the client writes it now when connected, or queues it until it reconnects.
+   */
+  publish(topic: string, payload: string, qos: 0 | 1): void;
   close(): Promise<void>;
 }
 
@@ -39,6 +44,9 @@ export async function startIngest(opts: IngestOptions): Promise<RunningIngest> {
     connectTimeout: 5000,
   });
   let deliveryErrors = 0;
+  // Commands (a trip above all) must leave at once, not wait behind Nagle's algorithm for the
+  // acknowledgement of the previous segment (tens of milliseconds on loopback).
+  client.on('connect', () => (client.stream as { setNoDelay?: (noDelay: boolean) => void }).setNoDelay?.(true));
 
   client.on('message', (topic, payload) => {
     const message = opts.gate.admit(topic, payload);
@@ -65,6 +73,11 @@ export async function startIngest(opts: IngestOptions): Promise<RunningIngest> {
   return {
     connected: () => client.connected,
     deliveryErrors: () => deliveryErrors,
+    publish: (topic, payload, qos) => {
+      client.publish(topic, payload, { qos }, (error) => {
+        if (error) opts.log.error({ err: error, topic }, 'publishing a command failed');
+      });
+    },
     close: () => client.endAsync(true),
   };
 }

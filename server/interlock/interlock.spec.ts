@@ -206,6 +206,17 @@ describe('Interlock: reset', () => {
     const interlock = armed();
     expect(interlock.reset('op', 'just checking', T0 + 10)).toMatchObject({ ok: false, code: 'not-tripped' });
   });
+
+  it('keeps a trip restored after a restart latched until it is reset, without reporting it again', () => {
+    const before = trippedOnFlow();
+    const trip = before.state().trip!;
+    const after = new Interlock();
+    after.restore(trip);
+    expect(after.evaluate(inputs(T0 + 5000), T0 + 5000)).toBeNull();
+    expect(after.state()).toMatchObject({ state: 'tripped', firstOut: { condition: 'low-flow-x' } });
+    expect(after.reset('op', 'valve x reopened before the restart', T0 + 5100)).toMatchObject({ ok: true, reset: { trip } });
+    expect(() => before.restore(trip)).toThrow(/already tripped/);
+  });
 });
 
 describe('Interlock: configuration', () => {

@@ -110,6 +110,16 @@ export class Interlock {
     return this.trip;
   }
 
+  /**
+   * Latches a trip recorded before a restart, so that the latch outlives the server process:
+   * the interlock stays tripped until reset, as if it had tripped in this process. Evaluations
+   * do not return it again (its TripCommand went out when it happened).
+   */
+  restore(trip: TripRecord): void {
+    if (this.trip) throw new Error(`the interlock is already tripped (since ${new Date(this.trip.at).toISOString()})`);
+    this.trip = trip;
+  }
+
   /** Every condition as of the last evaluation. */
   conditions(): ConditionStatus[] {
     return this.defs.map((def, i) => conditionStatus(def, this.values[i]));

@@ -7,6 +7,7 @@ import { BlockDecimator } from '../live/block-decimator.js';
 import type { LiveStore } from '../live/live-store.js';
 import { mean } from '../live/live-store.js';
 import { appendSeriesPoint, appendSlowPoint, DECIMATION_BLOCK_MS, emptySeriesChunk, emptySlowChunk } from '../live/series-chunk.js';
+import type { LivePredictionFeed } from '../prediction/live-prediction-feed.js';
 import type { RollupAccumulator } from '../storage/rollup-accumulator.js';
 import type { TelemetryWriter } from '../storage/telemetry-writer.js';
 
@@ -17,7 +18,7 @@ export interface ChunkSink {
 
 /**
  * The one-way flow after the edge: validated frame → field (active calibration) → live state
- * → roll-ups and storage → fan-out. Runs synchronously in the MQTT message handler and never
+ * and the prediction feed → roll-ups and storage → fan-out. Runs synchronously in the MQTT message handler and never
  * awaits, so nothing downstream (database, browsers) can hold ingest up.
  */
 export class TelemetryPipeline {
@@ -30,6 +31,8 @@ export class TelemetryPipeline {
       rollups: RollupAccumulator;
       writer: TelemetryWriter;
       fanout: ChunkSink;
+      /** Takes each frame's mean currents for the live prediction (it only hands over to a worker). */
+      prediction: Pick<LivePredictionFeed, 'addFrame'>;
       now?: () => number;
     },
   ) {}
@@ -46,7 +49,7 @@ export class TelemetryPipeline {
   }
 
   private handleFast(frame: FastFrame): void {
-    const { calibrations, live, rollups, writer, fanout } = this.deps;
+    const { calibrations, live, rollups, writer, fanout, prediction } = this.deps;
     const calibration = calibrations.active();
     const series = emptySeriesChunk();
     this.decimator.push(frame.t0Ms, frame.rateHz, frame.currentA.x, frame.currentA.y, frame.currentA.z, (tMs, x, y, z) => {
@@ -57,6 +60,7 @@ export class TelemetryPipeline {
     });
     const meanCurrent = { x: mean(frame.currentA.x), y: mean(frame.currentA.y), z: mean(frame.currentA.z) };
     live.applyFast(frame, meanCurrent, fieldFromCurrents(calibration, meanCurrent), calibration, (this.deps.now ?? Date.now)());
+    prediction.addFrame(calibration, meanCurrent, frame.t0Ms);
     rollups.addFast(frame);
     writer.addFast(frame, calibration.id);
     if (series.t.length > 0) fanout.publish(series, null);

@@ -116,6 +116,18 @@ describe('PredictionEngine (real worker thread)', () => {
     expect(e.counters().predictions).toBe(2);
   });
 
+  it('computes the direction given with a new profile, not the one measured in the previous profile\'s frame', async () => {
+    const e = engine({ minIntervalMs: 0 });
+    e.setProfile(1, DEMO_PROFILE);
+    e.updateDirection({ thetaDeg: 10, phiDeg: 0 }, 0);
+    await predictionWhere(e, () => true);
+
+    e.setProfile(2, { ...DEMO_PROFILE, name: 'tilted', trapToCoilEulerDeg: [15, 30, 0] }, { thetaDeg: 40, phiDeg: 0 });
+    const p = await predictionWhere(e, (q) => q.profileId === 2);
+    expect([p.thetaDeg, p.phiDeg]).toEqual([40, 0]);
+    expect(e.counters().predictions).toBe(2);
+  });
+
   it('reports a collapsed gas as not stable, with the reason, its margin and no geometry', async () => {
     const e = engine({ minIntervalMs: 0 });
     const collapsed = (p: LivePrediction) => {

@@ -122,11 +122,14 @@ export class PredictionEngine {
   /**
    * Makes `profile` the active sample (validated again here; throws SampleProfileError naming
    * the key to fix). The latest prediction is dropped, and the newest measured direction, if
-   * any, is computed for the new profile from a cold start.
+   * any, is computed for the new profile from a cold start. Pass `measured` (degrees, the new
+   * profile's trap frame) when the new profile turns the trap: the direction measured before
+   * is in the old profile's frame.
    */
-  setProfile(profileId: number, profile: SampleProfile): void {
+  setProfile(profileId: number, profile: SampleProfile, measured?: { thetaDeg: number; phiDeg: number }): void {
     if (this.closed) return;
     const checked = parseSampleProfile(profile);
+    if (measured) this.measured = fieldDirectionOf(measured.thetaDeg, measured.phiDeg);
     const params = sampleParamsOf(checked);
     const scales = sampleScales(params);
     this.active = {

@@ -23,8 +23,83 @@ export interface ActiveAlarm {
   raisedAt: string;
   value: number | null;
   limit: number;
+  /** True when later alarms are grouped under this one (it came first). */
+  firstOut?: boolean;
   /** Id of the first-out alarm this one is grouped under. */
   firstOutOf?: string;
+  level?: AlarmLevel;
+}
+
+export type AlarmLevel = 'HH' | 'H' | 'L' | 'LL';
+
+/** One entry of `GET /api/alarms?state=all` and of the answers to alarm actions. */
+export interface AlarmListItem {
+  id: string;
+  channel: string;
+  level: AlarmLevel;
+  priority: AlarmPriority;
+  state: AlarmStateName;
+  /** ISO 8601 UTC; null while normal. */
+  raisedAt: string | null;
+  /** Present value (channel unit), null before the first one. */
+  value: number | null;
+  limit: number;
+  firstOut: boolean;
+  firstOutOf?: string;
+  /** Who shelved it, why and until when (ISO 8601 UTC); null when not shelved. */
+  shelf: { by: string; reason: string; since: string; until: string } | null;
+}
+
+/** Answer of `POST /api/alarms/:id/{acknowledge,shelve,unshelve,out-of-service,reset}`. */
+export interface AlarmActionResult {
+  alarm: AlarmListItem;
+  /** False when the request changed nothing (e.g. acknowledging an acknowledged alarm). */
+  changed: boolean;
+}
+
+/** One entry of `GET /api/alarms/history?hours=N` (newest first). */
+export interface AlarmHistoryEvent {
+  alarmId: string;
+  channel: string;
+  priority: AlarmPriority;
+  kind:
+    | 'raise'
+    | 'clear'
+    | 'acknowledge'
+    | 'reset'
+    | 'shelve'
+    | 'unshelve'
+    | 'shelve-expired'
+    | 'suppress'
+    | 'unsuppress'
+    | 'out-of-service'
+    | 'return-to-service';
+  /** ISO 8601 UTC. */
+  at: string;
+  from: AlarmStateName;
+  to: AlarmStateName;
+  value: number | null;
+  limit: number;
+  actor?: string;
+  reason?: string;
+  /** Set on raises and clears that happened shelved or suppressed (not annunciated). */
+  hidden?: 'shelved' | 'suppressed' | 'out-of-service';
+  firstOutOf?: string;
+}
+
+/** Body of `GET /api/alarms/health?hours=N`: alarm-system figures over the window. */
+export interface AlarmHealthReport {
+  /** Window, ISO 8601 UTC. */
+  from: string;
+  to: string;
+  /** Annunciated raises in the last 10 minutes, and whether that is a flood (> 10). */
+  recentCount: number;
+  flooding: boolean;
+  averagePerInterval: number;
+  intervals: { start: string; count: number; flood: boolean }[];
+  chattering: { alarmId: string; raises: number; since: string }[];
+  stale: { alarmId: string; raisedAt: string; activeForMs: number }[];
+  rules: { intervalMinutes: number; floodAbove: number; chatterRaises: number; chatterWindowS: number; staleAfterHours: number };
 }
 
 export interface InterlockFirstOut {
@@ -42,15 +117,49 @@ export interface InterlockCondition {
   active: boolean;
   value: number | null;
   limit: number;
+  /** What is measured, for people ("Coolant flow x"). */
+  label?: string;
+  /** Unit of `value`, `limit` and `margin`; '' for yes/no conditions. */
+  unit?: string;
+  /** Distance to the trip level in `unit`, positive while safe; null without data or for yes/no conditions. */
+  margin?: number | null;
+  /** Value with its unit ("66.2 °C", "offline", "no data"). */
+  valueText?: string;
+  /** When the condition trips ("above 65.0 °C", "offline"). */
+  tripsWhen?: string;
 }
 
-/** Body of `GET /api/interlock`. */
+/** A trip as stored: first-out, every condition at that moment, and the reset once done. */
+export interface InterlockTripRecord {
+  /** ISO 8601 UTC. */
+  trippedAt: string;
+  firstOut: InterlockFirstOut;
+  reason: string;
+  valuesAtTrip: InterlockCondition[];
+  reset: { at: string; actor: string; reason: string } | null;
+}
+
+/** Body of `GET /api/interlock` (and of the WebSocket `alarms` message, without `history`). */
 export interface InterlockStatus {
   state: 'ok' | 'tripped';
   firstOut: InterlockFirstOut | null;
   conditions: InterlockCondition[];
   /** The controller's own hardware trip; reset only at the controller. */
   hardwareTripped: boolean;
+  /** The controller's cause of its hardware trip, e.g. `low-flow`. */
+  hardwareTripCause?: string | null;
+  /** The trip in force (with every condition at the trip), null while ok. */
+  trip?: InterlockTripRecord | null;
+  /** The newest trips, newest first (`GET /api/interlock` only). */
+  history?: InterlockTripRecord[];
+  /** The software interlock is supervisory: the caution to show beside it. */
+  caution?: string;
+}
+
+/** 409 body of `POST /api/interlock/reset` while a trip condition holds (or nothing is tripped). */
+export interface InterlockResetRefusal {
+  error: string;
+  conditions: InterlockCondition[];
 }
 
 /** WebSocket message sent when the interlock or the active alarm list changes (and after hello). */

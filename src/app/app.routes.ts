@@ -1,5 +1,5 @@
 import { Routes } from '@angular/router';
-import { signedIn, signedOut } from './auth/session-guards';
+import { roleAtLeast, signedIn, signedOut } from './auth/session-guards';
 
 export const routes: Routes = [
   {
@@ -15,6 +15,28 @@ export const routes: Routes = [
     children: [
       { path: '', pathMatch: 'full', redirectTo: 'live' },
       { path: 'live', title: 'Live · Tiltwatch', loadComponent: () => import('./live/live-page').then((m) => m.LivePage) },
+      {
+        path: 'map',
+        title: 'Orientation map · Tiltwatch',
+        loadComponent: () => import('./orientation-map/orientation-map-page').then((m) => m.OrientationMapPage),
+      },
+      {
+        path: 'profiles',
+        title: 'Sample profiles · Tiltwatch',
+        loadComponent: () => import('./profiles/profiles-page').then((m) => m.ProfilesPage),
+      },
+      { path: 'alarms', title: 'Alarms · Tiltwatch', loadComponent: () => import('./alarms/alarms-page').then((m) => m.AlarmsPage) },
+      {
+        path: 'interlocks',
+        title: 'Interlocks · Tiltwatch',
+        loadComponent: () => import('./interlocks/interlocks-page').then((m) => m.InterlocksPage),
+      },
+      {
+        path: 'outbox',
+        title: 'Outbox · Tiltwatch',
+        canActivate: [roleAtLeast('admin')],
+        loadComponent: () => import('./outbox/outbox-page').then((m) => m.OutboxPage),
+      },
     ],
   },
   { path: '**', redirectTo: '' },

@@ -4,8 +4,10 @@
  */
 import { benchPhysics } from '../../shared/physics/physics.bench.js';
 import { benchPipeline } from './pipeline.bench.js';
+import { benchTrip } from './trip.bench.js';
 import { printFigures } from './figures.js';
 
 printFigures('Physics model (shared/physics)', await benchPhysics());
 printFigures('Telemetry pipeline (controller → broker → server → WebSocket)', await benchPipeline());
+printFigures('Software interlock (offending frame or silence → TripCommand on the broker)', await benchTrip());
 process.exit(0);

@@ -1,6 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
+import type { AlarmsMessage } from '../../../shared/alarms/alarm-api';
 import type { LiveState, ServerMessage, SeriesChunk, SlowChunk } from '../../../shared/live/live-state';
 import { Session } from '../auth/session';
 import { judgeConnection } from './connection-state';
@@ -51,9 +52,15 @@ export class LiveFeed {
   private readonly lastMessageAt = signal<number | null>(null);
   private readonly latest = signal<LiveState | null>(null);
   private readonly retryAt = signal<number | null>(null);
+  private readonly latestAlarms = signal<AlarmsMessage | null>(null);
 
   /** Latest state of the apparatus, updated a few times per second. */
   readonly live = this.latest.asReadonly();
+  /**
+   * Interlock state and active alarms as the server last pushed them (after hello and on every
+   * change; rare, so published at once rather than with the summary). Null until the first.
+   */
+  readonly alarms = this.latestAlarms.asReadonly();
   /** Browser-clock time of the next reconnect attempt while offline. */
   readonly reconnectAt = this.retryAt.asReadonly();
   /** Current browser time, advanced with each summary; for "n s ago" texts. */
@@ -98,6 +105,7 @@ export class LiveFeed {
     this.newestMessageAt = null;
     this.linkOpen.set(false);
     this.latest.set(null);
+    this.latestAlarms.set(null);
     this.lastMessageAt.set(null);
     this.retryAt.set(null);
   }
@@ -160,6 +168,8 @@ export class LiveFeed {
       this.newestMessageAt = Date.now();
       this.linkOpen.set(true);
       for (const listener of this.listeners) listener(message.series, message.slow);
+    } else if (message.type === 'alarms') {
+      this.latestAlarms.set(message);
     } else if (message.type === 'error') {
       console.warn(`Live feed: ${message.message}`);
     }

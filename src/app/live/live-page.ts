@@ -9,6 +9,9 @@ import { FAST, SLOW, TelemetryHistory } from '../charts/telemetry-history';
 import { DEFAULT_WINDOW_SECONDS, TIME_WINDOWS } from '../charts/time-window';
 import { isStale } from '../feed/connection-state';
 import { LiveFeed } from '../feed/live-feed';
+import { PredictionPanel } from '../prediction/prediction-panel';
+import { PREDICTED, PredictionSeries } from '../prediction/prediction-series';
+import { ActiveProfile } from '../profiles/active-profile';
 import { formatLocalTime } from '../readout/format-quantity';
 import { CoilStrip, type ChannelBands } from './coil-strip';
 import { ControllerStatus } from './controller-status';
@@ -20,11 +23,11 @@ const AXIS_LINES = [
   { axis: 'Z', color: '--tw-series-3', dash: [2, 3] },
 ];
 
-/** The Live page: field, coils, controller state and charts of the recent past. */
+/** The Live page: field, prediction, coils, controller state and charts of the recent past. */
 @Component({
   selector: 'tw-live-page',
-  imports: [ChartPanel, CoilStrip, ControllerStatus, FieldPanel, MatButtonModule, MatButtonToggleModule, MatIconModule],
-  providers: [TelemetryHistory],
+  imports: [ChartPanel, CoilStrip, ControllerStatus, FieldPanel, MatButtonModule, MatButtonToggleModule, MatIconModule, PredictionPanel],
+  providers: [TelemetryHistory, PredictionSeries],
   templateUrl: './live-page.html',
   styleUrl: './live-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -32,6 +35,8 @@ const AXIS_LINES = [
 export class LivePage {
   private readonly feed = inject(LiveFeed);
   protected readonly history = inject(TelemetryHistory);
+  protected readonly predicted = inject(PredictionSeries);
+  protected readonly activeProfile = inject(ActiveProfile).record;
 
   protected readonly live = this.feed.live;
   /**
@@ -72,13 +77,22 @@ export class LivePage {
     { scale: 'G', label: '|B| (G)', side: 'right', fromZero: true },
   ];
 
+  // The TOF line is the profile's first TOF time along its camera, as in the prediction panel.
+  protected readonly predictedLines: ChartLine[] = [
+    { label: 'β − 1 (%)', column: PREDICTED.betaDeviation, scale: '%', color: '--tw-series-1', digits: 3 },
+    { label: 'TOF aspect − 1 (%)', column: PREDICTED.tofDeviation, scale: '%', color: '--tw-series-2', dash: [7, 4], digits: 3 },
+  ];
+  protected readonly predictedAxes: ChartAxis[] = [{ scale: '%', label: 'Deformation (%)', side: 'left' }];
+
   constructor() {
     void this.history.showWindow(this.windowSeconds());
+    void this.predicted.showWindow(this.windowSeconds());
   }
 
   protected chooseWindow(seconds: number): void {
     if (seconds === this.windowSeconds()) return;
     this.windowSeconds.set(seconds);
     void this.history.showWindow(seconds);
+    void this.predicted.showWindow(seconds);
   }
 }

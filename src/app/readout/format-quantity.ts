@@ -22,3 +22,10 @@ export function formatNumber(value: number, digits: number): string {
 export function formatLocalTime(epochMs: number): string {
   return new Date(epochMs).toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false });
 }
+
+/** Local date and wall-clock time of a Unix epoch ms value, for lists that span several days. */
+export function formatLocalDateTime(epochMs: number): string {
+  return new Date(epochMs).toLocaleString(undefined, {
+    day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', second: '2-digit', hour12: false,
+  });
+}

@@ -8,8 +8,11 @@ import { MatSidenavModule } from '@angular/material/sidenav';
 import { MatToolbarModule } from '@angular/material/toolbar';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { map } from 'rxjs';
+import { hasRole } from '../../../shared/auth/roles';
+import { awaitsAcknowledgement } from '../alarms/alarm-look';
 import { Session } from '../auth/session';
 import { LiveFeed } from '../feed/live-feed';
+import { InterlockBanner } from '../interlocks/interlock-banner';
 import { ConnectionIndicator } from './connection-indicator';
 import { SafetyNote } from './safety-note';
 
@@ -20,7 +23,7 @@ const WIDE_SCREEN = '(min-width: 1000px)';
 @Component({
   selector: 'tw-shell',
   imports: [
-    ConnectionIndicator, MatButtonModule, MatIconModule, MatListModule, MatSidenavModule, MatToolbarModule,
+    ConnectionIndicator, InterlockBanner, MatButtonModule, MatIconModule, MatListModule, MatSidenavModule, MatToolbarModule,
     RouterLink, RouterLinkActive, RouterOutlet, SafetyNote,
   ],
   templateUrl: './shell.html',
@@ -32,6 +35,12 @@ export class Shell {
   protected readonly feed = inject(LiveFeed);
 
   protected readonly user = this.session.user;
+  protected readonly isAdmin = computed(() => {
+    const role = this.session.role();
+    return role !== null && hasRole(role, 'admin');
+  });
+  /** Alarms waiting for an acknowledgement, for the badge on the Alarms entry; 0 shows nothing. */
+  protected readonly unacknowledged = computed(() => this.feed.alarms()?.active.filter((a) => awaitsAcknowledgement(a.state)).length ?? 0);
   protected readonly wide = toSignal(inject(BreakpointObserver).observe(WIDE_SCREEN).pipe(map((state) => state.matches)), {
     initialValue: true,
   });

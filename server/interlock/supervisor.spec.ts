@@ -1,0 +1,121 @@
+import pino from 'pino';
+import { describe, expect, it } from 'vitest';
+import type { AlarmsMessage } from '../../shared/alarms/alarm-api.js';
+import { DEMO_CALIBRATION } from '../../shared/field/demo-calibration.js';
+import { fieldFromCurrents } from '../../shared/field/field-vector.js';
+import type { ControllerStatus } from '../../shared/telemetry/messages.js';
+import { TOPICS } from '../../shared/telemetry/topics.js';
+import { AlarmBook } from '../alarms/alarm-book.js';
+import type { AlarmEvent } from '../alarms/alarm-state.js';
+import { DEMO_ALARM_LIMITS } from '../alarms/demo-alarm-limits.js';
+import type { AdmittedMessage } from '../ingest/frame-gate.js';
+import { LiveStore } from '../live/live-store.js';
+import { fastFrame, slowFrame } from '../testing/frames.js';
+import { Interlock, type TripRecord } from './interlock.js';
+import { Supervisor } from './supervisor.js';
+
+const T0 = Date.UTC(2026, 2, 12, 9, 0, 0);
+const calibration = { ...DEMO_CALIBRATION, id: 1, version: 1, label: 'demo' };
+
+/**
+ * The supervisor's order and its controller-status rules, with real live state, alarm book and
+ * interlock and a fake clock; the outputs (commands, records, mail, fan-out) are collected.
+ */
+function rig() {
+  let now = T0;
+  const live = new LiveStore();
+  const interlock = new Interlock();
+  const book = new AlarmBook(DEMO_ALARM_LIMITS, { clock: () => now });
+  const out = { commands: [] as { topic: string; payload: { reason: string } }[], trips: [] as TripRecord[], events: [] as AlarmEvent[], mails: 0, alarms: [] as AlarmsMessage[], order: [] as string[] };
+  const supervisor = new Supervisor({
+    live,
+    interlock,
+    book,
+    records: { addTrip: (t) => (out.trips.push(t), out.order.push('record')), addAlarmEvents: (e) => out.events.push(...e) },
+    notifier: { trip: () => (out.mails++, out.order.push('mail')), alarmEvents: () => undefined },
+    sink: { publishAlarms: (m) => out.alarms.push(m) },
+    log: pino({ level: 'silent' }),
+    now: () => now,
+  });
+  supervisor.attach({ publish: (topic, payload) => (out.commands.push({ topic, payload: JSON.parse(payload) }), out.order.push(topic)) });
+  let seq = 0;
+  const deliver = (message: AdmittedMessage) => {
+    if (message.kind === 'fast') {
+      const mean = { x: message.frame.currentA.x[1], y: message.frame.currentA.y[1], z: message.frame.currentA.z[1] };
+      live.applyFast(message.frame, mean, fieldFromCurrents(calibration, mean), calibration, now);
+    } else if (message.kind === 'slow') live.applySlow(message.frame);
+    else live.applyStatus(message.status);
+    supervisor.observe(message);
+  };
+  const frame = (current = { x: 5, y: 4, z: 6 }) => {
+    deliver({ kind: 'slow', frame: slowFrame(seq, now) });
+    deliver({ kind: 'fast', frame: fastFrame(seq++, now, current) });
+  };
+  const status = (s: Partial<ControllerStatus>) =>
+    deliver({ kind: 'status', status: { online: true, tMs: now, hardwareTripped: false, hardwareTripCause: null, hardwareTripAxis: null, softwareHold: false, mode: 'remote', ...s } });
+  return { supervisor, interlock, out, frame, status, deliver, advance: (ms: number) => (now += ms), now: () => now };
+}
+
+describe('Supervisor', () => {
+  it('does not count a controller as offline when its telemetry overtakes its first status', () => {
+    const r = rig();
+    r.frame();
+    r.advance(20);
+    r.frame();
+    r.status({ online: true });
+    expect(r.interlock.state().state).toBe('ok');
+    expect(r.out.commands).toEqual([]);
+  });
+
+  it('trips on the last will and publishes the trip command before recording and mailing', () => {
+    const r = rig();
+    r.frame();
+    r.status({ online: true });
+    r.advance(20);
+    r.status({ online: false });
+    expect(r.interlock.state().firstOut?.condition).toBe('controller-offline');
+    expect(r.out.order).toEqual([TOPICS.trip, 'record', 'mail']);
+    expect(r.out.commands[0].payload.reason).toMatch(/controller-offline/);
+    expect(r.out.alarms.at(-1)?.interlock).toMatchObject({ state: 'tripped', firstOut: { condition: 'controller-offline' } });
+  });
+
+  it('judges over-current on the largest sample of a frame, not on its mean', () => {
+    const r = rig();
+    r.frame();
+    r.advance(20);
+    const spiky = fastFrame(1, r.now(), { x: 5, y: 4, z: 6 });
+    spiky.currentA.y[7] = -20.5;
+    r.deliver({ kind: 'fast', frame: spiky });
+    expect(r.interlock.state().firstOut).toMatchObject({ condition: 'over-current-y', value: 20.5 });
+  });
+
+  it('sends the trip command again to a controller that is online but not holding, at most once a second', () => {
+    const r = rig();
+    r.frame();
+    r.advance(20);
+    r.frame({ x: 21, y: 4, z: 6 });
+    expect(r.out.commands.map((c) => c.topic)).toEqual([TOPICS.trip]);
+    r.status({ online: true, softwareHold: true });
+    r.advance(2000);
+    r.frame({ x: 0, y: 0, z: 0 });
+    expect(r.out.commands).toHaveLength(1);
+    // The controller restarted: online, not holding.
+    r.status({ online: true, softwareHold: false });
+    r.advance(500);
+    r.frame({ x: 0, y: 0, z: 0 });
+    expect(r.out.commands.map((c) => c.topic)).toEqual([TOPICS.trip, TOPICS.trip]);
+    expect(r.out.trips).toHaveLength(1);
+  });
+
+  it('publishes the release command on a reset and announces the interlock back to ok', () => {
+    const r = rig();
+    r.frame();
+    r.advance(20);
+    r.frame({ x: 21, y: 4, z: 6 });
+    r.advance(20);
+    r.frame();
+    expect(r.supervisor.resetInterlock('operator@tiltwatch.example', 'supply x checked')).toMatchObject({ ok: true });
+    expect(r.out.commands.at(-1)).toMatchObject({ topic: TOPICS.release, payload: { reason: 'Interlock reset by operator@tiltwatch.example: supply x checked' } });
+    expect(r.out.alarms.at(-1)?.interlock.state).toBe('ok');
+  });
+});

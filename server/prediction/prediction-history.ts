@@ -1,0 +1,68 @@
+import type { LivePrediction } from '../../shared/live/live-state.js';
+import type { PredictionHistory } from '../../shared/profiles/profile-record.js';
+
+/**
+ * Room for one hour at the engine's fastest pace: it starts a prediction at most every 100 ms
+ * (10/s), and a later collapse-margin update of the same prediction replaces its entry
+ * instead of adding one. Older entries are overwritten; 36,000 × 4 float64 ≈ 1.2 MB.
+ */
+export const HISTORY_CAPACITY = 3600 * 10;
+
+/** Longest window `since` answers, s (the ring's bound). */
+export const HISTORY_MAX_SECONDS = 3600;
+
+/**
+ * The recent live predictions in memory, for `GET /api/prediction/history` (the charts of
+ * predicted β and TOF aspect beside the field angles). Parallel ring buffers; null values are
+ * kept as NaN.
+ */
+export class PredictionHistoryRing {
+  private readonly t: Float64Array;
+  private readonly beta: Float64Array;
+  private readonly tof: Float64Array;
+  private readonly margin: Float64Array;
+  /** Newest entry's `computedAt` and profile, to recognise a margin update of it. */
+  private newestKey: string | null = null;
+  private next = 0;
+  private size = 0;
+
+  constructor(private readonly capacity = HISTORY_CAPACITY) {
+    this.t = new Float64Array(capacity);
+    this.beta = new Float64Array(capacity);
+    this.tof = new Float64Array(capacity);
+    this.margin = new Float64Array(capacity);
+  }
+
+  /** Adds a prediction at its `computedAt` time, or updates the newest entry when it is the same prediction. */
+  push(p: LivePrediction): void {
+    const key = `${p.profileId}@${p.computedAt}`;
+    let i: number;
+    if (key === this.newestKey && this.size > 0) {
+      i = (this.next - 1 + this.capacity) % this.capacity;
+    } else {
+      i = this.next;
+      this.next = (this.next + 1) % this.capacity;
+      this.size = Math.min(this.size + 1, this.capacity);
+      this.newestKey = key;
+    }
+    this.t[i] = Date.parse(p.computedAt);
+    this.beta[i] = p.fermiSurfaceAspect ?? Number.NaN;
+    this.tof[i] = p.tofAspect ?? Number.NaN;
+    this.margin[i] = p.collapseMargin ?? Number.NaN;
+  }
+
+  /** The entries computed at or after `fromMs` (Unix epoch ms), oldest first. */
+  since(fromMs: number): PredictionHistory {
+    const out: PredictionHistory = { t: [], fermiSurfaceAspect: [], tofAspect: [], collapseMargin: [] };
+    const orNull = (v: number) => (Number.isNaN(v) ? null : v);
+    for (let k = 0; k < this.size; k++) {
+      const i = (this.next - this.size + k + this.capacity) % this.capacity;
+      if (this.t[i] < fromMs) continue;
+      out.t.push(this.t[i]);
+      out.fermiSurfaceAspect.push(orNull(this.beta[i]));
+      out.tofAspect.push(orNull(this.tof[i]));
+      out.collapseMargin.push(orNull(this.margin[i]));
+    }
+    return out;
+  }
+}

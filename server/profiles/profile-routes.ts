@@ -1,0 +1,77 @@
+import type { Request } from 'express';
+import { z } from 'zod';
+import { parseSampleProfile, SampleProfileError } from '../../shared/profiles/sample-profile.js';
+import type { Db } from '../db/database.js';
+import { HttpError } from '../http/http-error.js';
+import type { RouteHandlers } from '../http/route-table.js';
+import { parseInput } from '../http/validate.js';
+import { activateProfile, findActiveProfile, listProfiles, saveProfile } from './profile-repository.js';
+
+const reason = z
+  .string({ error: 'must be text saying why (it goes into the audit trail)' })
+  .trim()
+  .min(1, 'must say why (it goes into the audit trail)')
+  .max(500, 'must be at most 500 characters');
+
+const SaveRequest = z.strictObject({
+  // Checked by parseSampleProfile, whose messages name the profile key to fix.
+  profile: z.unknown(),
+  reason,
+  activate: z.boolean({ error: 'must be true or false' }).optional(),
+});
+
+const ActivateRequest = z.strictObject({ reason });
+
+const ProfileId = z.object({
+  id: z.coerce.number({ error: 'must be a profile version id' }).int('must be a whole number').positive('must be a profile version id ≥ 1'),
+});
+
+/**
+ * Sample-profile routes: `GET /api/profiles` → `{ profiles }` (by name, oldest version
+ * first), `GET /api/profiles/active`, `POST /api/profiles` (lead) → 201 with the new version,
+ * `POST /api/profiles/:id/activate` (lead). `activated` is awaited after a change of the
+ * active version, so the live prediction follows before the answer goes out.
+ */
+export function profileHandlers(
+  db: Db,
+  activated: () => Promise<void>,
+): Pick<RouteHandlers, 'profiles.list' | 'profiles.active' | 'profiles.save' | 'profiles.activate'> {
+  return {
+    'profiles.list': async (_req, res) => {
+      res.json({ profiles: await listProfiles(db) });
+    },
+    'profiles.active': async (_req, res) => {
+      const active = await findActiveProfile(db);
+      if (!active) throw new HttpError(404, 'No sample profile is active');
+      res.json(active);
+    },
+    'profiles.save': async (req, res) => {
+      const body = parseInput(SaveRequest, req.body, 'body');
+      const record = await saveProfile(db, { profile: checkedProfile(body.profile), reason: body.reason, activate: body.activate ?? false, actor: actor(req) });
+      if (record.active) await activated();
+      res.status(201).json(record);
+    },
+    'profiles.activate': async (req, res) => {
+      const { id } = parseInput(ProfileId, req.params, 'path');
+      const body = parseInput(ActivateRequest, req.body, 'body');
+      const record = await activateProfile(db, { id, reason: body.reason, actor: actor(req) });
+      if (!record) throw new HttpError(404, `No sample profile version with id ${id}: see GET /api/profiles`);
+      await activated();
+      res.json(record);
+    },
+  };
+}
+
+function checkedProfile(value: unknown) {
+  try {
+    return parseSampleProfile(value);
+  } catch (err) {
+    if (err instanceof SampleProfileError) throw new HttpError(400, `Invalid request body: ${err.message}`);
+    throw err;
+  }
+}
+
+function actor(req: Request): string {
+  if (!req.user) throw new Error('profile routes must sit behind requireRole');
+  return req.user.email;
+}

@@ -1,0 +1,161 @@
+import { asc, like } from 'drizzle-orm';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Role } from '../../shared/auth/roles.js';
+import { DEMO_PROFILE } from '../../shared/profiles/demo-profile.js';
+import type { ProfileRecord } from '../../shared/profiles/profile-record.js';
+import { openDatabase } from '../db/database.js';
+import { auditLog, sampleProfiles } from '../db/schema.js';
+import type { RunningServer } from '../server.js';
+import { makeDataDir, removeDataDir, signIn, startTestServer } from '../testing/test-server.js';
+
+/** A JSON API client signed in as the demo account of each role. */
+async function clientsFor(server: RunningServer, roles: Role[]) {
+  const tokens = new Map<Role, string>();
+  for (const role of roles) tokens.set(role, await signIn(server, role));
+  return async <T>(role: Role, method: string, path: string, body?: unknown): Promise<{ status: number; body: T }> => {
+    const res = await fetch(`${server.url}${path}`, {
+      method,
+      headers: { authorization: `Bearer ${tokens.get(role)}`, 'content-type': 'application/json' },
+      body: body === undefined ? undefined : JSON.stringify(body),
+    });
+    return { status: res.status, body: (await res.json()) as T };
+  };
+}
+
+describe('sample profiles over the API', () => {
+  let dir: string;
+  let server: RunningServer;
+  let call: Awaited<ReturnType<typeof clientsFor>>;
+
+  beforeAll(async () => {
+    dir = await makeDataDir();
+    server = await startTestServer(dir);
+    call = await clientsFor(server, ['viewer', 'operator', 'lead']);
+  });
+  afterAll(async () => {
+    await server?.close();
+    removeDataDir(dir);
+  });
+
+  const list = async () => (await call<{ profiles: ProfileRecord[] }>('viewer', 'GET', '/api/profiles')).body.profiles;
+  const active = async () => (await call<ProfileRecord>('viewer', 'GET', '/api/profiles/active')).body;
+
+  it('seeds the demo profile on first start as version 1, active', async () => {
+    const seeded = { name: DEMO_PROFILE.name, version: 1, profile: DEMO_PROFILE, active: true, createdBy: 'system' };
+    expect(await list()).toEqual([expect.objectContaining(seeded)]);
+    expect(await active()).toMatchObject(seeded);
+  });
+
+  it('saves an edit as the next version under the same name without touching the stored one or the active choice', async () => {
+    const before = await active();
+    const edited = { ...DEMO_PROFILE, atomNumber: 6e4 };
+    const res = await call<ProfileRecord>('lead', 'POST', '/api/profiles', { profile: edited, reason: 'more atoms after the new MOT loading' });
+
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ name: DEMO_PROFILE.name, version: 2, profile: edited, active: false, createdBy: 'lead@tiltwatch.example' });
+    expect(Number.isNaN(Date.parse(res.body.createdAt))).toBe(false);
+    expect(await active()).toEqual(before);
+    const versions = (await list()).filter((p) => p.name === DEMO_PROFILE.name);
+    expect(versions.map((p) => [p.version, p.profile.atomNumber])).toEqual([[1, 5e4], [2, 6e4]]);
+  });
+
+  it('starts a new name at version 1, and activates it at once when asked', async () => {
+    const dy = { ...DEMO_PROFILE, name: 'Lindqvist Hall 161Dy, crossed trap', species: '161Dy' };
+    const res = await call<ProfileRecord>('lead', 'POST', '/api/profiles', { profile: dy, reason: 'dysprosium run', activate: true });
+
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ name: dy.name, version: 1, active: true });
+    expect(await active()).toEqual(res.body);
+    expect((await list()).filter((p) => p.active).map((p) => p.id)).toEqual([res.body.id]);
+  });
+
+  it('activates a stored version by id and answers 404 for an unknown one', async () => {
+    const demo = (await list()).find((p) => p.name === DEMO_PROFILE.name && p.version === 1)!;
+    const res = await call<ProfileRecord>('lead', 'POST', `/api/profiles/${demo.id}/activate`, { reason: 'back to erbium' });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ id: demo.id, active: true });
+    expect((await active()).id).toBe(demo.id);
+
+    const missing = await call<{ error: string }>('lead', 'POST', '/api/profiles/9999/activate', { reason: 'no such version' });
+    expect(missing.status).toBe(404);
+    expect(missing.body.error).toMatch(/No sample profile version with id 9999/);
+    const malformed = await call<{ error: string }>('lead', 'POST', '/api/profiles/first/activate', { reason: 'not an id' });
+    expect(malformed.status).toBe(400);
+    expect(malformed.body.error).toMatch(/id: must be a profile version id/);
+  });
+
+  it.each(['viewer', 'operator'] as const)('refuses saving and activating to a %s with 403', async (role) => {
+    const save = await call(role, 'POST', '/api/profiles', { profile: DEMO_PROFILE, reason: 'not allowed' });
+    const activate = await call(role, 'POST', '/api/profiles/1/activate', { reason: 'not allowed' });
+    expect([save.status, activate.status]).toEqual([403, 403]);
+  });
+
+  it.each([
+    ['a negative trap frequency', { profile: { ...DEMO_PROFILE, trapHz: [350, -80, 400] }, reason: 'r' }, /trapHz/],
+    ['an unknown species', { profile: { ...DEMO_PROFILE, species: '999Xx' }, reason: 'r' }, /species/],
+    ['an unknown profile key', { profile: { ...DEMO_PROFILE, trapFrequency: 1 }, reason: 'r' }, /unknown key\(s\) trapFrequency/],
+    ['no TOF time', { profile: { ...DEMO_PROFILE, tofMs: [] }, reason: 'r' }, /tofMs: tofMs must list at least one time/],
+    ['no reason', { profile: DEMO_PROFILE }, /reason: must be text saying why/],
+    ['an empty reason', { profile: DEMO_PROFILE, reason: '  ' }, /reason: must say why/],
+  ])('answers 400 naming what to fix for %s, and stores nothing', async (_what, body, message) => {
+    const count = (await list()).length;
+    const res = await call<{ error: string }>('lead', 'POST', '/api/profiles', body);
+    expect(res.status).toBe(400);
+    expect(res.body.error).toMatch(message);
+    expect((await list()).length).toBe(count);
+  });
+
+  it('asks for a reason when activating', async () => {
+    const res = await call<{ error: string }>('lead', 'POST', '/api/profiles/1/activate', {});
+    expect(res.status).toBe(400);
+    expect(res.body.error).toMatch(/reason: must be text saying why/);
+  });
+});
+
+describe('sample profiles in the database', () => {
+  let dir: string;
+
+  beforeAll(async () => {
+    dir = await makeDataDir();
+  });
+  afterAll(() => {
+    removeDataDir(dir);
+  });
+
+  it('writes who, old and new value and reason of every save and activation to the audit trail, and allows one active row', async () => {
+    const server = await startTestServer(dir);
+    let saved: ProfileRecord;
+    try {
+      const call = await clientsFor(server, ['lead']);
+      const edited = { ...DEMO_PROFILE, tofMs: [15, 25] };
+      saved = (await call<ProfileRecord>('lead', 'POST', '/api/profiles', { profile: edited, reason: 'shorter flight' })).body;
+      await call('lead', 'POST', `/api/profiles/${saved.id}/activate`, { reason: 'use the shorter flight' });
+    } finally {
+      await server.close();
+    }
+
+    const database = await openDatabase({ dataDir: dir, databaseUrl: null });
+    try {
+      const { db } = database;
+      const rows = await db.select().from(auditLog).where(like(auditLog.action, 'profile.%')).orderBy(asc(auditLog.id));
+      const demo = { id: 1, name: DEMO_PROFILE.name, version: 1 };
+      const v2 = { id: saved.id, name: DEMO_PROFILE.name, version: 2 };
+      expect(rows.map(({ actor, action, subject, oldValue, newValue, reason }) => ({ actor, action, subject, oldValue, newValue, reason }))).toEqual([
+        { actor: 'system', action: 'profile.seed', subject: 'profile:1', oldValue: null, newValue: { ...demo, profile: DEMO_PROFILE }, reason: expect.stringMatching(/first start/) },
+        {
+          actor: 'lead@tiltwatch.example', action: 'profile.save', subject: `profile:${saved.id}`,
+          oldValue: { ...demo, profile: DEMO_PROFILE }, newValue: { ...v2, profile: saved.profile }, reason: 'shorter flight',
+        },
+        { actor: 'lead@tiltwatch.example', action: 'profile.activate', subject: `profile:${saved.id}`, oldValue: demo, newValue: v2, reason: 'use the shorter flight' },
+      ]);
+      for (const row of rows) expect(row.at).toBeInstanceOf(Date);
+
+      const second = { name: 'second active', version: 1, body: DEMO_PROFILE, active: true, createdBy: 'test', reason: 'must be refused' };
+      await expect(db.insert(sampleProfiles).values(second)).rejects.toMatchObject({
+        cause: expect.objectContaining({ message: expect.stringMatching(/sample_profiles_one_active/) }),
+      });
+    } finally {
+      await database.close();
+    }
+  });
+});

@@ -1,0 +1,139 @@
+import { httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
+import { MatIconModule } from '@angular/material/icon';
+import { MatTabsModule } from '@angular/material/tabs';
+import { errorText } from '../api/error-text';
+import { Session } from '../auth/session';
+import { LiveFeed } from '../feed/live-feed';
+import type { AlarmHealthReport, AlarmListItem } from '../../../shared/alarms/alarm-api';
+import { formatLocalDateTime } from '../readout/format-quantity';
+import { AlarmHistory } from './alarm-history';
+import { AlarmLimits } from './alarm-limits';
+import { AlarmList } from './alarm-list';
+import type { AlarmActionRequest, ListedAlarm } from './alarm-row';
+import { AlarmRequests } from './alarm-requests';
+import { AlarmSystemHealth } from './alarm-system-health';
+import { channelLabel, channelQuantity } from './channel-text';
+import { ReasonDialog, type ReasonDialogData } from './reason-dialog';
+
+/** Longest shelving offered, minutes (one shift; the server enforces its own maximum). */
+export const MAX_SHELVE_MINUTES = 480;
+
+const ANNUNCIATED = new Set(['unacknowledged', 'acknowledged', 'returned-unacknowledged', 'latched']);
+const SET_ASIDE = new Set(['shelved', 'suppressed', 'out-of-service']);
+const PRIORITY_RANK: Record<string, number> = { high: 0, medium: 1, low: 2 };
+
+/**
+ * The Alarms page: the active alarms (first-out groups folded), the alarms set aside
+ * (shelved, suppressed by design, out of service), the history, the limits with their
+ * rationale, and the health of the alarm system itself.
+ */
+@Component({
+  selector: 'tw-alarms-page',
+  imports: [AlarmHistory, AlarmLimits, AlarmList, AlarmSystemHealth, MatButtonModule, MatIconModule, MatTabsModule],
+  templateUrl: './alarms-page.html',
+  styleUrl: './alarms-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class AlarmsPage {
+  private readonly feed = inject(LiveFeed);
+  private readonly requests = inject(AlarmRequests);
+  private readonly dialog = inject(MatDialog);
+  protected readonly role = inject(Session).role;
+
+  /** Every alarm with its state; reloaded whenever the server pushes a change and after each request. */
+  protected readonly all = httpResource<{ alarms: AlarmListItem[] }>(() => '/api/alarms?state=all');
+  protected readonly allError = computed(() => (this.all.error() ? errorText(this.all.error()) : null));
+  protected readonly health = httpResource<AlarmHealthReport>(() => '/api/alarms/health');
+  protected readonly healthError = computed(() => (this.health.error() ? errorText(this.health.error()) : null));
+
+  /** The pushed list when there is one (it is newest), else the fetched one. */
+  protected readonly active = computed<ListedAlarm[]>(() => {
+    const pushed = this.feed.alarms()?.active;
+    if (pushed) return pushed;
+    const fetched = this.all.hasValue() ? this.all.value().alarms : [];
+    return fetched
+      .filter((a) => ANNUNCIATED.has(a.state))
+      .sort((a, b) => PRIORITY_RANK[a.priority] - PRIORITY_RANK[b.priority] || Date.parse(a.raisedAt ?? '') - Date.parse(b.raisedAt ?? ''));
+  });
+
+  protected readonly setAside = computed<ListedAlarm[]>(() => {
+    const fetched = this.all.hasValue() ? this.all.value().alarms : [];
+    return fetched.filter((a) => SET_ASIDE.has(a.state)).map((a) => ({ ...a, note: a.shelf ? shelfNote(a.shelf) : undefined }));
+  });
+
+  /** Why the last request failed, shown above the list until the next one. */
+  protected readonly problem = signal<string | null>(null);
+
+  constructor() {
+    effect(() => {
+      if (!this.feed.alarms()) return;
+      untracked(() => {
+        this.all.reload();
+        this.health.reload();
+      });
+    });
+  }
+
+  protected async perform({ alarm, action }: AlarmActionRequest): Promise<void> {
+    this.problem.set(null);
+    const subject = `${channelLabel(alarm.channel)} (${alarm.id}): ${channelQuantity(alarm.channel, alarm.value)}, limit ${channelQuantity(alarm.channel, alarm.limit)}`;
+    switch (action) {
+      case 'acknowledge':
+        return this.send(() => this.requests.acknowledge(alarm.id));
+      case 'unshelve':
+        return this.send(() => this.requests.unshelve(alarm.id, ''));
+      case 'shelve':
+        return this.ask({
+          title: 'Shelve alarm',
+          subject: `${subject}. A shelved alarm is still evaluated and logged, but not shown to the shift.`,
+          confirm: 'Shelve',
+          maxMinutes: MAX_SHELVE_MINUTES,
+          send: (reason, minutes) => this.requests.shelve(alarm.id, minutes ?? 0, reason),
+        });
+      case 'reset':
+        return this.ask({
+          title: 'Reset latched alarm',
+          subject: `${subject}. The condition has cleared; the reset also acknowledges it.`,
+          confirm: 'Reset',
+          send: (reason) => this.requests.reset(alarm.id, reason),
+        });
+      case 'out-of-service':
+        return this.ask({
+          title: 'Take alarm out of service',
+          subject: `${subject}. It will not be evaluated at all until returned to service.`,
+          confirm: 'Take out of service',
+          send: (reason) => this.requests.setOutOfService(alarm.id, true, reason),
+        });
+      case 'return-to-service':
+        return this.ask({
+          title: 'Return alarm to service',
+          subject,
+          confirm: 'Return to service',
+          send: (reason) => this.requests.setOutOfService(alarm.id, false, reason),
+        });
+    }
+  }
+
+  private async send(request: () => Promise<unknown>): Promise<void> {
+    try {
+      await request();
+    } catch (err) {
+      this.problem.set(errorText(err));
+    }
+    this.all.reload();
+  }
+
+  private ask(data: ReasonDialogData): void {
+    const ref = this.dialog.open<ReasonDialog, ReasonDialogData, true>(ReasonDialog, { data, width: '480px', autoFocus: 'first-tabbable' });
+    ref.afterClosed().subscribe((done) => {
+      if (done) this.all.reload();
+    });
+  }
+}
+
+function shelfNote(shelf: NonNullable<AlarmListItem['shelf']>): string {
+  return `by ${shelf.by} until ${formatLocalDateTime(Date.parse(shelf.until))}: ${shelf.reason}`;
+}

@@ -1,0 +1,92 @@
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import type { AlarmPriority } from '../../../shared/alarms/alarm-api';
+import { errorText } from '../api/error-text';
+import { PRIORITY_LOOK } from './alarm-look';
+import type { AlarmLimitChanges, AlarmLimitRecord } from './alarm-records';
+import { AlarmRequests } from './alarm-requests';
+import { channelLabel, channelUnit } from './channel-text';
+import { MAX_REASON_CHARS } from './reason-dialog';
+
+const num = (value: number) => new FormControl<number | null>(value);
+const text = (value: string) => new FormControl(value, { nonNullable: true });
+
+/**
+ * A lead's edit of one alarm limit and its rationale. Sends it with the required reason;
+ * the server validates the whole limit set and its refusal is shown as it says it.
+ */
+@Component({
+  selector: 'tw-limit-dialog',
+  imports: [MatButtonModule, MatCheckboxModule, MatDialogModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
+  templateUrl: './limit-dialog.html',
+  styleUrl: './limit-dialog.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class LimitDialog {
+  protected readonly limit = inject<AlarmLimitRecord>(MAT_DIALOG_DATA);
+  private readonly ref = inject<MatDialogRef<LimitDialog, true>>(MatDialogRef);
+  private readonly requests = inject(AlarmRequests);
+
+  protected readonly unit = channelUnit(this.limit.channel);
+  protected readonly title = `${channelLabel(this.limit.channel)} — ${this.limit.id}`;
+  protected readonly priorities = (Object.keys(PRIORITY_LOOK) as AlarmPriority[]).map((p) => ({ value: p, label: PRIORITY_LOOK[p].label }));
+  protected readonly maxReason = MAX_REASON_CHARS;
+
+  protected readonly form = new FormGroup({
+    limit: num(this.limit.limit),
+    deadband: num(this.limit.deadband),
+    onDelayMs: num(this.limit.onDelayMs),
+    offDelayMs: num(this.limit.offDelayMs),
+    priority: new FormControl<AlarmPriority>(this.limit.priority, { nonNullable: true }),
+    latching: new FormControl(this.limit.latching, { nonNullable: true }),
+    cause: text(this.limit.rationale.cause),
+    consequence: text(this.limit.rationale.consequence),
+    action: text(this.limit.rationale.action),
+    respondWithinMin: num(this.limit.rationale.respondWithinMin),
+    reason: text(''),
+  });
+  protected readonly problem = signal<string | null>(null);
+  protected readonly sending = signal(false);
+
+  protected async save(): Promise<void> {
+    const v = this.form.getRawValue();
+    const numbers = { limit: v.limit, deadband: v.deadband, onDelayMs: v.onDelayMs, offDelayMs: v.offDelayMs, respondWithinMin: v.respondWithinMin };
+    const missing = Object.entries(numbers).filter(([, n]) => n === null || !Number.isFinite(n)).map(([k]) => k);
+    if (missing.length) {
+      this.problem.set(`Enter a number for: ${missing.join(', ')}.`);
+      return;
+    }
+    if (v.reason.trim() === '') {
+      this.problem.set('Write a reason for the change: it goes to the audit trail with the old and new values.');
+      return;
+    }
+    const changes: AlarmLimitChanges = {
+      level: this.limit.level,
+      limit: v.limit!,
+      deadband: v.deadband!,
+      onDelayMs: v.onDelayMs!,
+      offDelayMs: v.offDelayMs!,
+      priority: v.priority,
+      latching: v.latching,
+      suppressDuringRamp: this.limit.suppressDuringRamp ?? false,
+      rationale: { cause: v.cause, consequence: v.consequence, action: v.action, respondWithinMin: v.respondWithinMin! },
+    };
+    this.problem.set(null);
+    this.sending.set(true);
+    try {
+      await this.requests.updateLimit(this.limit.id, changes, v.reason.trim());
+      this.ref.close(true);
+    } catch (err) {
+      this.problem.set(errorText(err));
+    } finally {
+      this.sending.set(false);
+    }
+  }
+}

@@ -1,0 +1,111 @@
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { errorText } from '../api/error-text';
+
+/** Longest reason the server accepts, characters. */
+export const MAX_REASON_CHARS = 500;
+
+export interface ReasonDialogData {
+  /** "Shelve alarm", "Reset latched alarm", … */
+  title: string;
+  /** The alarm in words, shown under the title. */
+  subject: string;
+  /** Label of the confirming button ("Shelve"). */
+  confirm: string;
+  /** Ask for a number of minutes as well, from 1 to this maximum (shelving). */
+  maxMinutes?: number;
+  /** Sends the request; a rejection's text is shown in the dialog, which stays open. */
+  send: (reason: string, minutes: number | null) => Promise<unknown>;
+}
+
+/**
+ * Asks for the reason an alarm request needs (and the shelving time), sends the request and
+ * closes only when the server accepted it. Nothing is sent without a reason.
+ */
+@Component({
+  selector: 'tw-reason-dialog',
+  imports: [MatButtonModule, MatDialogModule, MatFormFieldModule, MatIconModule, MatInputModule, ReactiveFormsModule],
+  template: `
+    <h2 mat-dialog-title>{{ data.title }}</h2>
+    <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
+      <mat-dialog-content>
+        <p class="subject">{{ data.subject }}</p>
+        @if (data.maxMinutes; as max) {
+          <mat-form-field appearance="outline">
+            <mat-label>Minutes</mat-label>
+            <input matInput type="number" formControlName="minutes" min="1" [max]="max" step="1" required />
+            <mat-hint>1 to {{ max }} min; the alarm returns by itself afterwards</mat-hint>
+          </mat-form-field>
+        }
+        <mat-form-field appearance="outline">
+          <mat-label>Reason</mat-label>
+          <textarea matInput formControlName="reason" rows="3" required [attr.maxlength]="maxReason"></textarea>
+          <mat-hint>Written to the audit trail with your name</mat-hint>
+        </mat-form-field>
+        @if (problem(); as text) {
+          <p class="problem" role="alert"><mat-icon aria-hidden="true" inline>error</mat-icon> {{ text }}</p>
+        }
+      </mat-dialog-content>
+      <mat-dialog-actions align="end">
+        <button mat-button type="button" mat-dialog-close>Cancel</button>
+        <button mat-flat-button type="submit" [disabled]="sending()">{{ data.confirm }}</button>
+      </mat-dialog-actions>
+    </form>
+  `,
+  styles: `
+    mat-form-field {
+      display: block;
+      width: 100%;
+      margin-top: 8px;
+    }
+    .subject {
+      margin: 0 0 8px;
+    }
+    .problem {
+      margin: 8px 0 0;
+      color: var(--tw-trip-text);
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ReasonDialog {
+  protected readonly data = inject<ReasonDialogData>(MAT_DIALOG_DATA);
+  private readonly ref = inject<MatDialogRef<ReasonDialog, true>>(MatDialogRef);
+
+  protected readonly maxReason = MAX_REASON_CHARS;
+  protected readonly form = new FormGroup({
+    minutes: new FormControl<number | null>(this.data.maxMinutes ? Math.min(60, this.data.maxMinutes) : null),
+    reason: new FormControl('', { nonNullable: true }),
+  });
+  protected readonly problem = signal<string | null>(null);
+  protected readonly sending = signal(false);
+
+  protected async submit(): Promise<void> {
+    const reason = this.form.controls.reason.value.trim();
+    const minutes = this.form.controls.minutes.value;
+    const max = this.data.maxMinutes;
+    if (max !== undefined && (minutes === null || !Number.isFinite(minutes) || minutes < 1 || minutes > max)) {
+      this.problem.set(`Enter a shelving time from 1 to ${max} minutes.`);
+      return;
+    }
+    if (reason === '') {
+      this.problem.set('Write a reason: say why, in a few words, for the audit trail and the next shift.');
+      return;
+    }
+    this.problem.set(null);
+    this.sending.set(true);
+    try {
+      await this.data.send(reason, max !== undefined ? minutes : null);
+      this.ref.close(true);
+    } catch (err) {
+      this.problem.set(errorText(err));
+    } finally {
+      this.sending.set(false);
+    }
+  }
+}

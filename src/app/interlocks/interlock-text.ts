@@ -1,0 +1,55 @@
+/** Sentences about the software interlock, shared by the banner and the Interlocks page. */
+import type { InterlockCondition, InterlockFirstOut, InterlockStatus } from '../../../shared/alarms/alarm-api';
+import { isChannelId } from '../../../shared/alarms/channels';
+import { channelUnit, quantityText } from '../alarms/channel-text';
+import { formatLocalTime } from '../readout/format-quantity';
+
+/** A condition name in words: "low-flow-x" → "low flow x". */
+export function conditionWords(name: string): string {
+  return name.replace(/-/g, ' ');
+}
+
+/** Unit of a condition's value: the one the server sent, else its channel's. */
+export function conditionUnit(condition: Pick<InterlockCondition, 'channel' | 'unit'>): string {
+  return condition.unit ?? channelUnit(condition.channel);
+}
+
+/**
+ * "0.42 L/min, trip level 1.00 L/min"; for a yes/no condition (no unit) just its state in
+ * words ("offline"), since "0 against 1" would mean nothing to the operator.
+ */
+export function readingAgainstLimit(
+  reading: { value: number | null; limit: number },
+  condition: Pick<InterlockCondition, 'channel' | 'unit' | 'tripsWhen'>,
+): string {
+  const unit = conditionUnit(condition);
+  if (unit === '' && condition.tripsWhen) return condition.tripsWhen;
+  return `${quantityText(reading.value, unit)}, trip level ${quantityText(reading.limit, unit)}`;
+}
+
+/**
+ * "low flow x on flow.x"; a condition that watches no single coil's channel (staleness,
+ * controller connection, frame loss) is named alone, since "telemetry stale on stale" would
+ * only puzzle the reader.
+ */
+export function conditionOnChannel(name: string, channel: string): string {
+  const words = conditionWords(name);
+  return isChannelId(channel) && channel.includes('.') ? `${words} on ${channel}` : words;
+}
+
+/**
+ * "first out: low flow x on flow.x at 14:03:12 (0.42 L/min, trip level 1.00 L/min)" — the
+ * condition that tripped the interlock, when (local time) and by how much.
+ */
+export function firstOutText(firstOut: InterlockFirstOut, conditions: readonly InterlockCondition[]): string {
+  const condition = conditions.find((c) => c.name === firstOut.condition) ?? { channel: firstOut.channel };
+  const at = formatLocalTime(Date.parse(firstOut.at));
+  return `first out: ${conditionOnChannel(firstOut.condition, firstOut.channel)} at ${at} (${readingAgainstLimit(firstOut, condition)})`;
+}
+
+/** The banner's headline for a tripped interlock, or null while it is ok. */
+export function tripHeadline(status: InterlockStatus | null): string | null {
+  if (!status || status.state !== 'tripped') return null;
+  const cause = status.firstOut ? ` — ${firstOutText(status.firstOut, status.conditions)}` : '';
+  return `Software interlock tripped${cause}`;
+}
