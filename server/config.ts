@@ -122,6 +122,8 @@ export const CONFIG_DEFAULTS = {
   staleTripMs: 250,
 };
 
+const SECRET_VARIABLES = new Set(['DATABASE_URL', 'MQTT_URL', 'MQTT_PASSWORD', 'SMTP_URL', 'TILTWATCH_DEMO_PASSWORD']);
+
 /**
  * Reads and validates the server's environment. Throws `ConfigError` listing every bad
  * variable with what to fix; relative paths resolve against the working directory.
@@ -132,7 +134,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
     throw new ConfigError(
       parsed.error.issues.map((issue) => {
         const name = String(issue.path[0] ?? 'environment');
-        return `${name}=${JSON.stringify(env[name] ?? '')} ${issue.message}`;
+        // Connection strings and passwords may carry credentials: never echo them into logs.
+        const shown = SECRET_VARIABLES.has(name) ? '(value hidden)' : JSON.stringify(env[name] ?? '');
+        return `${name}=${shown} ${issue.message}`;
       }),
     );
   }

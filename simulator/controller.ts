@@ -93,6 +93,8 @@ export async function startSimulator(opts: SimulatorOptions): Promise<RunningSim
   };
 
   client.on('connect', () => {
+    // Frames are small and time-critical: Nagle's algorithm would hold each one back for tens of ms.
+    (client.stream as { setNoDelay?: (noDelay: boolean) => void }).setNoDelay?.(true);
     log('controller connected to MQTT', { url: opts.mqttUrl });
     client.subscribe([TOPICS.setpoints, TOPICS.trip, TOPICS.release], { qos: 1 }, (error) => {
       if (error) log('command subscription failed', { error: error.message });

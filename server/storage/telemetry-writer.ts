@@ -170,7 +170,7 @@ function* chunks<T>(rows: T[]): Generator<T[]> {
 function toBatchRow(b: OpenBatch): typeof fastBatches.$inferInsert {
   const n = b.channels.cx.length;
   return {
-    t0Ms: b.t0Ms,
+    t0Ms: Math.floor(b.t0Ms), // stored to the millisecond; the column is an integer
     t1Ms: Math.ceil(b.t0Ms + (n * 1000) / b.rateHz),
     seqFirst: b.seqFirst,
     seqLast: b.seqLast,

@@ -28,7 +28,10 @@ function frame(seq: number, t0Ms: number, rateHz: number): FastFrame {
   };
 }
 
-interface Health { frames: { accepted: number; rejected: number; lost: number } }
+interface Health {
+  frames: { accepted: number; rejected: number; lost: number };
+  storage: { framesDropped: number; flushErrors: number };
+}
 
 export async function benchPipeline(): Promise<Figure[]> {
   const stack = await startStack({ simulator: false });
@@ -68,7 +71,8 @@ export async function benchPipeline(): Promise<Figure[]> {
     const p50 = quantile(latencies, 0.5);
     const p99 = quantile(latencies, 0.99);
 
-    // Throughput: publish k× the demo rate for two seconds of data each, stop at the first loss.
+    // Throughput: publish k× the demo rate for two seconds of data each, stop at the first loss
+    // anywhere between the broker and the database.
     let held = 1;
     for (const k of [1, 2, 5, 10, 20, 40, 80, 160]) {
       const before = await health();
@@ -84,7 +88,16 @@ export async function benchPipeline(): Promise<Figure[]> {
         const h = await health();
         return h.frames.accepted - before.frames.accepted >= count ? h : undefined;
       }, `${count} frames at ${k}× to be accepted`, 10_000).catch(() => undefined);
-      const ok = after !== undefined && after.frames.rejected === before.frames.rejected && after.frames.lost === before.frames.lost;
+      // No loss means every frame accepted, none rejected or lost, and none dropped or failed in storage.
+      const stored = after && (await waitFor(async () => {
+        const h = await health();
+        return h.storage.flushErrors === before.storage.flushErrors && h.storage.framesDropped === before.storage.framesDropped ? h : undefined;
+      }, 'storage to keep up', 1000).catch(() => undefined));
+      const ok =
+        after !== undefined &&
+        stored !== undefined &&
+        after.frames.rejected === before.frames.rejected &&
+        after.frames.lost === before.frames.lost;
       if (!ok) break;
       held = k;
     }

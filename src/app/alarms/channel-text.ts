@@ -11,13 +11,18 @@ export function channelUnit(channel: string): string {
   return isChannelId(channel) ? CHANNELS[channel].unit : '';
 }
 
+/** Decimals that give about three significant figures for the usual ranges of these channels. */
+export function defaultDigits(value: number): number {
+  return Math.abs(value) >= 100 ? 0 : Math.abs(value) >= 10 ? 1 : 2;
+}
+
 /**
  * A value with its unit for alarm and interlock lists: two decimals below 10, one below 100,
- * none above (three significant figures for the usual ranges of these channels).
+ * none above, unless `digits` asks for more.
  */
-export function quantityText(value: number | null | undefined, unit: string): string {
+export function quantityText(value: number | null | undefined, unit: string, digits?: number): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return NO_VALUE;
-  const digits = Math.abs(value) >= 100 ? 0 : Math.abs(value) >= 10 ? 1 : 2;
+  digits ??= defaultDigits(value);
   return unit === '' ? formatNumber(value, digits) : formatQuantity(value, unit, digits);
 }
 

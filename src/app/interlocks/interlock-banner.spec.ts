@@ -62,6 +62,11 @@ describe('InterlockBanner', () => {
     expect(host.querySelector('mat-icon')!.textContent).toBe('report');
   });
 
+  it('shows a value just past the trip level with enough decimals to tell it from the level', async () => {
+    await show({ ...TRIPPED, firstOut: { ...TRIPPED.firstOut!, value: 0.9962 } });
+    expect(alerts()[0]).toContain('(0.996\u00a0L/min, trip level 1.000\u00a0L/min)');
+  });
+
   it('names a condition that watches no coil channel without a channel', async () => {
     await show({ ...TRIPPED, firstOut: { condition: 'telemetry-stale', channel: 'stale', value: 514, limit: 250, at: TRIP_AT } });
     expect(alerts()[0]).toContain('first out: telemetry stale at ');

@@ -1,7 +1,7 @@
 /** Sentences about the software interlock, shared by the banner and the Interlocks page. */
 import type { InterlockCondition, InterlockFirstOut, InterlockStatus } from '../../../shared/alarms/alarm-api';
 import { isChannelId } from '../../../shared/alarms/channels';
-import { channelUnit, quantityText } from '../alarms/channel-text';
+import { channelUnit, defaultDigits, quantityText } from '../alarms/channel-text';
 import { formatLocalTime } from '../readout/format-quantity';
 
 /** A condition name in words: "low-flow-x" → "low flow x". */
@@ -24,7 +24,11 @@ export function readingAgainstLimit(
 ): string {
   const unit = conditionUnit(condition);
   if (unit === '' && condition.tripsWhen) return condition.tripsWhen;
-  return `${quantityText(reading.value, unit)}, trip level ${quantityText(reading.limit, unit)}`;
+  // A value just past the level must not read as equal to it ("1.00 L/min, trip level 1.00 L/min").
+  let digits = defaultDigits(reading.limit);
+  const text = (v: number | null) => quantityText(v, unit, digits);
+  while (digits < 4 && reading.value !== null && reading.value !== reading.limit && text(reading.value) === text(reading.limit)) digits++;
+  return `${text(reading.value)}, trip level ${text(reading.limit)}`;
 }
 
 /**
