@@ -1,4 +1,4 @@
-import type { Calibration } from '../../shared/field/calibration.js';
+import { assertRotation, type Calibration } from '../../shared/field/calibration.js';
 import { findActiveCalibration, findCalibration } from '../calibration/calibration-repository.js';
 import type { Db } from '../db/database.js';
 
@@ -18,6 +18,12 @@ export class CalibrationCache {
     const record = await findActiveCalibration(this.db);
     if (!record) throw new Error('no active calibration in the database: activate one before starting ingest');
     const calibration = strip(record);
+    // A frame rotation that is not a rotation would silently distort every field angle.
+    try {
+      assertRotation(calibration.coilToTrap);
+    } catch (error) {
+      throw new Error(`active calibration v${calibration.version} is unusable: ${(error as Error).message}`);
+    }
     this.versions.set(calibration.id, calibration);
     this.activeCalibration = calibration;
     return calibration;
