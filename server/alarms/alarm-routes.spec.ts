@@ -3,11 +3,12 @@ import type mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ActiveAlarm, AlarmActionResult, AlarmHealthReport, AlarmHistoryEvent, AlarmListItem } from '../../shared/alarms/alarm-api.js';
 import type { Role } from '../../shared/auth/roles.js';
+import { waitFor } from '../../test/support/stack.js';
 import { openDatabase } from '../db/database.js';
 import { auditLog } from '../db/schema.js';
 import type { RunningServer } from '../server.js';
 import { startControllerFeed, type ControllerFeed } from '../testing/controller-feed.js';
-import { connectController, makeDataDir, removeDataDir, signIn, startTestServer } from '../testing/test-server.js';
+import { callApi, connectController, makeDataDir, removeDataDir, signIn, startTestServer } from '../testing/test-server.js';
 import type { AlarmLimit } from './alarm-limit.js';
 
 /** Alarm routes against a real server, broker and database, with a scripted controller feeding telemetry. */
@@ -32,31 +33,14 @@ describe('alarm routes', () => {
     removeDataDir(dir);
   });
 
-  async function call<T>(role: Role, method: string, path: string, body?: unknown): Promise<{ status: number; body: T }> {
-    const res = await fetch(`${server.url}${path}`, {
-      method,
-      headers: { authorization: `Bearer ${tokens.get(role)}`, 'content-type': 'application/json' },
-      body: body === undefined ? undefined : JSON.stringify(body),
-    });
-    return { status: res.status, body: (await res.json()) as T };
-  }
-
-  async function until<T>(probe: () => Promise<T | undefined>, what: string, timeoutMs = 8000): Promise<T> {
-    const end = Date.now() + timeoutMs;
-    for (;;) {
-      const value = await probe();
-      if (value !== undefined) return value;
-      if (Date.now() > end) throw new Error(`timed out waiting for ${what}`);
-      await new Promise((r) => setTimeout(r, 50));
-    }
-  }
+  const call = <T>(role: Role, method: string, path: string, body?: unknown) => callApi<T>(server, tokens.get(role), method, path, body);
 
   const activeAlarm = (id: string) => async () =>
     (await call<{ alarms: ActiveAlarm[] }>('viewer', 'GET', '/api/alarms?state=active')).body.alarms.find((a) => a.id === id);
 
   it('raises a current alarm from telemetry and lists it as active, and every alarm with state=all', async () => {
     feed.currents = { x: 19, y: 4, z: 6 };
-    const alarm = await until(activeAlarm('current.x.H'), 'current.x.H to be raised');
+    const alarm = await waitFor(activeAlarm('current.x.H'), 'current.x.H to be raised');
     expect(alarm).toMatchObject({ channel: 'current.x', priority: 'medium', state: 'unacknowledged', limit: 18, level: 'H' });
     expect(alarm.value).toBeCloseTo(19, 6);
     expect(Date.parse(alarm.raisedAt)).toBeGreaterThan(Date.now() - 60_000);
@@ -142,14 +126,14 @@ describe('alarm routes', () => {
 
   it('latches a high-priority alarm, refuses its reset while the condition holds, resets it after, and mails the on-call list', async () => {
     feed.flows = { x: 1.1, y: 3.2, z: 3.3 };
-    await until(activeAlarm('flow.x.LL'), 'flow.x.LL to be raised');
+    await waitFor(activeAlarm('flow.x.LL'), 'flow.x.LL to be raised');
     const early = await call<{ error: string }>('operator', 'POST', '/api/alarms/flow.x.LL/reset', { reason: 'valve reopened' });
     expect(early.status).toBe(409);
     expect(early.body.error).toMatch(/its condition still holds/);
     const ack = await call<{ error: string }>('operator', 'POST', '/api/alarms/flow.x.LL/acknowledge');
     expect(ack.status).toBe(200);
     feed.flows = { x: 3.1, y: 3.2, z: 3.3 };
-    const latched = await until(async () => {
+    const latched = await waitFor(async () => {
       const a = await activeAlarm('flow.x.LL')();
       return a?.state === 'latched' ? a : undefined;
     }, 'flow.x.LL to latch');
@@ -160,7 +144,7 @@ describe('alarm routes', () => {
     const reset = await call<AlarmActionResult>('operator', 'POST', '/api/alarms/flow.x.LL/reset', { reason: 'valve reopened' });
     expect(reset.body).toMatchObject({ changed: true, alarm: { state: 'normal' } });
 
-    const mail = await until(async () => {
+    const mail = await waitFor(async () => {
       const { body } = await call<{ messages: { to: string[]; subject: string; text: string }[] }>('admin', 'GET', '/api/admin/outbox');
       return body.messages.find((m) => m.subject.includes('High-priority alarm') && m.subject.includes('Coolant flow x'));
     }, 'the alarm notice in the outbox');

@@ -50,7 +50,8 @@ export interface AlarmRouteDeps {
   now?: () => number;
 }
 
-type AlarmRoutes =
+/** The routes `alarmHandlers` answers. */
+export type AlarmRoutes =
   | 'alarms.list'
   | 'alarms.history'
   | 'alarms.health'

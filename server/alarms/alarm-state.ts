@@ -7,27 +7,13 @@
  * `hidden` set but not annunciated. Out-of-service alarms are not evaluated at all (their
  * instrument is under maintenance) and restart from normal when returned to service.
  */
+import type { AlarmEventKind, AlarmProcessState, AlarmStateName, AlarmSuppression } from '../../shared/alarms/alarm-api.js';
 import type { ChannelId } from './channels.js';
 import { isHighLevel, type AlarmLimit, type AlarmPriority } from './alarm-limit.js';
 import { AlarmRequestError } from './alarm-request-error.js';
 
-export type AlarmProcessState = 'normal' | 'unacknowledged' | 'acknowledged' | 'returned-unacknowledged' | 'latched';
-export type AlarmSuppression = 'shelved' | 'suppressed' | 'out-of-service';
 /** What the operator sees: the suppression when one applies, the annunciated state otherwise. */
-export type AlarmState = AlarmProcessState | AlarmSuppression;
-
-export type AlarmEventKind =
-  | 'raise'
-  | 'clear'
-  | 'acknowledge'
-  | 'reset'
-  | 'shelve'
-  | 'unshelve'
-  | 'shelve-expired'
-  | 'suppress'
-  | 'unsuppress'
-  | 'out-of-service'
-  | 'return-to-service';
+export type AlarmState = AlarmStateName;
 
 /** One transition, for the alarm history and the audit trail. Times in Unix epoch ms. */
 export interface AlarmEvent {

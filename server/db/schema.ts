@@ -23,11 +23,12 @@ import {
   timestamp,
   uniqueIndex,
 } from 'drizzle-orm/pg-core';
+import type { AlarmEventKind, AlarmSuppression } from '../../shared/alarms/alarm-api.js';
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
-import type { AlarmEventKind, AlarmState, AlarmSuppression } from '../alarms/alarm-state.js';
+import type { AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
 import type { ConditionStatus } from '../interlock/trip-conditions.js';
 

@@ -5,9 +5,10 @@ import type { Role } from '../../shared/auth/roles.js';
 import type { ServerMessage } from '../../shared/live/live-state.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import { openLiveSocket } from '../../test/support/live-socket.js';
+import { waitFor } from '../../test/support/stack.js';
 import type { RunningServer } from '../server.js';
 import { startControllerFeed, type ControllerFeed } from '../testing/controller-feed.js';
-import { connectController, makeDataDir, removeDataDir, signIn, startTestServer } from '../testing/test-server.js';
+import { callApi, connectController, makeDataDir, removeDataDir, signIn, startTestServer } from '../testing/test-server.js';
 
 /**
  * The software interlock through the server: a scripted controller on the real broker, the
@@ -42,29 +43,12 @@ describe('software interlock routes', () => {
     removeDataDir(dir);
   });
 
-  async function call<T>(role: Role, method: string, path: string, body?: unknown): Promise<{ status: number; body: T }> {
-    const res = await fetch(`${server.url}${path}`, {
-      method,
-      headers: { authorization: `Bearer ${tokens.get(role)}`, 'content-type': 'application/json' },
-      body: body === undefined ? undefined : JSON.stringify(body),
-    });
-    return { status: res.status, body: (await res.json()) as T };
-  }
+  const call = <T>(role: Role, method: string, path: string, body?: unknown) => callApi<T>(server, tokens.get(role), method, path, body);
   const status = async () => (await call<InterlockStatus>('viewer', 'GET', '/api/interlock')).body;
-
-  async function until<T>(probe: () => Promise<T | undefined> | T | undefined, what: string, timeoutMs = 8000): Promise<T> {
-    const end = Date.now() + timeoutMs;
-    for (;;) {
-      const value = await probe();
-      if (value !== undefined) return value;
-      if (Date.now() > end) throw new Error(`timed out waiting for ${what}`);
-      await new Promise((r) => setTimeout(r, 25));
-    }
-  }
   const tripCommands = () => feed.commands.filter((c) => c.topic === TOPICS.trip);
 
   it('shows every condition with value and margin and the supervisory caution while ok', async () => {
-    const ok = await until(async () => {
+    const ok = await waitFor(async () => {
       const s = await status();
       return s.conditions.find((c) => c.name === 'low-flow-x')?.value !== null ? s : undefined;
     }, 'flows to arrive');
@@ -78,15 +62,15 @@ describe('software interlock routes', () => {
   it('trips on one over-current sample inside a frame, sends the trip command and names the first-out', async () => {
     const socket = openLiveSocket(server.url, tokens.get('viewer')!);
     try {
-      await until(() => socket.messages.find((m) => m.type === 'alarms'), 'the alarms message after hello');
+      await waitFor(() => socket.messages.find((m) => m.type === 'alarms'), 'the alarms message after hello');
       feed.spike('y', 21.5);
-      const command = await until(() => tripCommands()[0], 'the trip command on the broker');
+      const command = await waitFor(() => tripCommands()[0], 'the trip command on the broker');
       expect((command.payload as { reason: string }).reason).toMatch(/over-current-y/);
       const tripped = await status();
       expect(tripped.state).toBe('tripped');
       expect(tripped.firstOut).toMatchObject({ condition: 'over-current-y', channel: 'current.y', value: 21.5, limit: 20 });
       expect(tripped.trip?.valuesAtTrip.find((c) => c.name === 'over-current-y')).toMatchObject({ active: true, value: 21.5 });
-      const banner = await until(
+      const banner = await waitFor(
         () => socket.messages.find((m): m is AlarmsMessage => m.type === 'alarms' && m.interlock.state === 'tripped'),
         'the alarms message with the trip',
       );
@@ -104,20 +88,20 @@ describe('software interlock routes', () => {
     expect(noReason.body.error).toMatch(/a reason is required/);
 
     feed.currents = { x: 5, y: 21, z: 6 };
-    await until(async () => ((await status()).conditions.find((c) => c.name === 'over-current-y')?.active ? true : undefined), 'the condition to hold');
+    await waitFor(async () => ((await status()).conditions.find((c) => c.name === 'over-current-y')?.active ? true : undefined), 'the condition to hold');
     const refused = await call<InterlockResetRefusal>('operator', 'POST', '/api/interlock/reset', { reason: 'supply y checked' });
     expect(refused.status).toBe(409);
     expect(refused.body.error).toMatch(/Coil current y: 21.0 A \(trips above 20.0 A\)/);
     expect(refused.body.conditions).toEqual([expect.objectContaining({ name: 'over-current-y', active: true, value: 21 })]);
 
     feed.currents = { x: 5, y: 4, z: 6 };
-    await until(async () => ((await status()).conditions.some((c) => c.active) ? undefined : true), 'every condition to clear');
+    await waitFor(async () => ((await status()).conditions.some((c) => c.active) ? undefined : true), 'every condition to clear');
     const reset = await call<{ reset: { actor: string; reason: string }; interlock: InterlockStatus }>('operator', 'POST', '/api/interlock/reset', {
       reason: 'supply y checked',
     });
     expect(reset.status).toBe(200);
     expect(reset.body).toMatchObject({ reset: { actor: 'operator@tiltwatch.example', reason: 'supply y checked' }, interlock: { state: 'ok' } });
-    await until(() => feed.commands.find((c) => c.topic === TOPICS.release), 'the release command');
+    await waitFor(() => feed.commands.find((c) => c.topic === TOPICS.release), 'the release command');
     const after = await status();
     expect(after.history?.[0]).toMatchObject({
       firstOut: { condition: 'over-current-y' },
@@ -128,7 +112,7 @@ describe('software interlock routes', () => {
   });
 
   it('mails the trip to the on-call list through the local catcher, shown to admins only', async () => {
-    const mail = await until(async () => {
+    const mail = await waitFor(async () => {
       const { body } = await call<{ messages: { to: string[]; subject: string; text: string; receivedAt: string }[] }>('admin', 'GET', '/api/admin/outbox');
       return body.messages.find((m) => m.subject.includes('Interlock tripped'));
     }, 'the trip notice');
@@ -141,12 +125,12 @@ describe('software interlock routes', () => {
   it('trips when the controller falls silent, and sends the trip again when it comes back without holding', async () => {
     const before = tripCommands().length;
     feed.pause();
-    await until(() => (tripCommands().length > before ? true : undefined), 'the stale trip command');
+    await waitFor(() => (tripCommands().length > before ? true : undefined), 'the stale trip command');
     expect((await status()).firstOut).toMatchObject({ condition: 'telemetry-stale', channel: 'stale', limit: 250 });
     // A restarted controller reports itself online but not holding: it must be told again.
     const sent = tripCommands().length;
     await feed.publishStatus({ softwareHold: false });
-    await until(() => (tripCommands().length > sent ? true : undefined), 'the trip command sent again', 4000);
+    await waitFor(() => (tripCommands().length > sent ? true : undefined), 'the trip command sent again', 4000);
     feed.resume();
   });
 
@@ -158,11 +142,11 @@ describe('software interlock routes', () => {
     await connect();
     const restored = await status();
     expect(restored).toMatchObject({ state: 'tripped', firstOut: { condition: 'telemetry-stale' } });
-    await until(() => tripCommands()[0], 'the trip command for the restored latch');
+    await waitFor(() => tripCommands()[0], 'the trip command for the restored latch');
     const outbox = await call<{ error: string }>('admin', 'GET', '/api/admin/outbox');
     expect(outbox.status).toBe(404);
     expect(outbox.body.error).toMatch(/SMTP_URL is set/);
-    await until(async () => ((await status()).conditions.some((c) => c.active) ? undefined : true), 'fresh telemetry');
+    await waitFor(async () => ((await status()).conditions.some((c) => c.active) ? undefined : true), 'fresh telemetry');
     expect((await call('operator', 'POST', '/api/interlock/reset', { reason: 'network restored' })).status).toBe(200);
   });
 });

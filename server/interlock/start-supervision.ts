@@ -8,7 +8,7 @@ import type { Logger } from 'pino';
 import { AlarmBook } from '../alarms/alarm-book.js';
 import { alarmLimitHandlers } from '../alarms/alarm-limit-routes.js';
 import { loadAlarmLimits } from '../alarms/alarm-limit-repository.js';
-import { alarmHandlers } from '../alarms/alarm-routes.js';
+import { alarmHandlers, type AlarmRoutes } from '../alarms/alarm-routes.js';
 import { SupervisionLog } from '../alarms/supervision-log.js';
 import type { ServerConfig } from '../config.js';
 import type { Db } from '../db/database.js';
@@ -29,14 +29,7 @@ import { openTrip } from './trip-repository.js';
 const SITE = 'Lindqvist Hall dipolar lab';
 
 type SupervisionRoutes =
-  | 'alarms.list'
-  | 'alarms.history'
-  | 'alarms.health'
-  | 'alarms.acknowledge'
-  | 'alarms.shelve'
-  | 'alarms.unshelve'
-  | 'alarms.out-of-service'
-  | 'alarms.reset'
+  | AlarmRoutes
   | 'alarm-limits.list'
   | 'alarm-limits.update'
   | 'interlock.status'

@@ -57,6 +57,16 @@ export async function signIn(server: RunningServer, role: Role): Promise<string>
   return ((await res.json()) as { token: string }).token;
 }
 
+/** Sends `body` (if any) as JSON to `path` with `token` as the bearer; returns the status and the parsed JSON answer. */
+export async function callApi<T>(server: RunningServer, token: string | undefined, method: string, path: string, body?: unknown): Promise<{ status: number; body: T }> {
+  const res = await fetch(`${server.url}${path}`, {
+    method,
+    headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
+    body: body === undefined ? undefined : JSON.stringify(body),
+  });
+  return { status: res.status, body: (await res.json()) as T };
+}
+
 /** An MQTT client with the embedded broker's controller account, as the simulator would use. */
 export async function connectController(server: RunningServer): Promise<mqtt.MqttClient> {
   const account = server.brokerCredentials?.controller;

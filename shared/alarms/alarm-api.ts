@@ -3,15 +3,25 @@
  * (issue 4). States follow ISA-18.2 / IEC 62682.
  */
 export type AlarmPriority = 'high' | 'medium' | 'low';
-export type AlarmStateName =
-  | 'normal'
-  | 'unacknowledged'
-  | 'acknowledged'
-  | 'returned-unacknowledged'
-  | 'latched'
-  | 'shelved'
-  | 'suppressed'
-  | 'out-of-service';
+/** The annunciated states of ISA-18.2 / IEC 62682. */
+export type AlarmProcessState = 'normal' | 'unacknowledged' | 'acknowledged' | 'returned-unacknowledged' | 'latched';
+/** The suppression states laid over the annunciated ones. */
+export type AlarmSuppression = 'shelved' | 'suppressed' | 'out-of-service';
+/** What the operator sees: the suppression when one applies, the annunciated state otherwise. */
+export type AlarmStateName = AlarmProcessState | AlarmSuppression;
+/** One kind of transition in the alarm history. */
+export type AlarmEventKind =
+  | 'raise'
+  | 'clear'
+  | 'acknowledge'
+  | 'reset'
+  | 'shelve'
+  | 'unshelve'
+  | 'shelve-expired'
+  | 'suppress'
+  | 'unsuppress'
+  | 'out-of-service'
+  | 'return-to-service';
 
 /** One entry of `GET /api/alarms?state=active`. */
 export interface ActiveAlarm {
@@ -62,18 +72,7 @@ export interface AlarmHistoryEvent {
   alarmId: string;
   channel: string;
   priority: AlarmPriority;
-  kind:
-    | 'raise'
-    | 'clear'
-    | 'acknowledge'
-    | 'reset'
-    | 'shelve'
-    | 'unshelve'
-    | 'shelve-expired'
-    | 'suppress'
-    | 'unsuppress'
-    | 'out-of-service'
-    | 'return-to-service';
+  kind: AlarmEventKind;
   /** ISO 8601 UTC. */
   at: string;
   from: AlarmStateName;

@@ -1,12 +1,9 @@
-import { provideHttpClient, withInterceptors } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HttpTestingController } from '@angular/common/http/testing';
 import { TestBed, type ComponentFixture } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { AlarmHealthReport, AlarmListItem } from '../../../shared/alarms/alarm-api';
 import type { Role } from '../../../shared/auth/roles';
-import { authInterceptor } from '../auth/auth-interceptor';
-import { SESSION_STORAGE_KEY } from '../auth/session';
+import { configureSignedIn } from '../auth/signed-in-test-bed';
 import { AlarmsPage } from './alarms-page';
 
 const ALARMS: AlarmListItem[] = [
@@ -41,10 +38,7 @@ describe('AlarmsPage', () => {
 
   /** Opens the page signed in with `role`, the server answering the alarm list and health figures. */
   async function open(role: Role): Promise<void> {
-    localStorage.setItem(SESSION_STORAGE_KEY, JSON.stringify({ token: 'opaque', user: { email: `${role}@tiltwatch.example`, role } }));
-    TestBed.configureTestingModule({
-      providers: [provideRouter([]), provideHttpClient(withInterceptors([authInterceptor])), provideHttpClientTesting()],
-    });
+    configureSignedIn(role);
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(AlarmsPage);
     TestBed.tick();

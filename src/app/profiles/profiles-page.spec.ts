@@ -1,13 +1,10 @@
-import { provideHttpClient, withInterceptors } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HttpTestingController } from '@angular/common/http/testing';
 import { TestBed, type ComponentFixture } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { Role } from '../../../shared/auth/roles';
 import { DEMO_PROFILE } from '../../../shared/profiles/demo-profile';
 import type { ProfileRecord } from '../../../shared/profiles/profile-record';
-import { authInterceptor } from '../auth/auth-interceptor';
-import { SESSION_STORAGE_KEY } from '../auth/session';
+import { configureSignedIn } from '../auth/signed-in-test-bed';
 import { ProfilesPage } from './profiles-page';
 
 const RECORDS: ProfileRecord[] = [
@@ -24,10 +21,7 @@ describe('ProfilesPage', () => {
 
   /** Opens the page signed in with `role`, with the server answering the profile list. */
   async function open(role: Role): Promise<void> {
-    localStorage.setItem(SESSION_STORAGE_KEY, JSON.stringify({ token: 'opaque', user: { email: `${role}@tiltwatch.example`, role } }));
-    TestBed.configureTestingModule({
-      providers: [provideRouter([]), provideHttpClient(withInterceptors([authInterceptor])), provideHttpClientTesting()],
-    });
+    configureSignedIn(role);
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(ProfilesPage);
     host = fixture.nativeElement as HTMLElement;

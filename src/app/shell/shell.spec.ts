@@ -1,12 +1,10 @@
-import { provideHttpClient, withInterceptors } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HttpTestingController } from '@angular/common/http/testing';
 import { TestBed, type ComponentFixture } from '@angular/core/testing';
-import { provideRouter, Router } from '@angular/router';
+import { Router } from '@angular/router';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { Role } from '../../../shared/auth/roles';
-import { authInterceptor } from '../auth/auth-interceptor';
-import { SESSION_STORAGE_KEY } from '../auth/session';
 import { roleAtLeast } from '../auth/session-guards';
+import { configureSignedIn } from '../auth/signed-in-test-bed';
 import { Shell } from './shell';
 
 describe('Shell navigation', () => {
@@ -19,14 +17,7 @@ describe('Shell navigation', () => {
 
   /** Opens the shell signed in with `role`, answering the requests it makes on start. */
   async function open(role: Role): Promise<void> {
-    localStorage.setItem(SESSION_STORAGE_KEY, JSON.stringify({ token: 'opaque', user: { email: `${role}@tiltwatch.example`, role } }));
-    TestBed.configureTestingModule({
-      providers: [
-        provideRouter([{ path: 'outbox', canActivate: [roleAtLeast('admin')], children: [] }, { path: '**', children: [] }]),
-        provideHttpClient(withInterceptors([authInterceptor])),
-        provideHttpClientTesting(),
-      ],
-    });
+    configureSignedIn(role, [{ path: 'outbox', canActivate: [roleAtLeast('admin')], children: [] }, { path: '**', children: [] }]);
     fixture = TestBed.createComponent(Shell);
     TestBed.tick();
     const http = TestBed.inject(HttpTestingController);
