@@ -6,7 +6,7 @@ import type { AlarmEvent } from '../alarms/alarm-state.js';
 
 // 2026-03-12 13:03:07 UTC is 14:03:07 in Stockholm (CET, UTC+1, before the switch to summer time on 29 March).
 const AT = Date.UTC(2026, 2, 12, 13, 3, 7, 123);
-const options = { onCall: ['oncall@lindqvist-lab.example'], site: 'Lindqvist Hall dipolar lab', timeZone: 'Europe/Stockholm' };
+const options = { onCall: ['oncall@lindqvist-hall.example'], site: 'Lindqvist Hall dipolar lab', timeZone: 'Europe/Stockholm' };
 
 function flowTrip() {
   const interlock = new Interlock();
@@ -21,7 +21,7 @@ describe('composeTripNotice', () => {
 
   it('names the first-out condition with value and unit in the subject', () => {
     expect(notice.subject).toBe('[Tiltwatch] Interlock tripped at Lindqvist Hall dipolar lab: Coolant flow x 0.62 L/min');
-    expect(notice.to).toEqual(['oncall@lindqvist-lab.example']);
+    expect(notice.to).toEqual(['oncall@lindqvist-hall.example']);
   });
 
   it('gives the time of the trip in local time and UTC', () => {

@@ -10,7 +10,7 @@ import { describeCondition } from '../interlock/trip-conditions.js';
 import type { MailMessage } from './mailer.js';
 
 export interface NoticeOptions {
-  /** Recipients, e.g. `oncall@lindqvist-lab.example`. */
+  /** Recipients, e.g. `oncall@lindqvist-hall.example`. */
   onCall: readonly string[];
   /** Name of the lab or machine for subjects, e.g. "Lindqvist Hall dipolar lab". */
   site: string;
@@ -30,7 +30,7 @@ export const SUPERVISORY_CAUTION =
 export function parseNoticeOptions(input: { onCall: unknown; site: unknown; timeZone?: unknown }): NoticeOptions {
   const { onCall, site, timeZone } = input;
   if (!Array.isArray(onCall) || onCall.some((a) => typeof a !== 'string' || !/^[^\s@]+@[^\s@]+$/.test(a))) {
-    throw new Error('onCall must be a list of e-mail addresses such as oncall@lindqvist-lab.example');
+    throw new Error('onCall must be a list of e-mail addresses such as oncall@lindqvist-hall.example');
   }
   if (typeof site !== 'string' || site.trim() === '') throw new Error('site must name the lab or machine, e.g. "Lindqvist Hall dipolar lab"');
   if (timeZone !== undefined) {

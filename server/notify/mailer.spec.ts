@@ -7,8 +7,8 @@ import { composeTripNotice, SUPERVISORY_CAUTION } from './compose-notice.js';
 import { Interlock } from '../interlock/interlock.js';
 
 const T0 = Date.UTC(2026, 2, 12, 9, 0, 0);
-const FROM = 'tiltwatch@lindqvist-lab.example';
-const ON_CALL = ['oncall@lindqvist-lab.example', 'ines.aalto@lindqvist-lab.example'];
+const FROM = 'tiltwatch@lindqvist-hall.example';
+const ON_CALL = ['oncall@lindqvist-hall.example', 'ines.aalto@lindqvist-hall.example'];
 
 /** A real pino logger whose lines land in `lines`. */
 function capturedLog() {

@@ -27,7 +27,7 @@ export interface MailLog {
 export interface MailerOptions {
   /** SMTP URL (e.g. the catcher's `smtp://127.0.0.1:PORT`, or `SMTP_URL`) or a transport. */
   transport: string | MailTransport;
-  /** Sender address, e.g. `tiltwatch@lindqvist-lab.example`. */
+  /** Sender address, e.g. `tiltwatch@lindqvist-hall.example`. */
   from: string;
   log: MailLog;
   /** Tries per message, first one included (default 3). */
