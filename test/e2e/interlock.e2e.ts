@@ -44,7 +44,7 @@ describe('Software interlock in Chromium', () => {
     // A cooling loss on coil pair x: the flow falls below the software trip level.
     expect((await control('POST', '/faults', { kind: 'cooling-loss', axis: 'x' })).status).toBe(201);
     await banner.waitFor({ timeout: 30_000 });
-    expect(await banner.innerText()).toMatch(/Software interlock tripped — first out: low flow x on flow\.x at \d\d:\d\d:\d\d \(\d+\.\d\d\s?L\/min, trip level 1\.00\s?L\/min\)/);
+    expect(await banner.innerText()).toMatch(/Software interlock tripped — first out: low flow x on flow\.x at \d\d:\d\d:\d\d \(\d+\.\d+\s?L\/min, trip level 1\.0+\s?L\/min\)/);
     await page.screenshot({ path: join(ARTIFACT_DIR, 'interlock-tripped.png'), fullPage: true });
 
     // The operator acknowledges the low-low flow alarm on the Alarms page (unfolding any group
