@@ -46,7 +46,7 @@ export const API_ROUTES = [
   { id: 'logbook.write', method: 'post', path: '/api/logbook/entries', minRole: 'operator', summary: 'Write a logbook entry: JSON { text, tags?, at?, link?, amends? } or multipart with files "file" → 201 { id }' },
   { id: 'logbook.list', method: 'get', path: '/api/logbook/entries', minRole: 'viewer', summary: 'Logbook entries, newest first (?q=&from=&to=&tag=&limit=) → { entries }' },
   { id: 'logbook.attachment', method: 'get', path: '/api/logbook/attachments/:id', minRole: 'viewer', summary: 'One attachment, served as its checked type' },
-  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mail catcher' },
+  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mailbox' },
 ] as const satisfies readonly RouteSpec[];
 
 export type RouteId = (typeof API_ROUTES)[number]['id'];
