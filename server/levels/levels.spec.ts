@@ -57,9 +57,9 @@ describe('levels API', () => {
     const badScale = { ...DEMO_LEVEL_SET, bands: { ...DEMO_LEVEL_SET.bands, flow: { scale: [6, 0], normal: [2, 5] } } };
     const scale = await call<{ error: string; field: string }>('lead', 'PUT', '/api/levels', { levels: badScale, reason: 'flip' });
     expect(scale.body).toEqual({ field: 'levels.bands.flow.scale.1', error: 'Coolant flow scale to (L/min) must be above Coolant flow scale from (L/min)' });
-    const hostile = await call<{ error: string; field: string }>('lead', 'PUT', '/api/levels', { levels: withTrips({ temperatureHighC: 1e308 }), reason: 'huge' });
-    expect(hostile.status).toBe(400);
-    expect(hostile.body.error).toMatch(/^Coil temperature trip level \(°C\) must be a number between/);
+    expect((await call('lead', 'PUT', '/api/levels', { levels: withTrips({ temperatureHighC: 1e308 }), reason: 'huge' })).status).toBe(400);
+    const huge = await call<{ error: string; field: string }>('lead', 'PUT', '/api/levels', { levels: withTrips({ temperatureHighC: 2e6 }), reason: 'huge' });
+    expect(huge.body).toMatchObject({ field: 'levels.trips.temperatureHighC', error: expect.stringMatching(/^Coil temperature trip level \(°C\) must be a number between/) });
     expect((await call<LevelSetVersion>('viewer', 'GET', '/api/levels')).body.version).toBe(1);
   });
 
