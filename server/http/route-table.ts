@@ -43,7 +43,7 @@ export const API_ROUTES = [
   { id: 'alarm-limits.update', method: 'put', path: '/api/alarm-limits/:id', minRole: 'lead', summary: 'Change one alarm limit: { fields…, reason } (audited)' },
   { id: 'interlock.status', method: 'get', path: '/api/interlock', minRole: 'viewer', summary: 'Software interlock: state, first-out, conditions, hardware trip, history' },
   { id: 'interlock.reset', method: 'post', path: '/api/interlock/reset', minRole: 'operator', summary: 'Reset the tripped interlock once every condition cleared: { reason }' },
-  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mail catcher' },
+  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mailbox' },
 ] as const satisfies readonly RouteSpec[];
 
 export type RouteId = (typeof API_ROUTES)[number]['id'];
