@@ -71,8 +71,8 @@ const coil = (r20Ohm: number, nominalFlowLpm: number): CoilParameters => ({
 });
 
 /**
- * Demo apparatus. The hardware trip levels sit beyond the software trip levels of
- * `shared/live/channels.ts` (65 °C, 1.0 L/min, 20 A), as a hardware interlock should, and the
+ * Demo apparatus. The hardware trip levels sit beyond the software trip levels of the
+ * demo level set (server/levels/demo-levels.ts: 65 °C, 1.0 L/min, 20 A), as a hardware interlock should, and the
  * supply's own current limit (22 A) sits between the software trip and the hardware trip.
  */
 export const DEMO_PARAMETERS: ControllerParameters = {

@@ -15,4 +15,6 @@ export const DEMO_LEVEL_SET: Readonly<LevelSet> = {
   },
   trips: { currentHighA: 20, temperatureHighC: 65, flowLowLpm: 1 },
   settings: { minOrientingFieldG: 0.5, maxTargetFieldG: 30, maxTargetCollapseRatio: 0.8 },
+  // As measured on the demo windings (the simulator's coils, simulator/parameters.ts).
+  windingsR20Ohm: { x: 0.41, y: 0.39, z: 0.42 },
 };

@@ -4,7 +4,7 @@
  * shows the message next to it.
  */
 import { z } from 'zod';
-import { BAND_KINDS, BAND_LABELS, SETTING_LABELS, TRIP_LABELS, bandFieldLabel, type BandKind, type LevelSet } from '../../shared/levels/level-set.js';
+import { BAND_KINDS, BAND_LABELS, SETTING_LABELS, TRIP_LABELS, bandFieldLabel, windingFieldLabel, type BandKind, type LevelSet } from '../../shared/levels/level-set.js';
 import { DEMO_LEVEL_SET } from './demo-levels.js';
 
 /** A refused level set: the form label's message and the path of the field. */
@@ -52,6 +52,9 @@ const LevelSetSchema = z.strictObject({
         .default(DEMO_LEVEL_SET.settings.maxTargetCollapseRatio),
     })
     .default({ ...DEMO_LEVEL_SET.settings }),
+  windingsR20Ohm: z
+    .strictObject({ x: positive(windingFieldLabel('x')), y: positive(windingFieldLabel('y')), z: positive(windingFieldLabel('z')) })
+    .default({ ...DEMO_LEVEL_SET.windingsR20Ohm }),
 });
 
 /**

@@ -39,10 +39,18 @@ export interface OperatingSettings {
   maxTargetCollapseRatio: number;
 }
 
+/** Winding resistance of each coil pair at 20 °C, Ω (for the resistance-derived winding temperature). */
+export interface WindingResistances {
+  x: number;
+  y: number;
+  z: number;
+}
+
 export interface LevelSet {
   bands: Record<BandKind, DisplayBand>;
   trips: TripLevels;
   settings: OperatingSettings;
+  windingsR20Ohm: WindingResistances;
 }
 
 /** One stored version (body of `GET /api/levels`). */
@@ -75,6 +83,11 @@ export const SETTING_LABELS: Readonly<Record<keyof OperatingSettings, { label: s
   maxTargetFieldG: { label: 'Largest steer target field (G)', unit: 'G' },
   maxTargetCollapseRatio: { label: 'Largest steer target collapse ratio', unit: '' },
 };
+
+/** Label of a coil pair's winding resistance, as the levels form shows it. */
+export function windingFieldLabel(axis: keyof WindingResistances): string {
+  return `Coil pair ${axis} winding resistance at 20 °C (Ω)`;
+}
 
 /** Label of a band's bound, as the levels form shows it: "Coil current scale from (A)". */
 export function bandFieldLabel(kind: BandKind, part: 'scale' | 'normal', end: 0 | 1): string {

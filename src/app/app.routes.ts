@@ -25,6 +25,12 @@ export const routes: Routes = [
         title: 'Sample profiles · Tiltwatch',
         loadComponent: () => import('./profiles/profiles-page').then((m) => m.ProfilesPage),
       },
+      { path: 'coils', pathMatch: 'full', redirectTo: 'coils/x' },
+      {
+        path: 'coils/:axis',
+        title: 'Coil detail · Tiltwatch',
+        loadComponent: () => import('./coils/coil-detail-page').then((m) => m.CoilDetailPage),
+      },
       { path: 'alarms', title: 'Alarms · Tiltwatch', loadComponent: () => import('./alarms/alarms-page').then((m) => m.AlarmsPage) },
       {
         path: 'interlocks',

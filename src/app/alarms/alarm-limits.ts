@@ -10,6 +10,7 @@ import type { AlarmLimitRecord } from './alarm-records';
 import { channelLabel, channelQuantity } from './channel-text';
 import { LevelSetPanel } from '../levels/level-set-panel';
 import { LimitDialog } from './limit-dialog';
+import { RationaleText } from './rationale-text';
 
 /**
  * The alarm limits with the rationale a lead wrote for each: cause, consequence of doing
@@ -17,7 +18,7 @@ import { LimitDialog } from './limit-dialog';
  */
 @Component({
   selector: 'tw-alarm-limits',
-  imports: [LevelSetPanel, MatButtonModule, MatIconModule],
+  imports: [LevelSetPanel, MatButtonModule, MatIconModule, RationaleText],
   templateUrl: './alarm-limits.html',
   styleUrl: './alarm-tables.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -144,6 +144,7 @@ export class ChartPanel {
       [[], ...lines.map(() => [])],
       host,
     );
+    drawLegendLines(this.plot.root, lines.map((line) => ({ color: color(line.color), dash: line.dash })));
 
     if (typeof ResizeObserver !== 'undefined') {
       // Resize in the next frame: resizing inside the observer callback changes the layout it
@@ -238,4 +239,20 @@ function decimalsFor(splits: number[]): number {
     if (Math.abs(scaled - Math.round(scaled)) < 1e-6 * Math.max(1, scaled)) return decimals;
   }
   return 4;
+}
+
+/**
+ * Turns uPlot's square legend markers into short line samples drawn like their series
+ * (solid, dashed or dotted), so a reader who cannot tell the colours apart still matches
+ * legend and line.
+ */
+function drawLegendLines(root: HTMLElement, lines: readonly { color: string; dash?: number[] }[]): void {
+  const rows = root.querySelectorAll<HTMLElement>('.u-legend .u-series');
+  lines.forEach((line, i) => {
+    const marker = rows[i + 1]?.querySelector<HTMLElement>('.u-marker');
+    if (!marker) return;
+    const style = !line.dash ? 'solid' : line.dash[0] <= 2 ? 'dotted' : 'dashed';
+    marker.style.cssText = `display:inline-block;width:28px;height:0;border:none;border-top:3px ${style} ${line.color};background:none;vertical-align:middle;margin-right:6px`;
+    marker.dataset['line'] = style;
+  });
 }

@@ -13,6 +13,7 @@ import {
   SETTING_LABELS,
   TRIP_LABELS,
   bandFieldLabel,
+  windingFieldLabel,
   type BandKind,
   type LevelSet,
   type LevelSetVersion,
@@ -61,6 +62,9 @@ export class LevelDialog {
   protected readonly settings = (Object.keys(SETTING_LABELS) as (keyof OperatingSettings)[]).map((key) =>
     this.field(`settings.${key}`, SETTING_LABELS[key].label, this.inForce.levels.settings[key]),
   );
+  protected readonly windings = (['x', 'y', 'z'] as const).map((axis) =>
+    this.field(`windingsR20Ohm.${axis}`, windingFieldLabel(axis), this.inForce.levels.windingsR20Ohm[axis]),
+  );
   protected readonly reason = new FormControl('', { nonNullable: true });
   protected readonly maxReason = MAX_REASON_CHARS;
   protected readonly problem = signal<string | null>(null);
@@ -72,7 +76,7 @@ export class LevelDialog {
   }
 
   private allFields(): NumberField[] {
-    return [...this.bands.flatMap((b) => b.fields), ...this.trips, ...this.settings];
+    return [...this.bands.flatMap((b) => b.fields), ...this.trips, ...this.settings, ...this.windings];
   }
 
   protected async save(): Promise<void> {
@@ -91,10 +95,12 @@ export class LevelDialog {
     ) as LevelSet['bands'];
     const trips = Object.fromEntries(this.trips.map((f) => [f.path.slice('trips.'.length), f.control.value])) as unknown as TripLevels;
     const settings = Object.fromEntries(this.settings.map((f) => [f.path.slice('settings.'.length), f.control.value])) as unknown as OperatingSettings;
+    const windingsR20Ohm = { x: value('windingsR20Ohm.x'), y: value('windingsR20Ohm.y'), z: value('windingsR20Ohm.z') };
     this.problem.set(null);
     this.sending.set(true);
     try {
-      const saved = await firstValueFrom(this.http.put<LevelSetVersion>('/api/levels', { levels: { bands, trips, settings }, reason }));
+      const levels: LevelSet = { bands, trips, settings, windingsR20Ohm };
+      const saved = await firstValueFrom(this.http.put<LevelSetVersion>('/api/levels', { levels, reason }));
       this.ref.close(saved);
     } catch (err) {
       const controls = Object.fromEntries([...fields.map((f) => [`levels.${f.path}`, f.control] as const), ['reason', this.reason] as const]);

@@ -4,7 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { hasRole, type Role } from '../../../shared/auth/roles';
-import { BAND_KINDS, BAND_LABELS, SETTING_LABELS, TRIP_LABELS, type LevelSetVersion, type OperatingSettings, type TripLevels } from '../../../shared/levels/level-set';
+import { BAND_KINDS, BAND_LABELS, SETTING_LABELS, TRIP_LABELS, windingFieldLabel, type LevelSetVersion, type OperatingSettings, type TripLevels } from '../../../shared/levels/level-set';
 import { errorText } from '../api/error-text';
 import { formatLocalTime } from '../readout/format-quantity';
 import { LevelDialog } from './level-dialog';
@@ -37,7 +37,10 @@ export class LevelSetPanel {
     return {
       trips: (Object.keys(TRIP_LABELS) as (keyof TripLevels)[]).map((k) => ({ label: TRIP_LABELS[k].label, value: levels.trips[k] })),
       bands: BAND_KINDS.map((kind) => ({ label: `${BAND_LABELS[kind].label} (${BAND_LABELS[kind].unit})`, ...levels.bands[kind] })),
-      settings: (Object.keys(SETTING_LABELS) as (keyof OperatingSettings)[]).map((k) => ({ label: SETTING_LABELS[k].label, value: levels.settings[k] })),
+      settings: [
+        ...(Object.keys(SETTING_LABELS) as (keyof OperatingSettings)[]).map((k) => ({ label: SETTING_LABELS[k].label, value: levels.settings[k] })),
+        ...(['x', 'y', 'z'] as const).map((axis) => ({ label: windingFieldLabel(axis), value: levels.windingsR20Ohm[axis] })),
+      ],
     };
   });
   protected readonly when = computed(() => (this.inForce.hasValue() ? formatLocalTime(Date.parse(this.inForce.value().createdAt)) : ''));

@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import type { BandId, ChannelBand } from '../../../shared/live/channels';
 import type { LiveState, PerAxis } from '../../../shared/live/live-state';
+import { RouterLink } from '@angular/router';
 import { GaugeBar } from '../gauges/gauge-bar';
 import { formatQuantity } from '../readout/format-quantity';
 
@@ -14,7 +15,7 @@ const AXES: readonly Axis[] = ['x', 'y', 'z'];
  */
 @Component({
   selector: 'tw-coil-strip',
-  imports: [GaugeBar],
+  imports: [GaugeBar, RouterLink],
   templateUrl: './coil-strip.html',
   styleUrl: './coil-strip.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -11,6 +11,8 @@ import { PredictionPanel } from '../prediction/prediction-panel';
 import { PREDICTED, PredictionSeries } from '../prediction/prediction-series';
 import { ActiveProfile } from '../profiles/active-profile';
 import { formatLocalTime } from '../readout/format-quantity';
+import { CompactAlarmList } from '../alarms/compact-alarm-list';
+import { Session } from '../auth/session';
 import { ChannelBandsSource } from '../gauges/channel-bands';
 import { CoilStrip } from './coil-strip';
 import { ControllerStatus } from './controller-status';
@@ -25,7 +27,7 @@ const AXIS_LINES = [
 /** The Live page: field, prediction, coils, controller state and charts of the recent past. */
 @Component({
   selector: 'tw-live-page',
-  imports: [ChartPanel, CoilStrip, ControllerStatus, FieldPanel, MatButtonModule, MatButtonToggleModule, MatIconModule, PredictionPanel],
+  imports: [ChartPanel, CoilStrip, CompactAlarmList, ControllerStatus, FieldPanel, MatButtonModule, MatButtonToggleModule, MatIconModule, PredictionPanel],
   providers: [TelemetryHistory, PredictionSeries],
   templateUrl: './live-page.html',
   styleUrl: './live-page.scss',
@@ -38,6 +40,9 @@ export class LivePage {
   protected readonly activeProfile = inject(ActiveProfile).record;
 
   protected readonly live = this.feed.live;
+  protected readonly role = inject(Session).role;
+  /** The active alarms as the server pushes them (the same list the Alarms page counts). */
+  protected readonly activeAlarms = computed(() => this.feed.alarms()?.active ?? []);
   /** Bands and limits in force, as the server sends them (pushed again when a lead changes one). */
   protected readonly bands = inject(ChannelBandsSource);
 

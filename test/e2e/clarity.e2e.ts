@@ -1,0 +1,123 @@
+import { join } from 'node:path';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
+import { DEMO_PASSWORD, signIn, startStack, type Stack } from '../support/stack.js';
+
+/** Coil detail, profile validation, acknowledgement focus and live limit changes in Chromium. */
+describe('Clarity in Chromium', () => {
+  let stack: Stack;
+  let chrome: TestBrowser;
+  let leadToken: string;
+
+  beforeAll(async () => {
+    stack = await startStack();
+    chrome = await launchBrowser();
+    leadToken = await signIn(stack.server.url, 'lead');
+  });
+  afterAll(async () => {
+    await chrome?.close();
+    await stack?.close();
+  });
+
+  const api = async (method: string, path: string, body?: unknown) =>
+    fetch(`${stack.server.url}${path}`, {
+      method,
+      headers: { authorization: `Bearer ${leadToken}`, 'content-type': 'application/json' },
+      body: body === undefined ? undefined : JSON.stringify(body),
+    });
+
+  async function signedIn(role: 'operator' | 'lead'): Promise<Page> {
+    const page = await chrome.browser.newPage();
+    await page.setViewportSize({ width: 1920, height: 1080 });
+    await page.goto(stack.server.url);
+    // The browser profile keeps the previous test's session: start each test signed out.
+    await page.evaluate('localStorage.clear()');
+    await page.goto(`${stack.server.url}/sign-in`);
+    await page.getByLabel('Email').fill(`${role}@tiltwatch.example`);
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByRole('region', { name: 'Field' }).waitFor();
+    return page;
+  }
+
+  it('opens Coil detail from the Live coil strip and from a rationale text, with readings, trip chain, alarms and charts', async () => {
+    const page = await signedIn('operator');
+    await page.getByRole('link', { name: 'Coil pair Y: open Coil detail' }).click();
+    await page.getByRole('heading', { name: 'Coil detail: pair Y' }).waitFor();
+    expect(page.url()).toMatch(/\/coils\/y$/);
+    const readings = page.getByRole('region', { name: 'Readings' });
+    await expect.poll(() => readings.innerText(), { timeout: 15_000 }).toMatch(/Y current[\s\S]*\d+\.\d{3}\s*A/);
+    await expect.poll(() => readings.innerText(), { timeout: 15_000 }).toMatch(/Winding temperature \(from resistance\)\s*\d+\.\d\s*°C/);
+    const chain = page.getByRole('region', { name: 'Trip chain' });
+    expect(await chain.innerText()).toMatch(/Software trip\s*20(\.0+)?\s*A/);
+    expect(await chain.innerText()).toMatch(/Coolant flow[\s\S]*Software trip\s*1(\.0+)?\s*L\/min/);
+    expect(await chain.innerText()).toMatch(/supervisory/);
+    await page.getByRole('heading', { name: 'Alarms of pair Y' }).waitFor();
+    for (const caption of ['Current, pair Y', 'Coil temperature and flow, pair Y']) {
+      const figure = page.locator('figure', { has: page.locator('figcaption', { hasText: caption }) });
+      await expect.poll(async () => figure.locator('canvas').count()).toBeGreaterThan(0);
+    }
+    await page.waitForTimeout(1500);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'coil-detail-1920.png'), fullPage: true });
+
+    await page.getByRole('link', { name: 'Alarms', exact: true }).click();
+    await page.getByRole('tab', { name: 'Limits' }).click();
+    const row = page.locator('tr', { has: page.locator('code', { hasText: 'currentDeviation.z.H' }) });
+    await row.getByRole('link', { name: 'Coil detail' }).click();
+    await page.getByRole('heading', { name: 'Coil detail: pair Z' }).waitFor();
+    await page.close();
+  });
+
+  it('refuses a profile with nonsense values next to the field, and saves a draft that does not go live', async () => {
+    const page = await signedIn('lead');
+    await page.getByRole('link', { name: 'Sample profiles' }).click();
+    await page.getByRole('button', { name: 'New version from this one' }).click();
+    const atoms = page.getByLabel('Atom number');
+    await atoms.fill('2.5');
+    await page.getByLabel('Reason for this version').fill('typo test');
+    await page.getByRole('button', { name: 'Save as draft version' }).click();
+    const field = page.locator('mat-form-field', { has: page.getByLabel('Atom number') });
+    await expect.poll(() => field.innerText()).toMatch(/Atom number must lie between 100 and 100000000/);
+    expect(await page.getByText(/active profile when saved/i).count()).toBe(0);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'profile-refused-1920.png'), fullPage: true });
+
+    // The server refuses the same nonsense on its own, naming the input as the form labels it.
+    const current = (await (await api('GET', '/api/profiles/active')).json()) as { profile: Record<string, unknown> };
+    const refused = await api('POST', '/api/profiles', { profile: { ...current.profile, atomNumber: 1e12 }, reason: 'x' });
+    expect(refused.status).toBe(400);
+    expect(((await refused.json()) as { error: string }).error).toMatch(/Atom number must lie between/);
+
+    await atoms.fill('40000');
+    await page.getByRole('button', { name: 'Save as draft version' }).click();
+    await expect.poll(() => page.getByRole('status').filter({ hasText: 'as a draft' }).count()).toBe(1);
+    const active = (await (await api('GET', '/api/profiles/active')).json()) as { version: number; profile: { atomNumber: number } };
+    expect(active.profile.atomNumber).not.toBe(40000);
+    await page.close();
+  });
+
+  it('keeps the keyboard focus on the alarm after Acknowledge on Live, and redraws a changed trip level without a reload', async () => {
+    // Set the current alarm below the running demo current so that it raises.
+    expect((await api('PUT', '/api/alarm-limits/current.x.H', { limit: 0.2, reason: 'focus test' })).status).toBe(200);
+    const page = await signedIn('operator');
+    const button = page.getByRole('button', { name: 'Acknowledge current.x.H' });
+    await button.waitFor({ timeout: 20_000 });
+    await button.focus();
+    await page.keyboard.press('Enter');
+    await expect.poll(() => page.getByRole('button', { name: 'Acknowledge current.x.H' }).count(), { timeout: 10_000 }).toBe(0);
+    // The focused line, and its focus ring (the page's own code, run in the browser).
+    await expect.poll(() => page.locator('[data-alarm-id="current.x.H"]:focus').count()).toBe(1);
+    const focusRing = await page.locator('[data-alarm-id="current.x.H"]').evaluate((el) => el.ownerDocument.defaultView!.getComputedStyle(el).outlineStyle);
+    expect(focusRing).not.toBe('none');
+
+    const tripMarks = () => page.locator('tw-gauge-bar').first().locator('.mark[data-kind="trip"]').evaluateAll((els) => els.map((e) => e.getAttribute('data-percent')));
+    const before = await tripMarks();
+    const levels = (await (await api('GET', '/api/levels')).json()) as { levels: { trips: { currentHighA: number } } };
+    const next = { ...levels.levels, trips: { ...levels.levels.trips, currentHighA: 19 } };
+    expect((await api('PUT', '/api/levels', { levels: next, reason: 'supply derated' })).status).toBe(200);
+    await expect.poll(tripMarks, { timeout: 10_000 }).not.toEqual(before);
+    expect(await tripMarks()).toContain('88');
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'live-alarms-1920.png'), fullPage: true });
+    await page.close();
+  });
+});
