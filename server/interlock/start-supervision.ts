@@ -43,7 +43,15 @@ export interface Supervision {
   close(): Promise<void>;
 }
 
-export async function startSupervision(deps: { db: Db; live: LiveStore; sink: AlarmsSink; config: ServerConfig; log: Logger }): Promise<Supervision> {
+export async function startSupervision(deps: {
+  db: Db;
+  live: LiveStore;
+  sink: AlarmsSink;
+  config: ServerConfig;
+  log: Logger;
+  /** Seconds the PostgreSQL server has been unreachable (the `databaseOutage` alarm); absent with PGlite. */
+  databaseOutageS?: () => number;
+}): Promise<Supervision> {
   const { db, live, sink, config, log } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
   const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs }));
@@ -75,7 +83,8 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
     closers.push(() => mailer.close());
     const notice = parseNoticeOptions({ onCall: config.mail.onCall, site: SITE });
     const notifier = new OnCallNotifier(mailer, notice, (id) => book.limits().find((l) => l.id === id));
-    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log });
+    const outage = deps.databaseOutageS;
+    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log, extras: outage ? () => ({ databaseOutageS: outage() }) : undefined });
     closers.push(() => supervisor.close());
 
     return {

@@ -13,6 +13,7 @@ export type ChannelId =
   | 'fieldMagnitude'
   | 'fieldAngleDeviation'
   | 'stale'
+  | 'databaseOutage'
   | 'collapseMargin';
 
 /** What a channel measures, for labels in lists, e-mails and error messages. */
@@ -48,6 +49,7 @@ export const CHANNELS: Readonly<Record<ChannelId, ChannelInfo>> = {
   fieldMagnitude: { label: 'Field magnitude', unit: 'G' },
   fieldAngleDeviation: { label: 'Field direction off target', unit: '°' },
   stale: { label: 'Time since the last telemetry frame', unit: 'ms' },
+  databaseOutage: { label: 'Time the database has been unreachable', unit: 's' },
   collapseMargin: { label: 'Dipolar strength over its collapse threshold', unit: '' },
 };
 
