@@ -40,19 +40,30 @@ export function usesPostgres(): boolean {
   return !!process.env.TILTWATCH_TEST_DATABASE_URL;
 }
 
-let databases = 0;
+/** PostgreSQL database of each data folder, so a test that restarts its server finds its data again. */
+const databases = new Map<string, string>();
 
-/** Starts what the external pass asks for (nothing in the ordinary pass). */
-export async function externalServices(): Promise<ExternalServices> {
+/** The PostgreSQL database a test server on `dataDir` used; null in the ordinary pass (PGlite in the folder). */
+export function databaseUrlFor(dataDir: string): string | null {
+  return databases.get(dataDir) ?? null;
+}
+
+/** Starts what the external pass asks for a server on `dataDir` (nothing in the ordinary pass). */
+export async function externalServices(dataDir: string): Promise<ExternalServices> {
   const env: Record<string, string> = {};
   const closers: (() => Promise<void>)[] = [];
   const adminUrl = process.env.TILTWATCH_TEST_DATABASE_URL;
   if (adminUrl) {
-    const name = `tiltwatch_t${process.pid}_${++databases}_${Math.random().toString(36).slice(2, 8)}`;
-    await createDatabase(adminUrl, name);
-    const url = new URL(adminUrl);
-    url.pathname = `/${name}`;
-    env.DATABASE_URL = url.toString();
+    let database = databases.get(dataDir);
+    if (!database) {
+      const name = `tiltwatch_t${process.pid}_${databases.size + 1}_${Math.random().toString(36).slice(2, 8)}`;
+      await createDatabase(adminUrl, name);
+      const url = new URL(adminUrl);
+      url.pathname = `/${name}`;
+      database = url.toString();
+      databases.set(dataDir, database);
+    }
+    env.DATABASE_URL = database;
   }
   let brokerCredentials: BrokerCredentials | null = null;
   if (usesExternalBroker()) {

@@ -48,7 +48,7 @@ export function testConfig(dataDir: string, env: NodeJS.ProcessEnv = {}): Server
  * pass with a fresh PostgreSQL database and its own mosquitto (see external-services.ts).
  */
 export async function startTestServer(dataDir: string, opts?: StartOptions, env?: NodeJS.ProcessEnv): Promise<RunningServer> {
-  const services = await externalServices();
+  const services = await externalServices(dataDir);
   try {
     return withServices(await startServer(testConfig(dataDir, { ...services.env, ...env }), opts), services);
   } catch (error) {

@@ -30,7 +30,7 @@ export interface StackOptions {
 
 export async function startStack(options: StackOptions = {}): Promise<Stack> {
   const dataDir = await mkdtemp(join(tmpdir(), 'tiltwatch-test-'));
-  const services = await externalServices();
+  const services = await externalServices(dataDir);
   const config = loadConfig({
     PORT: '0',
     MQTT_PORT: services.brokerCredentials ? '' : '0',
