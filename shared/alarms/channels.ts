@@ -14,7 +14,7 @@ export type ChannelId =
   | 'fieldAngleDeviation'
   | 'stale'
   | 'databaseOutage'
-  | 'collapseMargin';
+  | 'collapseRatio';
 
 /** What a channel measures, for labels in lists, e-mails and error messages. */
 export interface ChannelInfo {
@@ -40,7 +40,7 @@ function perAxisInfo(): Record<`${AxisChannel}.${Axis}`, ChannelInfo> {
 
 /**
  * Every channel with its label and unit. Currents are absolute values (the supplies are
- * bipolar); `stale` is the time since the newest telemetry frame; `collapseMargin` is the
+ * bipolar); `stale` is the time since the newest telemetry frame; `collapseRatio` is the
  * prediction's ε_dd / ε_dd,crit (dimensionless, 1 = mean-field collapse threshold).
  */
 export const CHANNELS: Readonly<Record<ChannelId, ChannelInfo>> = {
@@ -50,7 +50,7 @@ export const CHANNELS: Readonly<Record<ChannelId, ChannelInfo>> = {
   fieldAngleDeviation: { label: 'Field direction off target', unit: '°' },
   stale: { label: 'Time since the last telemetry frame', unit: 'ms' },
   databaseOutage: { label: 'Time the database has been unreachable', unit: 's' },
-  collapseMargin: { label: 'Dipolar strength over its collapse threshold', unit: '' },
+  collapseRatio: { label: 'Collapse ratio ε_dd/ε_dd,crit', unit: '' },
 };
 
 export const CHANNEL_IDS = Object.keys(CHANNELS) as ChannelId[];
