@@ -82,9 +82,10 @@ describe('start-up checks (npm start runs them before the build)', () => {
     expect(output).toContain(`port ${control} is already in use (another Tiltwatch, or another program). Stop it, or set SIM_CONTROL_PORT to a free port.`);
   });
 
-  it('names PORT when the server itself finds its port taken', async () => {
+  it('names PORT when the server itself finds its port taken', { timeout: 120_000 }, async () => {
     const web = await port();
-    await expect(startServer(testConfig(dir, { PORT: String(web) }))).rejects.toThrow(`port ${web} is already in use (another Tiltwatch, or another program). Stop it, or set PORT to a free port.`);
+    const seeded = await makeDataDir();
+    await expect(startServer(testConfig(seeded, { PORT: String(web) })).finally(() => removeDataDir(seeded))).rejects.toThrow(`port ${web} is already in use (another Tiltwatch, or another program). Stop it, or set PORT to a free port.`);
   });
 });
 
