@@ -1,7 +1,7 @@
 /**
  * One alarm limit: a level on a channel with its deadband, delays, priority and the rationale
  * a lead writes for the operator (cause, consequence of doing nothing, action, time to
- * respond), following the alarm-rationalization step of ISA-18.2 / IEC 62682.
+ * respond), following the alarm-rationalization step of ISA-18.2 / IEC 62682 (docs/alarm-rationale.md).
  */
 import { z } from 'zod';
 import { limitOrderProblems, type ChannelLevels } from '../../shared/levels/limit-order.js';

@@ -10,7 +10,7 @@ const params = sampleParamsOf(DEMO_PROFILE);
 
 describe('cameraView', () => {
   it('draws the Fermi surface as the long-time image: aspect √(1 + (β² − 1) sin²α), major axis along the projection of e', () => {
-    // Long-time limit of physics.md §6.1 (α = angle between e and the line of sight y).
+    // Long-time limit of docs/physics.md §6.1 (α = angle between e and the line of sight y).
     const e = fieldDirectionOf(35, 25).unit;
     const p = predict(params, { thetaDeg: 35, phiDeg: 25 }, { tofMs: [0, 20], imaging: 'y' });
     const view = cameraView(p, e, 'y');
@@ -42,7 +42,7 @@ describe('cameraView', () => {
   });
 
   it('sees the in-situ cloud along the trap axes x and z when the field lies along a trap axis', () => {
-    // Symmetry reduction (physics.md §7): with e along z, M_R is diagonal in the trap frame.
+    // Symmetry reduction (docs/physics.md §7): with e along z, M_R is diagonal in the trap frame.
     const p = predict(params, { thetaDeg: 0, phiDeg: 0 }, { tofMs: [0, 20], imaging: 'y' });
     const view = cameraView(p, [0, 0, 1], 'y');
     const radius = (axis: number) => {

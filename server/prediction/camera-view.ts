@@ -3,7 +3,7 @@ import type { Prediction, TofPrediction } from '../../shared/physics/predict.js'
 import { imagingPlane, projectEllipse, type ImagingInput } from '../../shared/physics/tof.js';
 
 /**
- * The three ellipses the live panel draws for the profile's camera (physics.md §6.1), from a
+ * The three ellipses the live panel draws for the profile's camera (docs/physics.md §6.1), from a
  * stable prediction whose `tof` holds the in-situ image (t = 0) first and the profile's first
  * TOF time second:
  * in situ P·M_R·Pᵀ (µm), momentum P·M_K·Pᵀ (µm⁻¹) and after flight P·M(t)·Pᵀ (µm).
@@ -12,7 +12,7 @@ import { imagingPlane, projectEllipse, type ImagingInput } from '../../shared/ph
 export function cameraView(prediction: Prediction, e: readonly number[], imaging: ImagingInput): NonNullable<LivePrediction['camera']> {
   const { fermiSurface, tof } = prediction;
   if (!fermiSurface || !tof || tof.length < 2) throw new Error('cameraView needs a stable prediction with the in-situ and one TOF image');
-  // Spheroidal Fermi surface: semi-axis K∥ along e, K⊥ across (physics.md §3.1).
+  // Spheroidal Fermi surface: semi-axis K∥ along e, K⊥ across (docs/physics.md §3.1).
   const kPar2 = fermiSurface.kParallelPerUm ** 2;
   const kPerp2 = fermiSurface.kPerpPerUm ** 2;
   const mk = new Float64Array(9);

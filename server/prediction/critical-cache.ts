@@ -1,6 +1,6 @@
 /**
  * Critical dipolar strengths ε_dd,crit by trap shape and direction cell. ε_dd,crit depends
- * only on the trap anisotropies λ and the field direction (physics.md §4.2), not on N or the
+ * only on the trap anisotropies λ and the field direction (docs/physics.md §4.2), not on N or the
  * species, so profiles that differ only in atom number or species share entries. The oldest
  * entries go first once `capacity` is reached (a 1° grid has about 21,000 cells per shape).
  */

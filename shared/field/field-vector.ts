@@ -18,7 +18,7 @@ export interface FieldState {
 export const ZERO_FIELD_GAUSS = 1e-9;
 const DEG = 180 / Math.PI;
 
-/** B_trap = R·(K·I + B0); currents in A, result in G. */
+/** B_trap = R·(K·I + B0); currents in A, result in G (docs/field-math.md). */
 export function fieldVector(cal: CalibrationBody, currentA: Vec3): Vec3 {
   const i = [currentA.x, currentA.y, currentA.z];
   const coil = [0, 0, 0];
@@ -34,7 +34,7 @@ export function fieldVector(cal: CalibrationBody, currentA: Vec3): Vec3 {
   };
 }
 
-/** Magnitude and spherical angles of a trap-frame vector (physics convention). */
+/** Magnitude and spherical angles of a trap-frame vector (conventions: docs/field-math.md). */
 export function fieldAngles(b: Vec3): FieldState {
   const magnitude = Math.hypot(b.x, b.y, b.z);
   if (!(magnitude > ZERO_FIELD_GAUSS)) {

@@ -25,7 +25,7 @@ describe('spheroidAnisotropy', () => {
   });
 
   it('matches the reference values of the closed form', () => {
-    // Independent implementation (physics.md [V]), §7(b).
+    // Independent implementation (docs/physics.md [I]), §7(b).
     const table: [number, number][] = [
       [0.2, 0.832537090593],
       [0.5, 0.479308007398],
@@ -48,7 +48,7 @@ describe('spheroidAnisotropy', () => {
   });
 
   it('has slope −4/5 at the sphere, where the series is used', () => {
-    // First series term 6x/15 with x = 1 − κ² ≈ −2(κ − 1): f ≈ −(4/5)(κ − 1) (physics.md §2.2).
+    // First series term 6x/15 with x = 1 − κ² ≈ −2(κ − 1): f ≈ −(4/5)(κ − 1) (docs/physics.md §2.2).
     const d = 1e-6;
     expect((spheroidAnisotropy(1 + d) - spheroidAnisotropy(1 - d)) / (2 * d)).toBeCloseTo(-0.8, 9);
   });
@@ -61,7 +61,7 @@ describe('spheroidAnisotropy', () => {
 
 describe('demagnetisationFactors', () => {
   it('reproduces the reference factors of the (1, 2, 3) ellipsoid and sums to one', () => {
-    // Independent implementation (physics.md [V]), §7(b).
+    // Independent implementation (docs/physics.md [I]), §7(b).
     const d = new Float64Array(3);
     demagnetisationFactors([1, 4, 9], d);
     expect(d[0]).toBeCloseTo(0.57654526, 8);
@@ -81,7 +81,7 @@ describe('demagnetisationFactors', () => {
 
 describe('ellipsoidAnisotropy', () => {
   it('agrees with the spheroid closed form from κ = 1e-3 to 1e3', () => {
-    // physics.md §2.2: closed form + series and the Carlson route agree to 1e-11 [V].
+    // docs/physics.md §2.2: closed form + series and the Carlson route agree to 1e-11 [I].
     const e = [0, 0, 1];
     for (let k = -3; k <= 3; k += 0.25) {
       const kappa = 10 ** k;
@@ -91,7 +91,7 @@ describe('ellipsoidAnisotropy', () => {
   });
 
   it('vanishes for any spheroid tilted by the magic angle from e', () => {
-    // 3cos²θ_m − 1 = 0 at θ_m = arccos(1/√3) = 54.7356103172° (physics.md §7(d)):
+    // 3cos²θ_m − 1 = 0 at θ_m = arccos(1/√3) = 54.7356103172° (docs/physics.md §7(d)):
     // f = 1 − 3[D∥cos²θ + D⊥sin²θ] with D⊥ = (1 − D∥)/2 is then zero for every shape.
     expect((MAGIC_ANGLE * 180) / Math.PI).toBeCloseTo(54.7356103172, 9);
     for (const kappa of [0.1, 0.6, 2, 8]) {
@@ -101,7 +101,7 @@ describe('ellipsoidAnisotropy', () => {
   });
 
   it('is positive for a cloud stretched along e and negative for one squeezed along it', () => {
-    // Sign convention of physics.md §2.2.
+    // Sign convention of docs/physics.md §2.2.
     expect(ellipsoidAnisotropy([1, 1, 4], IDENTITY, [0, 0, 1], scratch)).toBeGreaterThan(0);
     expect(ellipsoidAnisotropy([4, 4, 1], IDENTITY, [0, 0, 1], scratch)).toBeLessThan(0);
   });

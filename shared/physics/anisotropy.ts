@@ -2,7 +2,7 @@ import { carlsonRD } from './carlson.js';
 
 /**
  * Demagnetisation (depolarisation) factors of an ellipsoid from its squared semi-axes,
- * D_i = (a1 a2 a3 / 3) R_D(a_j², a_k², a_i²) with (i, j, k) cyclic (DLMF §19.33; physics.md
+ * D_i = (a1 a2 a3 / 3) R_D(a_j², a_k², a_i²) with (i, j, k) cyclic (DLMF §19.33; docs/physics.md
  * §2.2). Σ D_i = 1. The factors depend only on shape, so the arguments are first scaled to
  * unit geometric mean, which keeps R_D well inside double range for any size.
  * Writes D into `out` (same order as `a2`).
@@ -18,7 +18,7 @@ export function demagnetisationFactors(a2: ArrayLike<number>, out: Float64Array)
 }
 
 /**
- * Anisotropy function f = 1 − 3 eᵀ D_lab e of an ellipsoid (physics.md §2.2): squared
+ * Anisotropy function f = 1 − 3 eᵀ D_lab e of an ellipsoid (docs/physics.md §2.2): squared
  * semi-axes `a2`, principal axes as the columns of the row-major 3×3 `axes`, unit dipole
  * direction `e`. f > 0 for an ellipsoid stretched along e (needle → 1), 0 for a sphere,
  * → −2 for a disc normal to e. `scratch` holds the three factors (length ≥ 3).
@@ -39,7 +39,7 @@ const SERIES_TERMS = 15;
 
 /**
  * Anisotropy function of a spheroid whose symmetry axis is along e, as a function of the
- * aspect κ = a⊥/a∥ (dimensionless). Closed form (PRA 71, 033618 (2005); physics.md §2.2):
+ * aspect κ = a⊥/a∥ (dimensionless). Closed form (PRA 71, 033618 (2005); docs/physics.md §2.2):
  *
  *   f(κ) = (1+2κ²)/(1−κ²) − 3κ² g(κ)/(1−κ²),
  *   g = artanh(√(1−κ²))/√(1−κ²) for κ < 1,  arctan(√(κ²−1))/√(κ²−1) for κ > 1;

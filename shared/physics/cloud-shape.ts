@@ -2,7 +2,7 @@ import { symmetricEigen3 } from './symmetric-eigen.js';
 
 type Vec3 = [number, number, number];
 
-/** The real-space Thomas–Fermi ellipsoid in the trap frame (physics.md §5.2). */
+/** The real-space Thomas–Fermi ellipsoid in the trap frame (docs/physics.md §5.2). */
 export interface CloudShape {
   /** Semi-axes R1 ≥ R2 ≥ R3, μm. */
   radiiUm: Vec3;

@@ -33,7 +33,7 @@ describe('physical constants', () => {
   });
 
   it('defines the debye as 1e-21/c C m', () => {
-    // Definition of the debye (physics.md §1.1): 3.3356409520e-30 C m.
+    // Definition of the debye (docs/physics.md §1.1): 3.3356409520e-30 C m.
     expect(rel(DEBYE, 3.335640952e-30)).toBeLessThan(1e-10);
   });
 });

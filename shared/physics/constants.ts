@@ -1,5 +1,5 @@
 /**
- * Physical constants in SI units, CODATA 2018 (physics.md §1.1). The SI-defining constants
+ * Physical constants in SI units, CODATA 2018 (docs/physics.md §1.1). The SI-defining constants
  * (h, kB, c) are exact; ħ is derived from h so that it carries no extra rounding.
  */
 

@@ -6,14 +6,14 @@ const solver = new GroundStateSolver();
 
 describe('criticalEpsDd', () => {
   it('finds ε_dd,c = 2.1659 in a spherical trap for any field direction', () => {
-    // Independent implementation (physics.md [V]), §7(e).
+    // Independent implementation (docs/physics.md [I]), §7(e).
     for (const e of [[0, 0, 1], [0.6, 0, 0.8], [0.48, 0.6, 0.64]]) {
       expect(criticalEpsDd(solver, [1, 1, 1], e).epsDdCritical).toBeCloseTo(2.1659, 4);
     }
   });
 
   it('reproduces the critical-strength table of cylindrical traps', () => {
-    // Independent implementation (physics.md [V]), §7(e). The table's λ is λ_z = ω_z/ω̄ of §3.2,
+    // Independent implementation (docs/physics.md [I]), §7(e). The table's λ is λ_z = ω_z/ω̄ of §3.2,
     // so the trap is λ_a = (λ^(−1/2), λ^(−1/2), λ) and ω_z/ω⊥ = λ^(3/2): with that reading all 21
     // entries are reproduced to the printed digits (the caption's "ω_z/ω⊥" is not what was
     // tabulated; the ω_z/ω⊥ reading gives e.g. 2.9188 instead of 3.7787 at λ = 2, θ = 0°, in

@@ -1,7 +1,7 @@
 import type { GroundStateSolver, SolverState } from './ground-state.js';
 
 export interface CriticalOptions {
-  /** Relative width of the final bracket (default 1e-6, physics.md §4.2). */
+  /** Relative width of the final bracket (default 1e-6, docs/physics.md §4.2). */
   tolerance?: number;
   /** First probe (dimensionless ε_dd, default 0.25) and the stable state to start it from. */
   startEpsDd?: number;
@@ -30,7 +30,7 @@ const RUNAWAY_SHRINK = 0.5;
 
 /**
  * Critical dipolar strength ε_dd,c for trap anisotropies λ and field direction e
- * (physics.md §4.2–4.3): probes in ε_dd, each a full solve with the Hessian check,
+ * (docs/physics.md §4.2–4.3): probes in ε_dd, each a full solve with the Hessian check,
  * warm-started from the highest stable strength so far so that they follow the metastable
  * branch to its end, until stable and collapsed probes bracket ε_c to the tolerance.
  *

@@ -1,16 +1,16 @@
 import { ellipsoidAnisotropy, spheroidAnisotropy } from './anisotropy.js';
 import { symmetricEigen3 } from './symmetric-eigen.js';
 
-/** Interaction prefactor C0 = 2048/(945π³) of E_dir and E_ex (physics.md §2.2). */
+/** Interaction prefactor C0 = 2048/(945π³) of E_dir and E_ex (docs/physics.md §2.2). */
 export const C0 = 2048 / (945 * Math.PI ** 3);
-/** ε̃ = κ ε_dd with κ = 4πC0/(2^(3/2) 6^(5/6)) (physics.md §3.2). */
+/** ε̃ = κ ε_dd with κ = 4πC0/(2^(3/2) 6^(5/6)) (docs/physics.md §3.2). */
 export const EPS_TILDE_PER_EPS_DD = (4 * Math.PI * C0) / (2 ** 1.5 * 6 ** (5 / 6));
-/** Parameters p = (s11, s22, s33, s12, s13, s23, b) of the S-chart (physics.md §3.4). */
+/** Parameters p = (s11, s22, s33, s12, s13, s23, b) of the S-chart (docs/physics.md §3.4). */
 export const PARAMETER_COUNT = 7;
 
 /**
  * The dimensionless variational energy per particle, in units of E_F0 = ħω̄(6N)^(1/3)
- * (physics.md §3.2):
+ * (docs/physics.md §3.2):
  *
  *   e(p) = ⅛[k̄²(2β^(−2/3) + β^(4/3)) + Σ_a λ_a² (M_r)_aa] + ε̃[f(β) − f_R]/r̄³,  k̄ = 1/r̄,
  *

@@ -6,7 +6,7 @@ export type FieldInput = { thetaDeg: number; phiDeg: number } | { x: number; y: 
 
 /**
  * Unit dipole direction e = (sinθ cosφ, sinθ sinφ, cosθ) in the trap frame (θ from z, φ from x
- * towards y; physics.md §5). e and −e are equivalent. Throws PhysicsInputError for non-finite
+ * towards y; docs/physics.md §5). e and −e are equivalent. Throws PhysicsInputError for non-finite
  * angles or a zero / non-finite vector.
  */
 export function fieldDirection(field: FieldInput): [number, number, number] {

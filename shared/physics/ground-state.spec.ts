@@ -19,7 +19,7 @@ const solver = new GroundStateSolver();
 
 /**
  * Solves and checks the virial identity 2E_kin − 2E_trap + 3(E_dir + E_ex) = 0, which holds at
- * every stationary point (physics.md §5.3; residual < 1e-8 [V]) — so every solved case in this
+ * every stationary point (docs/physics.md §5.3; residual < 1e-8 [I]) — so every solved case in this
  * file also tests it.
  */
 function solveStable(lambda: number[], e: number[], epsDd: number, start: GroundState['state'] = null): GroundState {
@@ -32,7 +32,7 @@ function solveStable(lambda: number[], e: number[], epsDd: number, start: Ground
 
 describe('GroundStateSolver', () => {
   it('reproduces the ideal gas without interactions: r_a = 1/λ_a, β = 1, E/N = ¾E_F0', () => {
-    // Ideal-gas limit, physics.md §3.2 and §7(a) [V]: R_a = R̄0/λ_a, K = K_F0, E/N = ¾E_F.
+    // Ideal-gas limit, docs/physics.md §3.2 and §7(a) [I]: R_a = R̄0/λ_a, K = K_F0, E/N = ¾E_F.
     const gs = solveStable(ER_TRAP, dir(35, 25), 0);
     for (let a = 0; a < 3; a++) {
       expect(gs.mr[4 * a] * ER_TRAP[a] ** 2).toBeCloseTo(1, 8);
@@ -45,7 +45,7 @@ describe('GroundStateSolver', () => {
   });
 
   it('has the weak-coupling slope β − 1 = 0.167442 ε_dd in any trap and direction', () => {
-    // physics.md §3.2 [V]: β − 1 = (12/5)ε̃ = 0.167442 ε_dd at first order, trap-independent.
+    // docs/physics.md §3.2 [I]: β − 1 = (12/5)ε̃ = 0.167442 ε_dd at first order, trap-independent.
     // At ε_dd = 0.01 the second-order term is ≈ 0.08 % of the first (from the spherical table).
     const cases: [number[], number[]][] = [
       [SPHERE, dir(0, 0)],
@@ -59,7 +59,7 @@ describe('GroundStateSolver', () => {
   });
 
   it('reproduces the spherical-trap table of β, R∥/R⊥ and E/(N E_F0)', () => {
-    // Independent implementation (physics.md [V]), §7(e), spherical trap, e ∥ z.
+    // Independent implementation (docs/physics.md [I]), §7(e), spherical trap, e ∥ z.
     const table: [number, number, number, number][] = [
       [0.1, 1.016872, 1.016725, 0.749906843],
       [0.5, 1.08707, 1.084593, 0.747677833],
@@ -77,7 +77,7 @@ describe('GroundStateSolver', () => {
   });
 
   it('keeps the cloud aligned with the trap axes when the field is along one', () => {
-    // physics.md §3.3: e along a trap axis → no rotation, 4 parameters.
+    // docs/physics.md §3.3: e along a trap axis → no rotation, 4 parameters.
     for (const e of [[1, 0, 0], [0, 1, 0], [0, 0, 1]]) {
       const gs = solveStable(ER_TRAP, e, 0.3);
       for (const k of [1, 2, 5]) expect(Math.abs(gs.mr[k])).toBeLessThan(1e-8);
@@ -85,7 +85,7 @@ describe('GroundStateSolver', () => {
   });
 
   it('keeps the third trap axis principal when the field lies in a trap symmetry plane', () => {
-    // physics.md §3.3 [V]: e in the xz plane → |M_xy|, |M_yz| < 1e-8, while M_xz is tilted.
+    // docs/physics.md §3.3 [I]: e in the xz plane → |M_xy|, |M_yz| < 1e-8, while M_xz is tilted.
     const gs = solveStable(ER_TRAP, dir(35, 0), 0.3);
     expect(Math.abs(gs.mr[1])).toBeLessThan(1e-8);
     expect(Math.abs(gs.mr[5])).toBeLessThan(1e-8);
@@ -93,7 +93,7 @@ describe('GroundStateSolver', () => {
   });
 
   it('still deforms the Fermi surface with the field at the magic angle', () => {
-    // physics.md §7(d): at θ_m the trap-frame deformation does not vanish; the Fermi surface
+    // docs/physics.md §7(d): at θ_m the trap-frame deformation does not vanish; the Fermi surface
     // follows e with β ≈ 1.02 for 167Er (ε_dd ≈ 0.12) in a cylindrical trap.
     const gs = solveStable(anisotropies([200, 200, 250]), dir(Math.acos(1 / Math.sqrt(3)) / DEG, 0), 0.12);
     expect(gs.beta).toBeGreaterThan(1.015);
@@ -101,7 +101,7 @@ describe('GroundStateSolver', () => {
   });
 
   it('lands on the same minimum from a warm start after a small field step as from a cold start', () => {
-    // physics.md §4.2 [V]: restarts agree to 7e-8 relative in M_R and 2e-8 in β.
+    // docs/physics.md §4.2 [I]: restarts agree to 7e-8 relative in M_R and 2e-8 in β.
     const before = solveStable(ER_TRAP, dir(35, 25), 0.5);
     const warm = solveStable(ER_TRAP, dir(35.5, 25), 0.5, before.state);
     const cold = solveStable(ER_TRAP, dir(35.5, 25), 0.5);
@@ -111,7 +111,7 @@ describe('GroundStateSolver', () => {
   });
 
   it('declares collapse beyond the spherical threshold and says why', () => {
-    // Spherical-trap ε_dd,c = 2.1659 (physics.md §7(e) [V]).
+    // Spherical-trap ε_dd,c = 2.1659 (docs/physics.md §7(e) [I]).
     const gs = solver.solve(SPHERE, [0, 0, 1], 2.2, null);
     expect(gs.stable).toBe(false);
     expect(gs.state).toBeNull();

@@ -21,7 +21,7 @@ export interface EnergyParts {
   exchange: number;
 }
 
-/** Outcome of a ground-state solve in dimensionless units (physics.md §3.2). */
+/** Outcome of a ground-state solve in dimensionless units (docs/physics.md §3.2). */
 export interface GroundState {
   stable: boolean;
   /** Why the gas counts as collapsed (only when not stable). */
@@ -56,9 +56,9 @@ function determinant3(m: ArrayLike<number>): number {
   return m[0] * (m[4] * m[8] - m[5] * m[7]) - m[1] * (m[3] * m[8] - m[5] * m[6]) + m[2] * (m[3] * m[7] - m[4] * m[6]);
 }
 
-/** Box of the S-chart: |s_ij| ≤ 6, |b| ≤ 3 (physics.md §4.1). */
+/** Box of the S-chart: |s_ij| ≤ 6, |b| ≤ 3 (docs/physics.md §4.1). */
 const BOUNDS = [6, 6, 6, 6, 6, 6, 3];
-/** Smallest accepted r̄ (physics.md §4.3). */
+/** Smallest accepted r̄ (docs/physics.md §4.3). */
 const MIN_RBAR = 0.05;
 /** A converged minimum has a small gradient; far above the finite-difference noise (~1e-10). */
 const STATIONARY_GRADIENT = 1e-6;
@@ -69,7 +69,7 @@ const POLISH_MAX_STEP = 1e-4;
 /**
  * Ground state of the variational model for trap anisotropies λ_a, field direction e and
  * strength ε_dd: BFGS in the S-chart, the Hessian collapse check, and — when a cold start
- * fails — the continuation retry ε̃·k/8, k = 1…8 (physics.md §4.1–4.3). One instance owns its
+ * fails — the continuation retry ε̃·k/8, k = 1…8 (docs/physics.md §4.1–4.3). One instance owns its
  * scratch memory; reuse it for many solves (maps, critical-ε scans).
  */
 export class GroundStateSolver {

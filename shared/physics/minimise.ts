@@ -33,7 +33,7 @@ const MAX_BACKTRACKS = 40;
 /**
  * Quasi-Newton minimiser: BFGS (Nocedal & Wright, Numerical Optimization, 2nd ed., §6.1,
  * inverse-Hessian update 6.17) with an Armijo backtracking line search, a cap on the step
- * length and clamping to a box, with a central-difference gradient — the variant physics.md
+ * length and clamping to a box, with a central-difference gradient — the variant docs/physics.md
  * §4.1 names as adequate for the 7-parameter energy. It accepts a starting inverse Hessian,
  * which turns a warm start near the previous minimum into a few Newton-like steps.
  *

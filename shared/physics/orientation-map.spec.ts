@@ -6,7 +6,7 @@ const ER: SampleParams = { species: '167Er', atomNumber: 5e4, trapHz: [350, 80, 
 /**
  * Fully polarised 40K87Rb in an oblate trap (ω_z/ω⊥ ≈ 11, λ_z = 5): ε_dd ≈ 4.9 is stable with
  * the field near the axis (ε_c = 32.35 at θ = 0°) and collapsed near the plane (ε_c = 1.728 at
- * 90°), physics.md §7(e) [V].
+ * 90°), docs/physics.md §7(e) [I].
  */
 const PANCAKE: SampleParams = { species: '40K87Rb', atomNumber: 1e5, trapHz: [50, 50, 559] };
 

@@ -42,7 +42,7 @@ const MAP_CRITICAL_TOLERANCE = 1e-3;
 const NEIGHBOUR_STEP = 1 + 3 * MAP_CRITICAL_TOLERANCE;
 
 /**
- * A quantity over all field directions (physics.md §5). The gas in an orthorhombic trap is
+ * A quantity over all field directions (docs/physics.md §5). The gas in an orthorhombic trap is
  * symmetric under e → −e and under the three mirror planes of the trap, so only the octant
  * θ, φ ∈ [0°, 90°] is solved and the sphere is filled by mirroring. The octant is walked row by
  * row in a serpentine, each solve warm-started from its neighbour, so a direction costs a few

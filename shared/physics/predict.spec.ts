@@ -6,7 +6,7 @@ const ER: SampleParams = { species: '167Er', atomNumber: 5e4, trapHz: [350, 80, 
 
 describe('predict', () => {
   it('gives the ideal-gas scales of 167Er, N = 5e4, (350, 80, 400) Hz', () => {
-    // physics.md §7(a) [V]: E_F0/kB = 718.818 nK, K_F0 = 22.2425 μm⁻¹, R_TF0 = (3.8479, 16.8346, 3.3669) μm; ε_dd = 0.12186 (§3.2).
+    // docs/physics.md §7(a) [I]: E_F0/kB = 718.818 nK, K_F0 = 22.2425 μm⁻¹, R_TF0 = (3.8479, 16.8346, 3.3669) μm; ε_dd = 0.12186 (§3.2).
     const p = predict(ER, { thetaDeg: 0, phiDeg: 0 });
     expect(p.scales.fermiEnergyNk).toBeCloseTo(718.818, 3);
     expect(p.scales.kF0PerUm).toBeCloseTo(22.2425, 4);
@@ -17,7 +17,7 @@ describe('predict', () => {
   });
 
   it('gives β − 1 = 2.05 % and a 20 ms TOF aspect ratio of 1.02045 along y for 167Er with B ∥ z', () => {
-    // physics.md §7(f) [V]; the measured TOF deformation (Science 345, 1484 (2014)) is a few
+    // docs/physics.md §7(f) [I]; the measured TOF deformation (Science 345, 1484 (2014)) is a few
     // percent (from memory), the same size.
     const p = predict(ER, { thetaDeg: 0, phiDeg: 0 }, { tofMs: [20], imaging: 'y' });
     expect(p.fermiSurface?.deformationPercent).toBeCloseTo(2.05, 2);
@@ -26,7 +26,7 @@ describe('predict', () => {
   });
 
   it('reproduces the ideal gas with the weakly dipolar 40K control to 4e-5', () => {
-    // physics.md §7(a) [V]: 40K (ε_dd ≈ 2e-4) reproduces the ideal-gas values to 4e-5.
+    // docs/physics.md §7(a) [I]: 40K (ε_dd ≈ 2e-4) reproduces the ideal-gas values to 4e-5.
     const p = predict({ ...ER, species: '40K' }, { thetaDeg: 35, phiDeg: 25 });
     expect(Math.abs((p.energyPerParticleEF?.total ?? NaN) - 0.75)).toBeLessThan(4e-5);
     const ideal = [...p.scales.idealRadiiUm].sort((a, b) => b - a);
@@ -65,7 +65,7 @@ describe('predict', () => {
   });
 
   it('gives N_crit = N (ε_c/ε_dd)⁶ and keeps ε_c in the warm state for the same direction', () => {
-    // physics.md §4.2: the critical atom number follows from ε_dd ∝ N^(1/6) without a new solve.
+    // docs/physics.md §4.2: the critical atom number follows from ε_dd ∝ N^(1/6) without a new solve.
     const first = predict(ER, { thetaDeg: 35, phiDeg: 25 }, { computeCritical: true });
     expect(first.atomNumberCritical).toBeCloseTo(ER.atomNumber * (first.epsDdCritical! / first.epsDd) ** 6, -3);
     expect(first.collapseRatio).toBeCloseTo(first.epsDd / first.epsDdCritical!, 14);

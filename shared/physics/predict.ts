@@ -37,7 +37,7 @@ export interface Prediction {
   stable: boolean;
   /** Why the gas is collapsed (only when not stable). */
   reason?: string;
-  /** Dipolar strength ε_dd (physics.md §3.2). */
+  /** Dipolar strength ε_dd (docs/physics.md §3.2). */
   epsDd: number;
   /** Critical ε_dd for this trap shape and direction (when asked, and always when collapsed). */
   epsDdCritical?: number;
@@ -84,7 +84,7 @@ const CRITICAL_HINT_STEP = 1.003;
 const solver = new GroundStateSolver();
 
 /**
- * Ground-state prediction of the T = 0 Hartree–Fock variational model (physics.md) for a
+ * Ground-state prediction of the T = 0 Hartree–Fock variational model (docs/physics.md) for a
  * sample and a field direction in the trap frame: Fermi-surface deformation, real-space
  * ellipsoid, energies, stability and ballistic TOF images. Pass the returned `warm` to the
  * next call (e.g. after a small field change) to start from this solution.

@@ -13,7 +13,7 @@ export interface SampleParams {
   polarization?: number;
 }
 
-/** Natural scales of a sample (physics.md §3.2); SI units unless the name says otherwise. */
+/** Natural scales of a sample (docs/physics.md §3.2); SI units unless the name says otherwise. */
 export interface SampleScales {
   species: ResolvedSpecies;
   atomNumber: number;
@@ -34,7 +34,7 @@ export interface SampleScales {
 }
 
 /**
- * Validates a sample and derives its scales (physics.md §3.2). Throws PhysicsInputError for
+ * Validates a sample and derives its scales (docs/physics.md §3.2). Throws PhysicsInputError for
  * N ≤ 0, a non-positive or non-finite trap frequency, an unknown species or a polarisation
  * outside 0…1.
  */

@@ -12,7 +12,7 @@ const TRAP_100: [number, number, number] = [100, 100, 100];
 
 describe('species table', () => {
   it('gives the reference C_dd and ε_dd (N = 1e5, f̄ = 100 Hz) of every species', () => {
-    // Independent implementation (physics.md [V]), §1.3, quoted to 5 and 4 significant digits.
+    // Independent implementation (docs/physics.md [I]), §1.3, quoted to 5 and 4 significant digits.
     const table: [string, number, number][] = [
       ['167Er', 5.2657e-51, 0.09145],
       ['161Dy', 1.0657e-50, 0.17518],
@@ -31,7 +31,7 @@ describe('species table', () => {
   });
 
   it('gives dipolar lengths near the usually quoted 66 a0 (Er) and 130 a0 (Dy)', () => {
-    // a_dd = m C_dd/(12π ħ²); physics.md §1.3 [V] 65.8 a0 and 128–130 a0; ≈66, ≈130 commonly quoted (from memory).
+    // a_dd = m C_dd/(12π ħ²); docs/physics.md §1.3 [I] 65.8 a0 and 128–130 a0; ≈66, ≈130 commonly quoted (from memory).
     const add = (key: string) => {
       const s = resolveSpecies(key);
       return (s.massKg * s.cdd) / (12 * Math.PI * HBAR ** 2) / BOHR_RADIUS;

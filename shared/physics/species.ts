@@ -2,7 +2,7 @@ import { ATOMIC_MASS, BOHR_MAGNETON, DEBYE, EPSILON0, MU0 } from './constants.js
 import { PhysicsInputError } from './input-error.js';
 
 /**
- * Species table (physics.md §1.3). Masses: NIST "Atomic Weights and Isotopic Compositions"
+ * Species table (docs/physics.md §1.3). Masses: NIST "Atomic Weights and Isotopic Compositions"
  * (AME1995-based), as shipped in python3-periodictable 1.6.0. Moments are g_J·J of the
  * electronic ground state as usually quoted (from memory); molecular dipoles are body-frame
  * values from the cited experiments (from memory). Molecule masses are sums of atomic masses.

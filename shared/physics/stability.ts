@@ -3,13 +3,13 @@ import { PARAMETER_COUNT } from './energy.js';
 import { symmetricEigen } from './symmetric-eigen.js';
 
 const N = PARAMETER_COUNT;
-/** Second-difference step of the stability Hessian (physics.md §4.3). */
+/** Second-difference step of the stability Hessian (docs/physics.md §4.3). */
 const HESSIAN_STEP = 1e-4;
-/** Smallest eigenvalue accepted as a true minimum (physics.md §4.3). */
+/** Smallest eigenvalue accepted as a true minimum (docs/physics.md §4.3). */
 const MIN_STABLE_EIGENVALUE = 1e-10;
 
 /**
- * Collapse test of physics.md §4.3: the 7×7 Hessian of e(p) in the S-chart re-centred on the
+ * Collapse test of docs/physics.md §4.3: the 7×7 Hessian of e(p) in the S-chart re-centred on the
  * solution (M0 := M_r*, so S = 0 there), by central second differences with h = 1e-4
  * (99 energy calls). The variational energy is unbounded below, so a stable gas is a local
  * minimum: all eigenvalues must exceed 1e-10. Re-centring removes the chart's own curvature

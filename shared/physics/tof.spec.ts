@@ -6,7 +6,7 @@ const LONG_TIME = 1e5; // ω̄t: M_r is then 1e-10 of the momentum term
 
 describe('ballistic time of flight', () => {
   it('approaches AR_∞ = √(1 + (β² − 1) sin²α) with the major axis along the projected field', () => {
-    // physics.md §6.1 [V]: long-time limit, α = angle between e and the line of sight.
+    // docs/physics.md §6.1 [I]: long-time limit, α = angle between e and the line of sight.
     const mr = [2.1, 0.3, -0.2, 0.3, 0.6, 0.1, -0.2, 0.1, 0.9];
     const beta = 1.3;
     const e = [Math.sin(50 * DEG) * Math.cos(20 * DEG), Math.sin(50 * DEG) * Math.sin(20 * DEG), Math.cos(50 * DEG)];
@@ -53,7 +53,7 @@ describe('ballistic time of flight', () => {
   });
 
   it('maps the named geometries to their camera axes', () => {
-    // physics.md §6.1: "y" → (x, z); "x" → (y, z); "z" → (x, y).
+    // docs/physics.md §6.1: "y" → (x, z); "x" → (y, z); "z" → (x, y).
     expect(imagingPlane('y')).toEqual({ u: [1, 0, 0], v: [0, 0, 1] });
     expect(imagingPlane('x')).toEqual({ u: [0, 1, 0], v: [0, 0, 1] });
     expect(imagingPlane('z')).toEqual({ u: [1, 0, 0], v: [0, 1, 0] });

@@ -9,7 +9,7 @@ export interface ImagingPlane {
   v: [number, number, number];
 }
 
-/** One projected cloud (column density), physics.md §6.1. */
+/** One projected cloud (column density), docs/physics.md §6.1. */
 export interface ProjectedEllipse {
   /** Major/minor semi-axis ratio of the column-density ellipse, ≥ 1. */
   aspectRatio: number;
@@ -21,7 +21,7 @@ export interface ProjectedEllipse {
   semiAxes: [number, number];
 }
 
-/** Named geometries (physics.md §6.1): "y" → (u, v) = (x, z); "x" → (y, z); "z" → (x, y). */
+/** Named geometries (docs/physics.md §6.1): "y" → (u, v) = (x, z); "x" → (y, z); "z" → (x, y). */
 const NAMED: Record<'x' | 'y' | 'z', ImagingPlane> = {
   x: { u: [0, 1, 0], v: [0, 0, 1] },
   y: { u: [1, 0, 0], v: [0, 0, 1] },
@@ -50,7 +50,7 @@ export function imagingPlane(imaging: ImagingInput): ImagingPlane {
 
 /**
  * Momentum metric M_k (row-major 3×3, units of K_F0²) of the spheroidal Fermi surface with
- * long axis e: M_k = k̄²[β^(−2/3) 1 + (β^(4/3) − β^(−2/3)) e eᵀ], k̄ = 1/r̄ (physics.md §3.1).
+ * long axis e: M_k = k̄²[β^(−2/3) 1 + (β^(4/3) − β^(−2/3)) e eᵀ], k̄ = 1/r̄ (docs/physics.md §3.1).
  */
 export function momentumMetric(beta: number, rbar: number, e: ArrayLike<number>, out: Float64Array): void {
   const kbar2 = 1 / (rbar * rbar);
@@ -60,7 +60,7 @@ export function momentumMetric(beta: number, rbar: number, e: ArrayLike<number>,
 }
 
 /**
- * Ballistic expansion (physics.md §6.1): M(t) = M_r + (ω̄t)² M_k in units of R̄0², exact for
+ * Ballistic expansion (docs/physics.md §6.1): M(t) = M_r + (ω̄t)² M_k in units of R̄0², exact for
  * the step-function ansatz because the initial state has no r–k correlation.
  */
 export function expandedMetric(mr: ArrayLike<number>, mk: ArrayLike<number>, omegaBarT: number, out: Float64Array): void {
@@ -70,7 +70,7 @@ export function expandedMetric(mr: ArrayLike<number>, mk: ArrayLike<number>, ome
 
 /**
  * Column-density ellipse of the cloud with metric M (3×3) in the image plane: S = P M Pᵀ,
- * semi-axes √eig(S), angle of the major axis from u towards v (physics.md §6.1).
+ * semi-axes √eig(S), angle of the major axis from u towards v (docs/physics.md §6.1).
  */
 export function projectEllipse(m: ArrayLike<number>, plane: ImagingPlane): ProjectedEllipse {
   const quad = (a: number[], b: number[]) => {

@@ -13,7 +13,7 @@ export interface PresentDirection {
   phiDeg: number;
 }
 
-/** The magic angle arccos(1/√3), degrees (physics.md §7(d)), and its mirror below the equator. */
+/** The magic angle arccos(1/√3), degrees (docs/physics.md §7(d)), and its mirror below the equator. */
 const MAGIC_DEG = (Math.acos(1 / Math.sqrt(3)) * 180) / Math.PI;
 const MAGIC_LINES = [MAGIC_DEG, 180 - MAGIC_DEG];
 const THETA_TICKS = [0, 45, 90, 135, 180];

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { cameraAxes, projectedField } from './camera-axes';
 
 describe('cameraAxes', () => {
-  it('names the named geometries of physics.md §6.1', () => {
+  it('names the named geometries of docs/physics.md §6.1', () => {
     expect(cameraAxes('y')?.label).toBe('u = x, v = z (imaging along y)');
     expect(cameraAxes('x')?.label).toBe('u = y, v = z (imaging along x)');
     expect(cameraAxes('z')?.label).toBe('u = x, v = y (imaging along z)');

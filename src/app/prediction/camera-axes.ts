@@ -20,7 +20,7 @@ const NAMED_TEXT = {
 } as const;
 
 /**
- * The camera axes of an imaging geometry (physics.md §6.1): a named line of sight, or the
+ * The camera axes of an imaging geometry (docs/physics.md §6.1): a named line of sight, or the
  * profile's own u and v vectors. Null when the geometry cannot be resolved, e.g. a custom
  * camera whose vectors the caller does not have.
  */

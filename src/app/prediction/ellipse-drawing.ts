@@ -39,7 +39,7 @@ export function factorFor(aspect: number, chosen: number): number {
 /**
  * Drawing of a camera ellipse with its major semi-axis `radius` drawing units long. The camera's
  * u axis points right and v up; the major-axis angle is measured from u towards v
- * (physics.md §6.1), so on screen, where SVG y points down, it is a rotation by −angle.
+ * (docs/physics.md §6.1), so on screen, where SVG y points down, it is a rotation by −angle.
  * A round ellipse (no angle) is drawn as a circle.
  */
 export function drawEllipse(ellipse: CameraEllipse, chosenFactor: number, radius: number): DrawnEllipse {
