@@ -48,7 +48,9 @@ describe('Clarity in Chromium', () => {
     expect(page.url()).toMatch(/\/coils\/y$/);
     const readings = page.getByRole('region', { name: 'Readings' });
     await expect.poll(() => readings.innerText(), { timeout: 15_000 }).toMatch(/Y current[\s\S]*\d+\.\d{3}\s*A/);
-    await expect.poll(() => readings.innerText(), { timeout: 15_000 }).toMatch(/Winding temperature \(from resistance\)\s*\d+\.\d\s*°C/);
+    // A number while current flows and has settled, otherwise a dash and the reason (a busy
+    // test machine can trip the stale-telemetry interlock, which ramps the coils to zero).
+    await expect.poll(() => readings.innerText(), { timeout: 15_000 }).toMatch(/Winding temperature \(from resistance\)\s*(\d+\.\d\s*°C\s*mean over the winding|—\s*needs ≥ 1 A)/);
     const chain = page.getByRole('region', { name: 'Trip chain' });
     expect(await chain.innerText()).toMatch(/Software trip\s*20(\.0+)?\s*A/);
     expect(await chain.innerText()).toMatch(/Coolant flow[\s\S]*Software trip\s*1(\.0+)?\s*L\/min/);
@@ -97,17 +99,17 @@ describe('Clarity in Chromium', () => {
   });
 
   it('keeps the keyboard focus on the alarm after Acknowledge on Live, and redraws a changed trip level without a reload', async () => {
-    // Set the current alarm below the running demo current so that it raises.
-    expect((await api('PUT', '/api/alarm-limits/current.x.H', { limit: 0.2, reason: 'focus test' })).status).toBe(200);
+    // Put the low supply-water alarm above the chiller's 18 °C so that it raises whatever the coils do.
+    expect((await api('PUT', '/api/alarm-limits/waterSupply.L', { limit: 21, reason: 'focus test' })).status).toBe(200);
     const page = await signedIn('operator');
-    const button = page.getByRole('button', { name: 'Acknowledge current.x.H' });
+    const button = page.getByRole('button', { name: 'Acknowledge waterSupply.L' });
     await button.waitFor({ timeout: 20_000 });
     await button.focus();
     await page.keyboard.press('Enter');
-    await expect.poll(() => page.getByRole('button', { name: 'Acknowledge current.x.H' }).count(), { timeout: 10_000 }).toBe(0);
+    await expect.poll(() => page.getByRole('button', { name: 'Acknowledge waterSupply.L' }).count(), { timeout: 10_000 }).toBe(0);
     // The focused line, and its focus ring (the page's own code, run in the browser).
-    await expect.poll(() => page.locator('[data-alarm-id="current.x.H"]:focus').count()).toBe(1);
-    const focusRing = await page.locator('[data-alarm-id="current.x.H"]').evaluate((el) => el.ownerDocument.defaultView!.getComputedStyle(el).outlineStyle);
+    await expect.poll(() => page.locator('[data-alarm-id="waterSupply.L"]:focus').count()).toBe(1);
+    const focusRing = await page.locator('[data-alarm-id="waterSupply.L"]').evaluate((el) => el.ownerDocument.defaultView!.getComputedStyle(el).outlineStyle);
     expect(focusRing).not.toBe('none');
 
     const tripMarks = () => page.locator('tw-gauge-bar').first().locator('.mark[data-kind="trip"]').evaluateAll((els) => els.map((e) => e.getAttribute('data-percent')));
@@ -118,6 +120,29 @@ describe('Clarity in Chromium', () => {
     await expect.poll(tripMarks, { timeout: 10_000 }).not.toEqual(before);
     expect(await tripMarks()).toContain('88');
     await page.screenshot({ path: join(ARTIFACT_DIR, 'live-alarms-1920.png'), fullPage: true });
+    await page.close();
+  });
+
+  it('offers a skip link and keeps the focus in the password field after a failed sign-in', async () => {
+    const page = await chrome.browser.newPage();
+    await page.goto(stack.server.url);
+    await page.evaluate('localStorage.clear()');
+    await page.goto(`${stack.server.url}/sign-in`);
+    await page.getByLabel('Email').fill('operator@tiltwatch.example');
+    await page.getByLabel('Password').fill('not-the-password');
+    await page.getByLabel('Password').press('Enter');
+    await page.getByRole('alert').waitFor();
+    await expect.poll(() => page.locator('input[type="password"]:focus').count()).toBe(1);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'sign-in-failed.png') });
+
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByLabel('Password').press('Enter');
+    await page.getByRole('region', { name: 'Field' }).waitFor();
+    await page.keyboard.press('Tab');
+    const skip = page.getByRole('link', { name: 'Skip to the page content' });
+    await expect.poll(() => skip.evaluate((el) => el === el.ownerDocument.activeElement)).toBe(true);
+    await page.keyboard.press('Enter');
+    await expect.poll(() => page.locator('main#tw-main:focus').count()).toBe(1);
     await page.close();
   });
 });

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, ElementRef, inject, signal, viewChild } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -29,11 +29,14 @@ export class SignIn {
   protected readonly submitting = signal(false);
   protected readonly failure = signal<string | null>(null);
   protected readonly notice = this.session.notice;
+  private readonly passwordInput = viewChild<ElementRef<HTMLInputElement>>('password');
+  private readonly emailInput = viewChild<ElementRef<HTMLInputElement>>('email');
 
   protected async signIn(): Promise<void> {
     if (this.submitting()) return;
     if (this.form.invalid) {
       this.form.markAllAsTouched();
+      (this.form.controls.email.invalid ? this.emailInput() : this.passwordInput())?.nativeElement.focus();
       return;
     }
     const { email, password } = this.form.getRawValue();
@@ -46,6 +49,8 @@ export class SignIn {
     } catch (err) {
       this.failure.set(errorText(err));
       this.form.enable();
+      // The inputs lost the focus while disabled: put it back where the person retypes.
+      setTimeout(() => this.passwordInput()?.nativeElement.select());
     } finally {
       this.submitting.set(false);
     }

@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import type { MapQuantity } from '../../../shared/physics/orientation-map';
 import { formatNumber } from '../readout/format-quantity';
+import { SymbolText } from '../readout/symbol-text';
 import { QUANTITY_TEXT, paletteGradient, type ColorScale } from './color-scale';
 
 const GRADIENT = paletteGradient();
@@ -8,8 +9,9 @@ const GRADIENT = paletteGradient();
 /** The colour bar of an orientation map with its ticks, title and unit. */
 @Component({
   selector: 'tw-color-legend',
+  imports: [SymbolText],
   template: `
-    <p class="title">{{ text().name }}, {{ text().symbol }} <span class="unit">({{ text().unit }})</span></p>
+    <p class="title">{{ text().name }}, <tw-symbol-text [text]="text().symbol" /> <span class="unit">({{ text().unit }})</span></p>
     <div class="bar" [style.background]="gradient" role="img" [attr.aria-label]="description()"></div>
     <div class="ticks" aria-hidden="true">
       @for (tick of ticks(); track tick.value) {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { colorOf, isCollapsed, niceTicks, paletteColor, scaleFor } from './color-scale';
+import { colorOf, fixedScaleFor, isCollapsed, isNarrowScale, niceTicks, paletteColor, scaleFor } from './color-scale';
 
 /** Relative luminance of an sRGB colour (WCAG 2.x definition, IEC 61966-2-1 transfer). */
 function luminance([r, g, b]: number[]): number {
@@ -49,5 +49,14 @@ describe('colour scale', () => {
 
   it('gives a map that does not change with direction a single tick', () => {
     expect(scaleFor([1.5, 1.5], 'tofAspect').ticks).toEqual([1.5]);
+  });
+});
+
+describe('narrow and fixed colour scales', () => {
+  it('calls a scale narrow when it spans under 1 % of the fixed range, and offers the fixed range', () => {
+    expect(isNarrowScale(scaleFor([1.0203, 1.0205], 'fermiSurfaceAspect'), 'fermiSurfaceAspect')).toBe(true);
+    expect(isNarrowScale(scaleFor([1.0, 1.2], 'fermiSurfaceAspect'), 'fermiSurfaceAspect')).toBe(false);
+    expect(fixedScaleFor('collapseRatio')).toMatchObject({ min: 0, max: 1 });
+    expect(fixedScaleFor('tofAspect')).toMatchObject({ min: 1, max: 1.5 });
   });
 });

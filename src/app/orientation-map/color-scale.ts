@@ -79,6 +79,31 @@ export function scaleFor(values: ArrayLike<number>, quantity: MapQuantity): Colo
 }
 
 /**
+ * Fixed scales that compare maps with one another: β and the TOF aspect from round (1) to
+ * a 50 % deformation, the collapse ratio from 0 to the threshold 1. Values beyond are clamped
+ * to the end colours.
+ */
+const FIXED_RANGES: Record<MapQuantity, [number, number]> = {
+  fermiSurfaceAspect: [1, 1.5],
+  tofAspect: [1, 1.5],
+  collapseRatio: [0, 1],
+};
+
+export function fixedScaleFor(quantity: MapQuantity): ColorScale {
+  const [min, max] = FIXED_RANGES[quantity];
+  return { min, max, ...niceTicks(min, max, 5) };
+}
+
+/**
+ * True when an automatic scale spans so little (under 1 % of the fixed scale's range) that
+ * tiny differences would look like large ones: the page says so and offers the fixed scale.
+ */
+export function isNarrowScale(scale: ColorScale, quantity: MapQuantity): boolean {
+  const [min, max] = FIXED_RANGES[quantity];
+  return scale.max - scale.min < 0.01 * (max - min);
+}
+
+/**
  * Round tick values inside [min, max], about `target` of them, with a step of 1, 2 or 5 times a
  * power of ten (common practice for chart axes), and the decimals that step needs.
  */

@@ -2,6 +2,7 @@ import {
   ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRender, afterRenderEffect, computed, inject, input, signal, viewChild,
 } from '@angular/core';
 import { formatQuantity } from '../readout/format-quantity';
+import { plainSymbols } from '../readout/symbol-text';
 import type { ColorScale } from './color-scale';
 import type { ComputedMap } from './map-computation';
 import { cellAtPixel, moveCell, nearestCell, paintMap, type MapCell } from './map-grid';
@@ -132,7 +133,7 @@ export class MapView {
 
   private describe(cell: MapCell): string {
     const { settings } = this.map();
-    return `θ ${formatQuantity(cell.thetaDeg, '°', 1)}, φ ${formatQuantity(cell.phiDeg, '°', 1)}: ${mapValueText(cell.value, settings.quantity, this.scale())}`;
+    return plainSymbols(`θ ${formatQuantity(cell.thetaDeg, '°', 1)}, φ ${formatQuantity(cell.phiDeg, '°', 1)}: ${mapValueText(cell.value, settings.quantity, this.scale())}`);
   }
 
   private paint(): void {

@@ -11,8 +11,9 @@ import { LiveFeed } from '../feed/live-feed';
 import { cameraAxes } from '../prediction/camera-axes';
 import { ActiveProfile } from '../profiles/active-profile';
 import { formatNumber } from '../readout/format-quantity';
+import { SymbolText } from '../readout/symbol-text';
 import { ColorLegend } from './color-legend';
-import { QUANTITY_TEXT, scaleFor } from './color-scale';
+import { QUANTITY_TEXT, fixedScaleFor, isNarrowScale, scaleFor } from './color-scale';
 import { MapComputation } from './map-computation';
 import type { MapSettings } from './map-protocol';
 import { MapView, type PresentDirection } from './map-view';
@@ -31,7 +32,7 @@ const RESOLUTIONS = [10, 5, 2, 1];
  */
 @Component({
   selector: 'tw-orientation-map-page',
-  imports: [ColorLegend, MapView, MatButtonModule, MatButtonToggleModule, MatIconModule, MatProgressBarModule],
+  imports: [ColorLegend, MapView, MatButtonModule, MatButtonToggleModule, MatIconModule, MatProgressBarModule, SymbolText],
   providers: [MapComputation],
   templateUrl: './orientation-map-page.html',
   styleUrl: './orientation-map-page.scss',
@@ -60,9 +61,24 @@ export class OrientationMapPage {
     return status.kind === 'failed' ? status.message : null;
   });
 
-  protected readonly scale = computed(() => {
+  /** Fixed colour scale chosen instead of the one spanning the map's values. */
+  protected readonly fixedScale = signal(false);
+  private readonly autoScale = computed(() => {
     const map = this.map();
     return map ? scaleFor(map.values, map.settings.quantity) : null;
+  });
+  protected readonly scale = computed(() => {
+    const map = this.map();
+    if (!map) return null;
+    return this.fixedScale() ? fixedScaleFor(map.settings.quantity) : this.autoScale();
+  });
+  /** "The colours span only 1.0203 … 1.0205", when the automatic scale is very narrow. */
+  protected readonly narrowNote = computed(() => {
+    const map = this.map();
+    const auto = this.autoScale();
+    if (!map || !auto || !isNarrowScale(auto, map.settings.quantity)) return null;
+    const digits = Math.max(auto.digits, 4);
+    return `The colours span only ${formatNumber(auto.min, digits)} … ${formatNumber(auto.max, digits)}: small differences look large.`;
   });
 
   /** What the drawn map shows, e.g. "β = K∥/K⊥ at 5° for Lindqvist Hall 167Er · v1". */
@@ -132,6 +148,10 @@ export class OrientationMapPage {
 
   protected computeAgain(): void {
     this.compute(this.quantity(), this.resolutionDeg());
+  }
+
+  protected toggleFixedScale(): void {
+    this.fixedScale.update((fixed) => !fixed);
   }
 
   protected cancel(): void {

@@ -4,6 +4,7 @@ import { MatIconModule } from '@angular/material/icon';
 import type { LivePrediction } from '../../../shared/live/live-state';
 import type { ProfileRecord } from '../../../shared/profiles/profile-record';
 import { formatNumber } from '../readout/format-quantity';
+import { SymbolText } from '../readout/symbol-text';
 import { cameraAxes } from './camera-axes';
 import { CameraSketch } from './camera-sketch';
 import { DEFAULT_EXAGGERATION, EXAGGERATION_FACTORS } from './ellipse-drawing';
@@ -16,7 +17,7 @@ import { readPrediction } from './prediction-readout';
  */
 @Component({
   selector: 'tw-prediction-panel',
-  imports: [CameraSketch, MatButtonToggleModule, MatIconModule],
+  imports: [CameraSketch, MatButtonToggleModule, MatIconModule, SymbolText],
   templateUrl: './prediction-panel.html',
   styleUrl: './prediction-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -53,6 +53,12 @@ export class Shell {
     this.session.refreshUser().catch(() => undefined); // a 401 ends the session in the interceptor
   }
 
+  /** Moves the keyboard focus past toolbar and navigation to the page itself. */
+  protected skipToContent(event: Event): void {
+    event.preventDefault();
+    document.getElementById('tw-main')?.focus();
+  }
+
   protected toggleNavigation(): void {
     this.navToggled.update((open) => !open);
   }
