@@ -27,13 +27,19 @@ describe('Clarity in Chromium', () => {
       body: body === undefined ? undefined : JSON.stringify(body),
     });
 
+  /** The browser profile keeps the previous test's session: sign out the way a person would. */
+  async function signOutFirst(page: Page): Promise<void> {
+    await page.goto(stack.server.url);
+    const signOut = page.getByRole('button', { name: 'Sign out' });
+    await Promise.race([page.getByLabel('Email').waitFor(), signOut.waitFor()]);
+    if (await signOut.isVisible()) await signOut.click();
+    await page.getByLabel('Email').waitFor();
+  }
+
   async function signedIn(role: 'operator' | 'lead'): Promise<Page> {
     const page = await chrome.browser.newPage();
     await page.setViewportSize({ width: 1920, height: 1080 });
-    await page.goto(stack.server.url);
-    // The browser profile keeps the previous test's session: start each test signed out.
-    await page.evaluate('localStorage.clear()');
-    await page.goto(`${stack.server.url}/sign-in`);
+    await signOutFirst(page);
     await page.getByLabel('Email').fill(`${role}@tiltwatch.example`);
     await page.getByLabel('Password').fill(DEMO_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
@@ -125,9 +131,7 @@ describe('Clarity in Chromium', () => {
 
   it('offers a skip link and keeps the focus in the password field after a failed sign-in', async () => {
     const page = await chrome.browser.newPage();
-    await page.goto(stack.server.url);
-    await page.evaluate('localStorage.clear()');
-    await page.goto(`${stack.server.url}/sign-in`);
+    await signOutFirst(page);
     await page.getByLabel('Email').fill('operator@tiltwatch.example');
     await page.getByLabel('Password').fill('not-the-password');
     await page.getByLabel('Password').press('Enter');
