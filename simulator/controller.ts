@@ -9,7 +9,7 @@ import {
 } from '../shared/telemetry/messages.js';
 import { TOPICS } from '../shared/telemetry/topics.js';
 import { startControlEndpoint } from './control-endpoint.js';
-import { DEMO_PARAMETERS } from './parameters.js';
+import { DEMO_PARAMETERS } from '../shared/apparatus/coil-data.js';
 import { Simulation } from './simulation.js';
 import { TelemetryPublisher } from './telemetry-publisher.js';
 

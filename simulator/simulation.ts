@@ -1,5 +1,5 @@
 import type { ControllerStatus, FastFrame, SlowFrame } from '../shared/telemetry/messages.js';
-import type { ControllerParameters } from './parameters.js';
+import type { ControllerParameters } from '../shared/apparatus/coil-data.js';
 import { Plant } from './plant.js';
 import { SetpointSource } from './setpoint-source.js';
 

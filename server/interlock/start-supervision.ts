@@ -22,7 +22,7 @@ import { outboxHandlers } from '../notify/outbox-routes.js';
 import { Interlock } from './interlock.js';
 import { parseInterlockConfig } from './interlock-config.js';
 import { interlockHandlers } from './interlock-routes.js';
-import { Supervisor, type AlarmsSink } from './supervisor.js';
+import { Supervisor, type AlarmsSink, type SteeringContext } from './supervisor.js';
 import { openTrip } from './trip-repository.js';
 
 /** The lab named in notice subjects (the demo scenario). */
@@ -38,13 +38,16 @@ type SupervisionRoutes =
 
 export interface Supervision {
   supervisor: Supervisor;
+  /** The alarm limits in force (steering's pre-flight compares against them). */
+  book: AlarmBook;
+  interlock: Interlock;
   handlers: Pick<RouteHandlers, SupervisionRoutes>;
   /** Stops evaluating, writes what is queued, closes the mailer and the local catcher. */
   close(): Promise<void>;
 }
 
-export async function startSupervision(deps: { db: Db; live: LiveStore; sink: AlarmsSink; config: ServerConfig; log: Logger }): Promise<Supervision> {
-  const { db, live, sink, config, log } = deps;
+export async function startSupervision(deps: { db: Db; live: LiveStore; sink: AlarmsSink; config: ServerConfig; log: Logger; steering?: SteeringContext }): Promise<Supervision> {
+  const { db, live, sink, config, log, steering } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
   const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs }));
   const latched = await openTrip(db);
@@ -75,11 +78,13 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
     closers.push(() => mailer.close());
     const notice = parseNoticeOptions({ onCall: config.mail.onCall, site: SITE });
     const notifier = new OnCallNotifier(mailer, notice, (id) => book.limits().find((l) => l.id === id));
-    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log });
+    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log, steering });
     closers.push(() => supervisor.close());
 
     return {
       supervisor,
+      book,
+      interlock,
       handlers: {
         ...alarmHandlers({ db, book, records, announce: () => supervisor.announce() }),
         ...alarmLimitHandlers(db, book),

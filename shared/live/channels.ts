@@ -3,7 +3,7 @@
  * fictional Lindqvist Hall machine; a real lab sets its own). The Live page draws every bar
  * against `scale`, shades `normal`, and marks the alarm and trip levels. Current levels apply
  * to |I|. The simulator's own hardware trip levels sit beyond the software trip levels, as a
- * hardware interlock should (see simulator/coil-model.ts).
+ * hardware interlock should (see shared/apparatus/coil-data.ts).
  */
 export interface ChannelBand {
   id: string;

@@ -1,4 +1,4 @@
-import type { Axis } from '../shared/telemetry/messages.js';
+import type { Axis } from '../telemetry/messages.js';
 
 /**
  * Parameters of the simulated field-orientation controller. The demo values below describe the
@@ -48,6 +48,8 @@ export interface NoiseParameters {
 
 export interface ControllerParameters {
   coils: Record<Axis, CoilParameters>;
+  /** Largest |B| the apparatus is built and rated for, G. */
+  maxFieldG: number;
   supply: SupplyParameters;
   trips: HardwareTripLevels;
   noise: NoiseParameters;
@@ -77,6 +79,7 @@ const coil = (r20Ohm: number, nominalFlowLpm: number): CoilParameters => ({
  */
 export const DEMO_PARAMETERS: ControllerParameters = {
   coils: { x: coil(0.41, 3.2), y: coil(0.39, 3.0), z: coil(0.42, 2.8) },
+  maxFieldG: 20,
   supply: { currentLimitA: 22, slewLimitAPerS: 20, complianceV: 14 },
   trips: { overTemperatureC: 75, lowFlowLpm: 0.6, lowFlowDelayS: 2, overCurrentA: 24 },
   noise: { currentA: 0.002, voltageV: 0.005, temperatureC: 0.05, flowLpm: 0.02 },

@@ -1,0 +1,45 @@
+/**
+ * Request bodies of the steering, sequence and run routes, checked at the edge. Messages name
+ * each field the way the screens label it.
+ */
+import { z } from 'zod';
+import { MAX_RAMP_MS, MAX_TARGET_GAUSS } from '../../shared/steering/target.js';
+
+/** Free text that is printable: no control characters, no lone surrogates. */
+export function text(label: string, max: number) {
+  return z
+    .string({ error: `${label} must be text` })
+    .trim()
+    .min(1, `${label} must not be empty`)
+    .max(max, `${label} must be at most ${max} characters`)
+    .refine((s) => !/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(s), `${label} must not contain control characters`)
+    .refine((s) => !/\p{Cs}/u.test(s), `${label} must be valid Unicode text (no lone surrogates)`);
+}
+
+const number = (label: string, unit: string, min: number, max: number, maxExclusive = false) => {
+  const base = z.number({ error: `${label} must be a number${unit ? ` in ${unit}` : ''}` }).min(min, `${label} must be at least ${min}${unit ? ` ${unit}` : ''}`);
+  return maxExclusive
+    ? base.lt(max, `${label} must be below ${max}${unit ? ` ${unit}` : ''}`)
+    : base.max(max, `${label} must be at most ${max}${unit ? ` ${unit}` : ''}`);
+};
+
+export const reason = text('Reason', 500);
+
+export const magnitudeG = number('|B|', 'G', 0, MAX_TARGET_GAUSS);
+export const thetaDeg = number('θ', '°', 0, 180);
+export const phiDeg = number('φ', '°', 0, 360, true);
+
+export const SteerRequestBody = z.strictObject({
+  magnitudeG,
+  thetaDeg,
+  phiDeg,
+  rampMs: number('Ramp time', 'ms', 0, MAX_RAMP_MS),
+  reason,
+});
+
+export const ReasonBody = z.strictObject({ reason });
+
+export const SettingsBody = z.strictObject({
+  collapseRatioLimit: number('Collapse-ratio limit', '', 0.01, 1),
+  reason,
+});
