@@ -58,6 +58,10 @@ export const API_ROUTES = [
   { id: 'runs.get', method: 'get', path: '/api/runs/:id', minRole: 'viewer', summary: 'One run with its shots' },
   { id: 'runs.abort', method: 'post', path: '/api/runs/:id/abort', minRole: 'operator', summary: 'Abort a run and hold the present field: { reason }' },
   { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mail catcher' },
+  { id: 'logbook.write', method: 'post', path: '/api/logbook/entries', minRole: 'operator', summary: 'Write a logbook entry: JSON { text, tags?, at?, link?, amends? } or multipart with files "file" → 201 { id }' },
+  { id: 'logbook.list', method: 'get', path: '/api/logbook/entries', minRole: 'viewer', summary: 'Logbook entries, newest first (?q=&from=&to=&tag=&limit=) → { entries }' },
+  { id: 'logbook.attachment', method: 'get', path: '/api/logbook/attachments/:id', minRole: 'viewer', summary: 'One attachment, served as its checked type' },
+  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mailbox' },
 ] as const satisfies readonly RouteSpec[];
 
 export type RouteId = (typeof API_ROUTES)[number]['id'];

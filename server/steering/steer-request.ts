@@ -4,16 +4,20 @@
  */
 import { z } from 'zod';
 import { MAX_RAMP_MS, MAX_TARGET_GAUSS } from '../../shared/steering/target.js';
+import { textProblem } from '../../shared/validation/edge-rules.js';
+import { reasonText } from '../http/fields.js';
 
-/** Free text that is printable: no control characters, no lone surrogates. */
+/** Trimmed text of 1…`max` characters, with the shared edge rules (no NUL, control characters or lone surrogates). */
 export function text(label: string, max: number) {
   return z
     .string({ error: `${label} must be text` })
+    .superRefine((s, ctx) => {
+      const problem = textProblem(s);
+      if (problem) ctx.addIssue({ code: 'custom', message: `${label} ${problem}`, abort: true });
+    })
     .trim()
     .min(1, `${label} must not be empty`)
-    .max(max, `${label} must be at most ${max} characters`)
-    .refine((s) => !/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(s), `${label} must not contain control characters`)
-    .refine((s) => !/\p{Cs}/u.test(s), `${label} must be valid Unicode text (no lone surrogates)`);
+    .max(max, `${label} must be at most ${max} characters`);
 }
 
 const number = (label: string, unit: string, min: number, max: number, maxExclusive = false) => {
@@ -23,7 +27,7 @@ const number = (label: string, unit: string, min: number, max: number, maxExclus
     : base.max(max, `${label} must be at most ${max}${unit ? ` ${unit}` : ''}`);
 };
 
-export const reason = text('Reason', 500);
+export const reason = reasonText();
 
 export const magnitudeG = number('|B|', 'G', 0, MAX_TARGET_GAUSS);
 export const thetaDeg = number('θ', '°', 0, 180);
