@@ -39,7 +39,7 @@ export function rampsOfSequence(steps: readonly SequenceStep[], from: Vec3): { r
 /** Planned points of every ramp, in time order, without predictions. */
 export function plannedPoints(cal: CalibrationBody, ramps: readonly PlannedRamp[]): PlannedPoint[] {
   return ramps.flatMap((r) =>
-    planPath(cal, r.from, r.to, r.rampMs).map((p: PathPoint) => ({ ...p, tMs: r.startMs + p.tMs, fermiSurfaceAspect: null, collapseRatio: null })),
+    planPath(cal, r.from, r.to, r.rampMs).map((p: PathPoint) => ({ ...p, tMs: r.startMs + p.tMs, mapThetaDeg: null, mapPhiDeg: null, fermiSurfaceAspect: null, collapseRatio: null })),
   );
 }
 
@@ -59,8 +59,12 @@ export async function withPredictions(
     const f = profileTrapField(cal, profile.profile, p.currentsA);
     if (f.thetaDeg !== null && f.phiDeg !== null) directions.push({ index, thetaDeg: f.thetaDeg, phiDeg: f.phiDeg });
   });
-  const predicted = await predictor.evaluate(profile, directions);
   const out = points.map((p) => ({ ...p }));
+  for (const d of directions) {
+    out[d.index].mapThetaDeg = d.thetaDeg;
+    out[d.index].mapPhiDeg = d.phiDeg;
+  }
+  const predicted = await predictor.evaluate(profile, directions);
   directions.forEach((d, i) => {
     out[d.index].fermiSurfaceAspect = predicted[i].fermiSurfaceAspect;
     out[d.index].collapseRatio = predicted[i].collapseRatio;

@@ -15,7 +15,7 @@ function plan(from: { magnitudeG: number; thetaDeg: number; phiDeg: number }, to
 
 /** A plan holding constant currents (one point each side of a hold). */
 function constant(currents: { x: number; y: number; z: number }): PlannedPoint[] {
-  return [0, 1000].map((tMs) => ({ tMs, magnitudeG: 5, thetaDeg: 10, phiDeg: 0, currentsA: currents, collapseRatio: 0.1, fermiSurfaceAspect: 1 }));
+  return [0, 1000].map((tMs) => ({ tMs, magnitudeG: 5, thetaDeg: 10, phiDeg: 0, currentsA: currents, mapThetaDeg: 10, mapPhiDeg: 0, collapseRatio: 0.1, fermiSurfaceAspect: 1 }));
 }
 
 const byName = (checks: ReturnType<typeof preflight>, name: string) => checks.find((c) => c.name === name)!;

@@ -26,6 +26,9 @@ export interface PlannedPoint {
   thetaDeg: number | null;
   phiDeg: number | null;
   currentsA: Vec3;
+  /** The direction in the active sample profile's trap frame (the frame of the orientation map); null without profile or field. */
+  mapThetaDeg: number | null;
+  mapPhiDeg: number | null;
   /** Predicted β = K∥/K⊥ (null when collapsed or not computed). */
   fermiSurfaceAspect: number | null;
   /** Predicted ε_dd/ε_dd,crit (null when not computed). */

@@ -18,7 +18,8 @@ describe('steering: server → broker → simulated controller', () => {
   const tokens = new Map<Role, string>();
 
   beforeAll(async () => {
-    stack = await startStack({ env: { LOG_LEVEL: 'error' }, simulatorOptions: { demo: true, thermalSpeedup: 30 } });
+    // Staleness is not under test here: a generous limit keeps a loaded test machine from tripping on it.
+    stack = await startStack({ env: { LOG_LEVEL: 'error', TILTWATCH_STALE_TRIP_MS: '3000' }, simulatorOptions: { demo: true, thermalSpeedup: 30 } });
     for (const role of ['viewer', 'operator', 'lead'] as const) tokens.set(role, await signIn(stack.server.url, role));
     await waitFor(async () => ((await live()).field ? true : undefined), 'the first field from the controller');
   });
