@@ -160,7 +160,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     closers.push(() => ingest.close());
     supervision.supervisor.attach(ingest);
     supervision.supervisor.start();
-    steering.connect({ link: ingest, interlock: supervision.interlock, alarmLimits: () => supervision.book.limits(), temperatureTripC: supervision.interlock.config.temperatureTripC });
+    steering.connect({ link: ingest, interlock: supervision.interlock, alarmLimits: () => supervision.book.limits(), levels: () => supervision.levels.inForce() });
 
     const report = (): HealthReport => {
       const fanoutCounters = fanout.counters();

@@ -28,6 +28,7 @@ import type { AlarmEventKind, AlarmSuppression } from '../../shared/alarms/alarm
 import type { LogbookLinkKind } from '../../shared/logbook/logbook-api.js';
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
+import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
@@ -215,6 +216,19 @@ export const alarmLimits = pgTable('alarm_limits', {
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });
 
+/**
+ * Versions of the lead-set level set (display bands, trip levels, operating settings): every
+ * edit adds a version with its reason, never changes a stored one; the newest is in force.
+ */
+export const levelSets = pgTable('level_sets', {
+  id: serial('id').primaryKey(),
+  version: integer('version').notNull().unique(),
+  body: jsonb('body').$type<LevelSet>().notNull(),
+  createdBy: text('created_by').notNull(),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  reason: text('reason').notNull(),
+});
+
 /** Every alarm transition (raise, clear, acknowledge, shelve, …): the alarm history. */
 export const alarmEvents = pgTable(
   'alarm_events',
@@ -251,16 +265,6 @@ export const interlockTrips = pgTable('interlock_trips', {
   resetAtMs: epochMs('reset_at_ms'),
   resetBy: text('reset_by'),
   resetReason: text('reset_reason'),
-});
-
-/** Steering limits set by a lead, versioned: the newest version is in force (issue 8). */
-export const steeringSettings = pgTable('steering_settings', {
-  version: integer('version').primaryKey(),
-  /** Largest predicted ε_dd/ε_dd,crit a target or sequence may reach. */
-  collapseRatioLimit: doublePrecision('collapse_ratio_limit').notNull(),
-  createdBy: text('created_by').notNull(),
-  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
-  reason: text('reason').notNull(),
 });
 
 /** Sequences of steering steps, versioned by name; a stored version never changes. */
@@ -367,9 +371,9 @@ export const schema = {
   rollups1s,
   auditLog,
   alarmLimits,
+  levelSets,
   alarmEvents,
   interlockTrips,
-  steeringSettings,
   sequences,
   runs,
   shots,

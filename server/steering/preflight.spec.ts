@@ -6,7 +6,7 @@ import { targetVector } from '../../shared/steering/target.js';
 import { plannedPoints } from './planner.js';
 import { drivableRate, preflight, type ApparatusNow, type PreflightLimits } from './preflight.js';
 
-const LIMITS: PreflightLimits = { currentAlarmA: 18, temperatureAlarmC: 55, temperatureTripC: 65, collapseRatioLimit: 0.8 };
+const LIMITS: PreflightLimits = { currentAlarmA: 18, temperatureAlarmC: 55, temperatureTripC: 65, maxFieldG: 20, collapseRatioLimit: 0.8 };
 const NOW: ApparatusNow = { controllerOnline: true, reporting: true, interlockTripped: false, hardwareTripped: false, waterSupplyC: 18, flowLpm: null };
 
 function plan(from: { magnitudeG: number; thetaDeg: number; phiDeg: number }, to: { magnitudeG: number; thetaDeg: number; phiDeg: number }, rampMs: number, ratio = 0.1): PlannedPoint[] {

@@ -19,6 +19,8 @@ export interface PreflightLimits {
   /** Coil temperature alarm and trip levels, °C. */
   temperatureAlarmC: number;
   temperatureTripC: number;
+  /** Largest |B| a plan may reach: the apparatus range or the lead's lower setting, G. */
+  maxFieldG: number;
   /** Largest ε_dd/ε_dd,crit a plan may reach (set by a lead). */
   collapseRatioLimit: number;
 }
@@ -78,13 +80,13 @@ function interlockCheck(now: ApparatusNow): PreflightCheck {
   };
 }
 
-function magnitudeCheck({ points, coils }: PreflightInput): PreflightCheck {
+function magnitudeCheck({ points, coils, limits }: PreflightInput): PreflightCheck {
   const worst = Math.max(0, ...points.map((p) => p.magnitudeG));
-  const ok = worst <= coils.maxFieldG;
+  const ok = worst <= limits.maxFieldG;
+  const range = limits.maxFieldG < coils.maxFieldG ? `the lead's limit of ${limits.maxFieldG} G (the apparatus is rated for ${coils.maxFieldG} G)` : `the apparatus range of ${coils.maxFieldG} G`;
   return {
-    name: 'field-magnitude', ok, value: round(worst, 3), limit: coils.maxFieldG, unit: 'G',
-    message: ok ? `|B| stays at or below ${round(worst, 2)} G, within the apparatus range of ${coils.maxFieldG} G.`
-      : `|B| would reach ${round(worst, 2)} G, beyond the ${coils.maxFieldG} G the apparatus is rated for.`,
+    name: 'field-magnitude', ok, value: round(worst, 3), limit: limits.maxFieldG, unit: 'G',
+    message: ok ? `|B| stays at or below ${round(worst, 2)} G, within ${range}.` : `|B| would reach ${round(worst, 2)} G, beyond ${range}.`,
   };
 }
 

@@ -1,11 +1,13 @@
 /**
  * Assembles steering for the server: the path predictor (own worker, the live engine's
- * ε_dd,crit cache), the setpoint driver, the command desk, the stored limits and the routes.
+ * ε_dd,crit cache), the setpoint driver, the command desk, sequences and runs, and the routes.
+ * The limits come from the alarm limits and the stored level set in force.
  * Steering exists before supervision (the alarms ask it for the target); what it needs from
  * supervision and ingest is handed over with `connect()`. The owner calls `close()`.
  */
 import type { Logger } from 'pino';
 import { DEMO_PARAMETERS } from '../../shared/apparatus/coil-data.js';
+import type { LevelSetVersion } from '../../shared/levels/level-set.js';
 import type { AlarmLimit } from '../alarms/alarm-limit.js';
 import type { Db } from '../db/database.js';
 import type { CalibrationCache } from '../field/calibration-cache.js';
@@ -24,7 +26,6 @@ import { PathPredictor } from './path-predictor.js';
 import type { PreflightLimits } from './preflight.js';
 import { Steering } from './steering.js';
 import { steeringHandlers, type SteeringRoutes } from './steering-routes.js';
-import { currentSteeringSettings, seedSteeringSettings } from './steering-settings.js';
 
 export interface SteeringParts {
   steering: Steering;
@@ -35,7 +36,7 @@ export interface SteeringParts {
   runner: SequenceRunner;
   handlers: Pick<RouteHandlers, SteeringRoutes | SequenceRoutes>;
   /** Hands over the command link (MQTT) and the supervision parts, then starts the setpoint timer. */
-  connect(parts: { link: CommandLink; interlock: Interlock; alarmLimits: () => AlarmLimit[]; temperatureTripC: number }): void;
+  connect(parts: { link: CommandLink; interlock: Interlock; alarmLimits: () => AlarmLimit[]; levels: () => LevelSetVersion }): void;
   close(): Promise<void>;
 }
 
@@ -48,14 +49,13 @@ export async function startSteering(deps: {
   log: Logger;
 }): Promise<SteeringParts> {
   const { db, live, calibrations, prediction, criticalCache, log } = deps;
-  await seedSteeringSettings(db);
   // Like the demo calibration and sample profile: seeded once, on a database without them.
   await seedDemoSequences(db);
   await abortOrphanedRuns(db, new Date());
   let link: CommandLink | null = null;
   let interlock: Interlock | null = null;
   let alarmLimits: () => AlarmLimit[] = () => [];
-  let temperatureTripC = Infinity;
+  let levels: (() => LevelSetVersion) | null = null;
   const interlockTripped = () => interlock?.state().state === 'tripped';
   const steering = new Steering({
     link: { publish: (topic, payload, qos) => link?.publish(topic, payload, qos) },
@@ -64,15 +64,19 @@ export async function startSteering(deps: {
   steering.onTripStop((program) => log.warn({ target: program.target, runId: program.runId }, 'steering stopped by a trip'));
   const predictor = new PathPredictor({ cache: criticalCache });
 
+  /** Alarm levels in force, and the lead's trip levels and operating settings (stored level set). */
   const limits = async (): Promise<PreflightLimits> => {
-    const levels = alarmLimits();
+    if (!levels) throw new Error('steering asked for limits before connect()');
+    const { trips, settings } = levels().levels;
+    const alarms = alarmLimits();
     const lowestH = (prefix: string, fallback: number) =>
-      Math.min(fallback, ...levels.filter((l) => l.channel.startsWith(prefix) && (l.level === 'H' || l.level === 'HH')).map((l) => l.limit));
+      Math.min(fallback, ...alarms.filter((l) => l.channel.startsWith(prefix) && (l.level === 'H' || l.level === 'HH')).map((l) => l.limit));
     return {
-      currentAlarmA: lowestH('current.', DEMO_PARAMETERS.supply.currentLimitA),
-      temperatureAlarmC: lowestH('temperature.', temperatureTripC),
-      temperatureTripC,
-      collapseRatioLimit: (await currentSteeringSettings(db)).collapseRatioLimit,
+      currentAlarmA: lowestH('current.', trips.currentHighA),
+      temperatureAlarmC: lowestH('temperature.', trips.temperatureHighC),
+      temperatureTripC: trips.temperatureHighC,
+      maxFieldG: Math.min(DEMO_PARAMETERS.maxFieldG, settings.maxTargetFieldG),
+      collapseRatioLimit: settings.maxTargetCollapseRatio,
     };
   };
   const desk = new SteerDesk({
@@ -101,12 +105,12 @@ export async function startSteering(deps: {
     predictor,
     context: steering,
     runner,
-    handlers: { ...steeringHandlers({ db, desk, steering }), ...sequenceHandlers({ db, desk, runner }) },
+    handlers: { ...steeringHandlers({ desk, steering }), ...sequenceHandlers({ db, desk, runner }) },
     connect(parts) {
       link = parts.link;
       interlock = parts.interlock;
       alarmLimits = parts.alarmLimits;
-      temperatureTripC = parts.temperatureTripC;
+      levels = parts.levels;
       steering.start();
     },
     async close() {

@@ -28,7 +28,7 @@ function desk(audit: (e: AuditEntry) => Promise<void>, tripped = false) {
     calibration: () => CAL,
     live: () => LIVE,
     profile: () => ({ id: 1, name: 'p', version: 1, active: true, createdBy: 's', createdAt: '', reason: '', profile: { name: 'p', species: '167Er', atomNumber: 5e4, trapHz: [350, 80, 400], tofMs: [20], imaging: 'y' } }),
-    limits: async () => ({ currentAlarmA: 18, temperatureAlarmC: 55, temperatureTripC: 65, collapseRatioLimit: 0.8 }),
+    limits: async () => ({ currentAlarmA: 18, temperatureAlarmC: 55, temperatureTripC: 65, maxFieldG: 20, collapseRatioLimit: 0.8 }),
     interlockTripped: () => tripped,
     audit,
     runActive: () => false,

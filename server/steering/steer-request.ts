@@ -43,7 +43,3 @@ export const SteerRequestBody = z.strictObject({
 
 export const ReasonBody = z.strictObject({ reason });
 
-export const SettingsBody = z.strictObject({
-  collapseRatioLimit: number('Collapse-ratio limit', '', 0.01, 1),
-  reason,
-});

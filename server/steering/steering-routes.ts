@@ -1,28 +1,24 @@
 /**
  * `GET /api/steering` (viewer), `POST /api/steering/preflight` and `/target` (operator),
- * `POST /api/steering/abort` and `/release` (operator), `GET`/`PUT /api/steering/settings`.
+ * `POST /api/steering/abort` and `/release` (operator).
  */
 import type { Response } from 'express';
 import { actorOf } from '../alarms/alarm-routes.js';
-import type { Db } from '../db/database.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { parseInput } from '../http/validate.js';
 import { PreflightRefusal, type SteerDesk } from './steer-desk.js';
-import { ReasonBody, SettingsBody, SteerRequestBody } from './steer-request.js';
+import { ReasonBody, SteerRequestBody } from './steer-request.js';
 import type { Steering } from './steering.js';
-import { currentSteeringSettings, saveSteeringSettings } from './steering-settings.js';
 
 export type SteeringRoutes =
   | 'steering.status'
   | 'steering.preflight'
   | 'steering.target'
   | 'steering.abort'
-  | 'steering.release'
-  | 'steering.settings'
-  | 'steering.settings.update';
+  | 'steering.release';
 
-export function steeringHandlers(deps: { db: Db; desk: SteerDesk; steering: Steering }): Pick<RouteHandlers, SteeringRoutes> {
-  const { db, desk, steering } = deps;
+export function steeringHandlers(deps: { desk: SteerDesk; steering: Steering }): Pick<RouteHandlers, SteeringRoutes> {
+  const { desk, steering } = deps;
   return {
     'steering.status': (_req, res) => {
       res.json(steering.status());
@@ -44,13 +40,6 @@ export function steeringHandlers(deps: { db: Db; desk: SteerDesk; steering: Stee
       const { reason } = parseInput(ReasonBody, req.body, 'body');
       await desk.release(actorOf(req), reason);
       res.json(steering.status());
-    },
-    'steering.settings': async (_req, res) => {
-      res.json(await currentSteeringSettings(db));
-    },
-    'steering.settings.update': async (req, res) => {
-      const body = parseInput(SettingsBody, req.body, 'body');
-      res.json(await saveSteeringSettings(db, { ...body, actor: actorOf(req) }));
     },
   };
 }

@@ -1,0 +1,1 @@
+DROP TABLE "steering_settings" CASCADE;
