@@ -14,7 +14,7 @@ import { AXES, type FastFrame, type ReleaseCommand, type TripCommand } from '../
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import { activeAlarms } from '../alarms/alarm-body.js';
 import type { AlarmBook } from '../alarms/alarm-book.js';
-import { channelValues } from '../alarms/channel-values.js';
+import { channelValues, type ChannelExtras } from '../alarms/channel-values.js';
 import type { SupervisionLog } from '../alarms/supervision-log.js';
 import type { AdmittedMessage } from '../ingest/frame-gate.js';
 import type { LiveStore } from '../live/live-store.js';
@@ -46,6 +46,8 @@ export interface SupervisorDeps {
   notifier: Pick<OnCallNotifier, 'trip' | 'alarmEvents'>;
   sink: AlarmsSink;
   log: Logger;
+  /** Channel inputs from outside the live state (the database outage), read at each evaluation. */
+  extras?: () => ChannelExtras;
   /** Server clock, Unix epoch ms (default `Date.now`). */
   now?: () => number;
   /** The target in force and whether a ramp is programmed (steering); none when absent. */
@@ -115,7 +117,7 @@ export class Supervisor {
     try {
       const state = live.snapshot();
       const steering = this.deps.steering?.alarmContext(nowMs) ?? { targetDirection: null, rampProgrammed: false };
-      const values = channelValues(state, nowMs, { targetDirection: steering.targetDirection });
+      const values = channelValues(state, nowMs, { ...this.deps.extras?.(), targetDirection: steering.targetDirection });
       if (this.peakCurrent && state.currents) {
         for (const axis of AXES) values[`current.${axis}`] = this.peakCurrent[axis];
       }

@@ -7,6 +7,7 @@ import { openDatabase } from '../db/database.js';
 import { auditLog, sampleProfiles } from '../db/schema.js';
 import type { RunningServer } from '../server.js';
 import { makeDataDir, removeDataDir, signIn, startTestServer } from '../testing/test-server.js';
+import { databaseUrlFor } from '../testing/external-services.js';
 
 /** A JSON API client signed in as the demo account of each role. */
 async function clientsFor(server: RunningServer, roles: Role[]) {
@@ -162,7 +163,7 @@ describe('sample profiles in the database', () => {
       await server.close();
     }
 
-    const database = await openDatabase({ dataDir: dir, databaseUrl: null });
+    const database = await openDatabase({ dataDir: dir, databaseUrl: databaseUrlFor(dir) });
     try {
       const { db } = database;
       const rows = await db.select().from(auditLog).where(like(auditLog.action, 'profile.%')).orderBy(asc(auditLog.id));
