@@ -16,7 +16,7 @@ import { lockDataFolder } from './data-folder/data-folder-lock.js';
 import { openDatabase } from './db/database.js';
 import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
 import { CalibrationCache } from './field/calibration-cache.js';
-import { healthHandlers, type HealthReport } from './health/health-route.js';
+import { healthHandlers, healthProblems, type HealthReport } from './health/health-route.js';
 import { createApp } from './http/app.js';
 import { FrameGate, type AdmittedMessage } from './ingest/frame-gate.js';
 import { startSupervision } from './interlock/start-supervision.js';
@@ -157,16 +157,26 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
 
     const report = (): HealthReport => {
       const fanoutCounters = fanout.counters();
+      const frames = { ...gate.counters(), deliveryErrors: ingest.deliveryErrors() };
+      const storage = writer.counters();
+      const problems = healthProblems({
+        nowMs: Date.now(),
+        frames,
+        lastRejectedAtMs: gate.lastRejectedAtMs(),
+        lastDeliveryErrorAtMs: ingest.lastDeliveryErrorAtMs(),
+        storage,
+      });
       return {
-        status: 'ok',
+        status: problems.length === 0 ? 'ok' : 'degraded',
+        problems,
         uptimeS: Math.round((performance.now() - startedAt) / 1000),
-        frames: gate.counters(),
+        frames,
         clients: fanoutCounters.clients,
         broker: broker?.counters() ?? null,
         db: database.kind,
         mqttConnected: ingest.connected(),
         fanout: fanoutCounters,
-        storage: writer.counters(),
+        storage,
       };
     };
     const app = createApp({

@@ -48,7 +48,7 @@ describe('ingest over MQTT', () => {
 
   it('refuses and counts each kind of malformed frame, and stores none of them', async () => {
     const before = server.counters().frames;
-    const bad = { x: 99, y: 99, z: 99 };
+    const bad = { x: 9, y: 9, z: 9 };
     const now = Date.now();
     await publishAll([good()]);
     await publishAll([
@@ -60,6 +60,7 @@ describe('ingest over MQTT', () => {
       JSON.stringify(fastFrame(seq, now, bad)),
       JSON.stringify(fastFrame(seq - 1, now, bad)),
       JSON.stringify(fastFrame(seq + 1, now + 2 * 3600_000, bad)),
+      JSON.stringify(fastFrame(seq + 1, now, { x: 99, y: 9, z: 9 })),
     ]);
     await publishAll([good()]);
 
@@ -74,7 +75,11 @@ describe('ingest over MQTT', () => {
       'length-mismatch': delta('length-mismatch'),
       'out-of-order': delta('out-of-order'),
       'clock-skew': delta('clock-skew'),
-    }).toEqual({ oversized: 1, 'malformed-json': 1, 'non-finite': 1, schema: 1, 'length-mismatch': 1, 'out-of-order': 2, 'clock-skew': 1 });
+      'out-of-range': delta('out-of-range'),
+    }).toEqual({ oversized: 1, 'malformed-json': 1, 'non-finite': 1, schema: 1, 'length-mismatch': 1, 'out-of-order': 2, 'clock-skew': 1, 'out-of-range': 1 });
+    const health = (await (await fetch(`${server.url}/api/health`)).json()) as { status: string; problems: string[] };
+    expect(health.status).toBe('degraded');
+    expect(health.problems[0]).toMatch(/refused at the edge/);
 
     const { series } = await get<{ series: SeriesChunk }>('/api/series?seconds=120');
     expect(series.t.length).toBeGreaterThan(0);

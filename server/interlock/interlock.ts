@@ -71,10 +71,14 @@ export class Interlock {
   private inputs: InterlockInputs | null = null;
   private trip: TripRecord | null = null;
   private lastReset: ResetRecord | null = null;
+  /** Which conditions held at the last evaluation, one flag per condition. */
+  private readonly holding: boolean[];
+  private changes = 0;
 
   constructor(readonly config: InterlockConfig = DEMO_INTERLOCK_CONFIG) {
     this.defs = tripConditions(config);
     this.values = this.defs.map(() => null);
+    this.holding = this.defs.map(() => false);
     this.frameLoss = new FrameLossWindow(config.lostFrameWindowMs);
   }
 
@@ -96,7 +100,12 @@ export class Interlock {
     for (let i = 0; i < this.defs.length; i++) {
       const value = this.defs[i].measure(inputs, nowMs, lost);
       this.values[i] = value;
-      if (first < 0 && violates(this.defs[i], value)) first = i;
+      const holds = violates(this.defs[i], value);
+      if (holds !== this.holding[i]) {
+        this.holding[i] = holds;
+        this.changes++;
+      }
+      if (first < 0 && holds) first = i;
     }
     if (this.trip || first < 0) return null;
     const valuesAtTrip = this.conditions();
@@ -107,6 +116,7 @@ export class Interlock {
       valuesAtTrip,
       reason: `Software interlock tripped by ${cause.name}: ${describeCondition(cause)}`.slice(0, MAX_TRIP_REASON_CHARS),
     };
+    this.changes++;
     return this.trip;
   }
 
@@ -118,6 +128,15 @@ export class Interlock {
   restore(trip: TripRecord): void {
     if (this.trip) throw new Error(`the interlock is already tripped (since ${new Date(this.trip.at).toISOString()})`);
     this.trip = trip;
+    this.changes++;
+  }
+
+  /**
+   * A number that changes whenever the latch or the set of holding conditions changes (not on
+   * mere value changes), so a caller can tell in constant time whether there is news to announce.
+   */
+  revision(): number {
+    return this.changes;
   }
 
   /** Every condition as of the last evaluation. */
@@ -163,6 +182,7 @@ export class Interlock {
     const record: ResetRecord = { at: nowMs, actor, reason: why, trip: this.trip };
     this.trip = null;
     this.lastReset = record;
+    this.changes++;
     return { ok: true, reset: record };
   }
 }

@@ -1,8 +1,10 @@
 import type { FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
 import type { Db } from '../db/database.js';
 import { fastBatches, rollups1s, slowSamples } from '../db/schema.js';
-import type { RollupAccumulator } from './rollup-accumulator.js';
+import { sql } from 'drizzle-orm';
+import type { RollupAccumulator, RollupRow } from './rollup-accumulator.js';
 import { encodeSamples } from './sample-codec.js';
+import { WriteQueue, type WriteQueueState, type WriteUnit } from './write-queue.js';
 
 /** A contiguous run of fast frames that becomes one `fast_batches` row. */
 interface OpenBatch {
@@ -15,44 +17,54 @@ interface OpenBatch {
   setpoint: { x: number; y: number; z: number };
 }
 
-export interface WriterCounters {
+/**
+ * The writer's state on `/api/health` under `storage`. The first seven names are read by tools
+ * outside the repository: keep them.
+ */
+export interface WriterCounters extends WriteQueueState {
   /** `fast_batches` rows written. */
   batchesWritten: number;
   framesWritten: number;
   slowWritten: number;
   rollupsWritten: number;
-  /** Frames dropped because the database fell too far behind (bounded memory). */
-  framesDropped: number;
-  flushErrors: number;
-  /** Samples per channel waiting for the next flush. */
-  pendingSamples: number;
 }
 
 export interface WriterOptions {
   /** Time between flushes, ms. */
   flushIntervalMs?: number;
-  /** Pending samples per channel beyond which new frames are dropped. */
+  /** Pending samples per channel beyond which new frames are refused (counted in `framesDropped`). */
   maxPendingSamples?: number;
+  /** First pause after a failed write, ms; doubles up to `retryMaxMs`. */
+  retryMinMs?: number;
+  retryMaxMs?: number;
   onError?: (error: Error) => void;
+  /** Called when the database stops taking writes (with the error) and when it takes them again (null). */
+  onOutageChange?: (outage: boolean, error: Error | null) => void;
+}
+
+/** What one flush hands to the queue: the frames, slow frames and roll-up seconds gathered meanwhile. */
+interface Unit extends WriteUnit {
+  batches: OpenBatch[];
+  slow: SlowFrame[];
+  rollups: RollupRow[];
 }
 
 /**
  * Batched telemetry storage. The pipeline hands frames over synchronously and never waits:
- * frames collect in memory and every `flushIntervalMs` one transaction writes them with one
- * multi-row INSERT per table, together with the roll-up seconds completed meanwhile. Contiguous fast frames (consecutive `seq`, same rate and
- * calibration) are merged into one row. If the database falls behind, memory stays bounded
- * by dropping new frames, which are counted.
+ * frames collect in memory and every `flushIntervalMs` they go to a bounded write queue
+ * (`WriteQueue`) that writes them in one transaction with one multi-row INSERT per table,
+ * together with the roll-up seconds completed meanwhile, and keeps them for a retry when the
+ * write fails. Contiguous fast frames (consecutive `seq`, same rate and calibration) are
+ * merged into one row. Memory stays bounded by refusing new frames, which are counted.
  */
 export class TelemetryWriter {
   private batches: OpenBatch[] = [];
   private slow: SlowFrame[] = [];
-  private pendingSamples = 0;
+  private openSamples = 0;
   private readonly timer: NodeJS.Timeout;
-  private flushing: Promise<void> = Promise.resolve();
   private closed = false;
-  private readonly counts = { batchesWritten: 0, framesWritten: 0, slowWritten: 0, rollupsWritten: 0, framesDropped: 0, flushErrors: 0 };
-  private readonly maxPendingSamples: number;
-  private readonly onError: (error: Error) => void;
+  private readonly written = { batchesWritten: 0, framesWritten: 0, slowWritten: 0, rollupsWritten: 0 };
+  private readonly queue: WriteQueue<Unit>;
 
   /** @param rollups completed seconds are taken from here at every flush, all of them at close */
   constructor(
@@ -60,19 +72,28 @@ export class TelemetryWriter {
     private readonly rollups: RollupAccumulator,
     opts: WriterOptions = {},
   ) {
-    this.maxPendingSamples = opts.maxPendingSamples ?? 600_000;
-    this.onError = opts.onError ?? (() => {});
+    this.queue = new WriteQueue<Unit>({
+      write: (units) => this.write(units),
+      probe: async () => {
+        await this.db.execute(sql`select 1`);
+      },
+      maxPendingSamples: opts.maxPendingSamples ?? 600_000,
+      retryMinMs: opts.retryMinMs,
+      retryMaxMs: opts.retryMaxMs,
+      onError: opts.onError,
+      onOutageChange: opts.onOutageChange,
+    });
     this.timer = setInterval(() => void this.flush(), opts.flushIntervalMs ?? 500);
   }
 
   /** Queues a validated fast frame, stored with the id of the calibration in force. */
   addFast(frame: FastFrame, calibrationId: number): void {
     const n = frame.currentA.x.length;
-    if (this.closed || this.pendingSamples + n > this.maxPendingSamples) {
-      this.counts.framesDropped++;
+    if (this.closed || !this.queue.hasRoom(this.openSamples + n)) {
+      this.queue.drop(1);
       return;
     }
-    this.pendingSamples += n;
+    this.openSamples += n;
     const last = this.batches.at(-1);
     const expectedT0 = last ? last.t0Ms + (last.channels.cx.length * 1000) / last.rateHz : 0;
     if (
@@ -117,46 +138,52 @@ export class TelemetryWriter {
   }
 
   counters(): WriterCounters {
-    return { ...this.counts, pendingSamples: this.pendingSamples };
+    const queued = this.queue.state();
+    return { ...this.written, ...queued, pendingSamples: queued.pendingSamples + this.openSamples };
   }
 
-  /** Writes everything queued so far; resolves when it is committed (or has failed and been counted). */
+  /**
+   * Hands everything gathered so far to the queue and writes what is queued; resolves when the
+   * attempt is over (committed, or failed and counted, the data kept for a retry). While a
+   * retry pause runs, the data waits for the pause to end.
+   */
   flush(): Promise<void> {
-    this.flushing = this.flushing.then(() => this.writePending());
-    return this.flushing;
+    this.enqueue();
+    return this.queue.flush();
   }
 
-  /** Stops the timer and writes what is still queued, including the open roll-up seconds. */
+  /** Stops the timer and makes a last attempt, including the open roll-up seconds; what still fails is counted as dropped. */
   async close(): Promise<void> {
     clearInterval(this.timer);
     this.closed = true;
-    await this.flush();
+    this.enqueue();
+    await this.queue.close();
   }
 
-  private async writePending(): Promise<void> {
-    const batches = this.batches;
-    const slow = this.slow;
+  private enqueue(): void {
     const rollups = this.rollups.drain(this.closed);
-    if (batches.length === 0 && slow.length === 0 && rollups.length === 0) return;
+    if (this.batches.length === 0 && this.slow.length === 0 && rollups.length === 0) return;
+    const batches = this.batches;
+    const frames = batches.reduce((sum, b) => sum + b.seqLast - b.seqFirst + 1, 0);
+    this.queue.offer({ batches, slow: this.slow, rollups, frames, samples: this.openSamples });
     this.batches = [];
     this.slow = [];
-    this.pendingSamples = 0;
-    const frames = batches.reduce((sum, b) => sum + b.seqLast - b.seqFirst + 1, 0);
-    try {
-      await this.db.transaction(async (tx) => {
-        for (const rows of chunks(batches.map(toBatchRow))) await tx.insert(fastBatches).values(rows);
-        for (const rows of chunks(slow.map(toSlowRow))) await tx.insert(slowSamples).values(rows);
-        for (const rows of chunks(rollups)) await tx.insert(rollups1s).values(rows).onConflictDoNothing();
-      });
-      this.counts.batchesWritten += batches.length;
-      this.counts.framesWritten += frames;
-      this.counts.slowWritten += slow.length;
-      this.counts.rollupsWritten += rollups.length;
-    } catch (error) {
-      this.counts.flushErrors++;
-      this.counts.framesDropped += frames;
-      this.onError(error as Error);
-    }
+    this.openSamples = 0;
+  }
+
+  private async write(units: readonly Unit[]): Promise<void> {
+    const batches = units.flatMap((u) => u.batches);
+    const slow = units.flatMap((u) => u.slow);
+    const rollups = units.flatMap((u) => u.rollups);
+    await this.db.transaction(async (tx) => {
+      for (const rows of chunks(batches.map(toBatchRow))) await tx.insert(fastBatches).values(rows);
+      for (const rows of chunks(slow.map(toSlowRow))) await tx.insert(slowSamples).values(rows);
+      for (const rows of chunks(rollups)) await tx.insert(rollups1s).values(rows).onConflictDoNothing();
+    });
+    this.written.batchesWritten += batches.length;
+    this.written.framesWritten += units.reduce((sum, u) => sum + u.frames, 0);
+    this.written.slowWritten += slow.length;
+    this.written.rollupsWritten += rollups.length;
   }
 }
 
