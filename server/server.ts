@@ -34,7 +34,6 @@ import { seedDemoProfile } from './profiles/profile-repository.js';
 import { profileHandlers } from './profiles/profile-routes.js';
 import { projectRoot } from './project-root.js';
 import { seriesHandlers } from './series/series-routes.js';
-import { RetentionTask } from './storage/retention.js';
 import { RollupAccumulator } from './storage/rollup-accumulator.js';
 import { TelemetryWriter } from './storage/telemetry-writer.js';
 
@@ -105,11 +104,15 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const calibrations = new CalibrationCache(db);
     await calibrations.reload();
 
-    const retention = new RetentionTask(db, config.retention, (error) => log.error({ err: error }, 'pruning old telemetry failed'));
-    closers.push(() => retention.close());
     const rollups = new RollupAccumulator();
-    const writer = new TelemetryWriter(db, rollups, { onError: (error) => log.error({ err: error }, 'storing telemetry failed') });
+    // Telemetry lives in the storage worker thread (its own database connection, retention included).
+    const writer = new TelemetryWriter(config, rollups, {
+      onError: (error) => log.error({ err: error }, 'storing telemetry failed'),
+      onOutageChange: (outage, error) =>
+        outage ? log.error({ err: error }, 'the database does not take telemetry writes; queuing them') : log.info('the database takes telemetry writes again'),
+    });
     closers.push(() => writer.close());
+    await writer.ready();
 
     let broker: RunningBroker | null = null;
     let brokerCredentials: BrokerCredentials | null = null;
@@ -184,7 +187,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...healthHandlers(report),
         ...authHandlers(new LoginUseCase(db, tokens), config.loginAttemptsPerMinute),
         ...liveHandlers(live),
-        ...seriesHandlers(db, calibrations, writer),
+        ...seriesHandlers(calibrations, writer),
         ...calibrationHandlers(db),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),

@@ -28,13 +28,14 @@ export function migrationsFolder(): string {
 /**
  * Opens the database and applies every pending migration from drizzle/.
  *
- * Without `databaseUrl` this is PGlite in `${dataDir}/pglite`. Durability: PGlite writes each
+ * Without `databaseUrl` this is PGlite in `${dataDir}/pglite` (or `pgliteFolder`: the storage
+ * worker keeps telemetry in `${dataDir}/telemetry`, its own cluster). Durability: PGlite writes each
  * committed transaction to the operating system before the commit returns, so a killed
  * server process loses nothing committed; PGlite's file layer does not fsync, so a power cut
  * or kernel crash may lose the last commits. Use a PostgreSQL server (`DATABASE_URL`) where
  * that matters.
  */
-export async function openDatabase(opts: { dataDir: string; databaseUrl: string | null }): Promise<OpenDatabase> {
+export async function openDatabase(opts: { dataDir: string; databaseUrl: string | null; pgliteFolder?: string }): Promise<OpenDatabase> {
   if (opts.databaseUrl !== null) {
     const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 5 });
     try {
@@ -46,7 +47,7 @@ export async function openDatabase(opts: { dataDir: string; databaseUrl: string 
       throw new Error(`Cannot open the PostgreSQL database at DATABASE_URL: ${(error as Error).message}`);
     }
   }
-  const client = await PGlite.create(path.join(opts.dataDir, 'pglite'));
+  const client = await PGlite.create(path.join(opts.dataDir, opts.pgliteFolder ?? 'pglite'));
   try {
     const db = drizzlePglite({ client, schema });
     await migratePglite(db, { migrationsFolder: migrationsFolder() });

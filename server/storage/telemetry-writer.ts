@@ -1,10 +1,9 @@
+import type { SlowChunk } from '../../shared/live/live-state.js';
 import type { FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
-import type { Db } from '../db/database.js';
-import { fastBatches, rollups1s, slowSamples } from '../db/schema.js';
-import { sql } from 'drizzle-orm';
-import type { RollupAccumulator, RollupRow } from './rollup-accumulator.js';
-import { encodeSamples } from './sample-codec.js';
-import { WriteQueue, type WriteQueueState, type WriteUnit } from './write-queue.js';
+import type { ServerConfig } from '../config.js';
+import type { RollupAccumulator } from './rollup-accumulator.js';
+import type { AppendInput, BatchInput, RawCurrents, RollupBlock, StoreState, TelemetryReader } from './storage-protocol.js';
+import { StorageWorker } from './storage-worker-thread.js';
 
 /** A contiguous run of fast frames that becomes one `fast_batches` row. */
 interface OpenBatch {
@@ -13,24 +12,21 @@ interface OpenBatch {
   seqFirst: number;
   seqLast: number;
   calibrationId: number;
-  channels: { cx: number[]; cy: number[]; cz: number[]; vx: number[]; vy: number[]; vz: number[] };
+  channels: [number[], number[], number[], number[], number[], number[]];
   setpoint: { x: number; y: number; z: number };
 }
 
 /**
- * The writer's state on `/api/health` under `storage`. The first seven names are read by tools
- * outside the repository: keep them.
+ * The writer's state on `/api/health` under `storage`. `framesDropped`, `flushErrors` and
+ * `pendingSamples` are read by tools outside the repository: keep the names.
  */
-export interface WriterCounters extends WriteQueueState {
-  /** `fast_batches` rows written. */
-  batchesWritten: number;
-  framesWritten: number;
-  slowWritten: number;
-  rollupsWritten: number;
+export interface WriterCounters extends StoreState {
+  /** Longest single piece of storage work done on the event loop (gathering, handing over), ms. */
+  eventLoopMaxMs: number;
 }
 
 export interface WriterOptions {
-  /** Time between flushes, ms. */
+  /** Time between hand-overs to the storage worker, ms. */
   flushIntervalMs?: number;
   /** Pending samples per channel beyond which new frames are refused (counted in `framesDropped`). */
   maxPendingSamples?: number;
@@ -42,60 +38,92 @@ export interface WriterOptions {
   onOutageChange?: (outage: boolean, error: Error | null) => void;
 }
 
-/** What one flush hands to the queue: the frames, slow frames and roll-up seconds gathered meanwhile. */
-interface Unit extends WriteUnit {
-  batches: OpenBatch[];
-  slow: SlowFrame[];
-  rollups: RollupRow[];
-}
+/** Where the telemetry goes: the data folder (PGlite cluster `telemetry/`) or the PostgreSQL server, and how long it is kept. */
+export type StorageSettings = Pick<ServerConfig, 'dataDir' | 'databaseUrl' | 'retention'>;
+
+const EMPTY_STATE: StoreState = {
+  batchesWritten: 0,
+  framesWritten: 0,
+  slowWritten: 0,
+  rollupsWritten: 0,
+  framesDropped: 0,
+  flushErrors: 0,
+  pendingSamples: 0,
+  pendingFrames: 0,
+  outage: false,
+  failingSince: null,
+  lastError: null,
+};
 
 /**
- * Batched telemetry storage. The pipeline hands frames over synchronously and never waits:
- * frames collect in memory and every `flushIntervalMs` they go to a bounded write queue
- * (`WriteQueue`) that writes them in one transaction with one multi-row INSERT per table,
- * together with the roll-up seconds completed meanwhile, and keeps them for a retry when the
- * write fails. Contiguous fast frames (consecutive `seq`, same rate and calibration) are
- * merged into one row. Memory stays bounded by refusing new frames, which are counted.
+ * Telemetry storage as the event loop sees it. The pipeline hands frames over synchronously
+ * and never waits: contiguous fast frames (consecutive `seq`, same rate and calibration) are
+ * gathered into runs, and every `flushIntervalMs` the runs, the slow frames and the completed
+ * roll-up seconds go to the storage worker thread as transferred arrays. The worker
+ * (storage-worker.ts) encodes, compresses and writes them, keeps them in a bounded queue
+ * through a database outage, and answers the history reads (`TelemetryReader`). Memory stays
+ * bounded by refusing new frames, which are counted.
  */
-export class TelemetryWriter {
+export class TelemetryWriter implements TelemetryReader {
   private batches: OpenBatch[] = [];
   private slow: SlowFrame[] = [];
   private openSamples = 0;
+  private openFrames = 0;
+  /** Handed to the worker, not yet confirmed by its state. */
+  private readonly inTransit = { samples: 0, frames: 0 };
+  private refused = 0;
+  private worker: StoreState = EMPTY_STATE;
+  private eventLoopMaxMs = 0;
   private readonly timer: NodeJS.Timeout;
   private closed = false;
-  private readonly written = { batchesWritten: 0, framesWritten: 0, slowWritten: 0, rollupsWritten: 0 };
-  private readonly queue: WriteQueue<Unit>;
+  private readonly maxPendingSamples: number;
+  private readonly thread: StorageWorker;
 
-  /** @param rollups completed seconds are taken from here at every flush, all of them at close */
+  /** @param rollups completed seconds are taken from here at every hand-over, all of them at close */
   constructor(
-    private readonly db: Db,
+    settings: StorageSettings,
     private readonly rollups: RollupAccumulator,
     opts: WriterOptions = {},
   ) {
-    this.queue = new WriteQueue<Unit>({
-      write: (units) => this.write(units),
-      probe: async () => {
-        await this.db.execute(sql`select 1`);
+    this.maxPendingSamples = opts.maxPendingSamples ?? 600_000;
+    this.thread = new StorageWorker(
+      {
+        dataDir: settings.dataDir,
+        databaseUrl: settings.databaseUrl,
+        retention: settings.retention,
+        maxPendingSamples: this.maxPendingSamples,
+        retryMinMs: opts.retryMinMs,
+        retryMaxMs: opts.retryMaxMs,
       },
-      maxPendingSamples: opts.maxPendingSamples ?? 600_000,
-      retryMinMs: opts.retryMinMs,
-      retryMaxMs: opts.retryMaxMs,
-      onError: opts.onError,
-      onOutageChange: opts.onOutageChange,
-    });
-    this.timer = setInterval(() => void this.flush(), opts.flushIntervalMs ?? 500);
+      {
+        onState: (state) => (this.worker = state),
+        onLog: (level, message, error) => {
+          if (level === 'error') opts.onError?.(new Error(error ? `${message}: ${error}` : message));
+        },
+        onOutage: (outage, error) => opts.onOutageChange?.(outage, error === null ? null : new Error(error)),
+      },
+    );
+    this.timer = setInterval(() => void this.flush().catch(() => undefined), opts.flushIntervalMs ?? 500);
   }
 
-  /** Queues a validated fast frame, stored with the id of the calibration in force. */
+  /** Resolves once the storage worker has opened the telemetry database. */
+  ready(): Promise<void> {
+    return this.thread.ready;
+  }
+
+  /** Gathers a validated fast frame, stored with the id of the calibration in force. */
   addFast(frame: FastFrame, calibrationId: number): void {
+    const started = performance.now();
     const n = frame.currentA.x.length;
-    if (this.closed || !this.queue.hasRoom(this.openSamples + n)) {
-      this.queue.drop(1);
+    if (this.closed || this.pending() + n > this.maxPendingSamples) {
+      this.refused++;
       return;
     }
     this.openSamples += n;
+    this.openFrames++;
     const last = this.batches.at(-1);
-    const expectedT0 = last ? last.t0Ms + (last.channels.cx.length * 1000) / last.rateHz : 0;
+    const expectedT0 = last ? last.t0Ms + (last.channels[0].length * 1000) / last.rateHz : 0;
+    const sources = [frame.currentA.x, frame.currentA.y, frame.currentA.z, frame.voltageV.x, frame.voltageV.y, frame.voltageV.z];
     if (
       last &&
       frame.seq === last.seqLast + 1 &&
@@ -103,33 +131,21 @@ export class TelemetryWriter {
       calibrationId === last.calibrationId &&
       Math.abs(frame.t0Ms - expectedT0) < 1000 / frame.rateHz
     ) {
-      const c = last.channels;
-      c.cx.push(...frame.currentA.x);
-      c.cy.push(...frame.currentA.y);
-      c.cz.push(...frame.currentA.z);
-      c.vx.push(...frame.voltageV.x);
-      c.vy.push(...frame.voltageV.y);
-      c.vz.push(...frame.voltageV.z);
+      for (let c = 0; c < 6; c++) last.channels[c].push(...sources[c]);
       last.seqLast = frame.seq;
       last.setpoint = { ...frame.setpointA };
-      return;
+    } else {
+      this.batches.push({
+        t0Ms: frame.t0Ms,
+        rateHz: frame.rateHz,
+        seqFirst: frame.seq,
+        seqLast: frame.seq,
+        calibrationId,
+        channels: [[...sources[0]], [...sources[1]], [...sources[2]], [...sources[3]], [...sources[4]], [...sources[5]]],
+        setpoint: { ...frame.setpointA },
+      });
     }
-    this.batches.push({
-      t0Ms: frame.t0Ms,
-      rateHz: frame.rateHz,
-      seqFirst: frame.seq,
-      seqLast: frame.seq,
-      calibrationId,
-      channels: {
-        cx: [...frame.currentA.x],
-        cy: [...frame.currentA.y],
-        cz: [...frame.currentA.z],
-        vx: [...frame.voltageV.x],
-        vy: [...frame.voltageV.y],
-        vz: [...frame.voltageV.z],
-      },
-      setpoint: { ...frame.setpointA },
-    });
+    this.timed(started);
   }
 
   addSlow(frame: SlowFrame): void {
@@ -138,97 +154,85 @@ export class TelemetryWriter {
   }
 
   counters(): WriterCounters {
-    const queued = this.queue.state();
-    return { ...this.written, ...queued, pendingSamples: queued.pendingSamples + this.openSamples };
+    return {
+      ...this.worker,
+      framesDropped: this.worker.framesDropped + this.refused,
+      pendingSamples: this.pending(),
+      pendingFrames: this.worker.pendingFrames + this.inTransit.frames + this.openFrames,
+      eventLoopMaxMs: this.eventLoopMaxMs,
+    };
   }
 
   /**
-   * Hands everything gathered so far to the queue and writes what is queued; resolves when the
-   * attempt is over (committed, or failed and counted, the data kept for a retry). While a
-   * retry pause runs, the data waits for the pause to end.
+   * Hands everything gathered so far to the worker and lets it write what is queued; resolves
+   * when the attempt is over (committed, or failed and counted, the data kept for a retry).
    */
-  flush(): Promise<void> {
-    this.enqueue();
-    return this.queue.flush();
+  async flush(): Promise<void> {
+    const handedOver = this.handOver();
+    await this.thread.request({ kind: 'flush' });
+    await handedOver;
   }
 
   /** Stops the timer and makes a last attempt, including the open roll-up seconds; what still fails is counted as dropped. */
   async close(): Promise<void> {
     clearInterval(this.timer);
     this.closed = true;
-    this.enqueue();
-    await this.queue.close();
+    await this.handOver();
+    await this.thread.request({ kind: 'close' });
+    await this.thread.terminate();
   }
 
-  private enqueue(): void {
+  rawCurrents(fromMs: number, toMs: number, blockMs: number): Promise<RawCurrents> {
+    return this.thread.request({ kind: 'raw', fromMs, toMs, blockMs });
+  }
+
+  slowRows(fromMs: number, toMs: number): Promise<SlowChunk> {
+    return this.thread.request({ kind: 'slow', fromMs, toMs });
+  }
+
+  rollupBlocks(fromMs: number, toMs: number, blockMs: number): Promise<RollupBlock[]> {
+    return this.thread.request({ kind: 'rollups', fromMs, toMs, blockMs });
+  }
+
+  private pending(): number {
+    return this.worker.pendingSamples + this.inTransit.samples + this.openSamples;
+  }
+
+  /** Sends what was gathered to the worker (transferring the sample arrays); resolves once the worker has taken it. */
+  private async handOver(): Promise<void> {
+    const started = performance.now();
     const rollups = this.rollups.drain(this.closed);
     if (this.batches.length === 0 && this.slow.length === 0 && rollups.length === 0) return;
-    const batches = this.batches;
-    const frames = batches.reduce((sum, b) => sum + b.seqLast - b.seqFirst + 1, 0);
-    this.queue.offer({ batches, slow: this.slow, rollups, frames, samples: this.openSamples });
+    const batches = this.batches.map(toBatchInput);
+    const input: AppendInput = { batches, slow: this.slow, rollups, frames: this.openFrames, samples: this.openSamples };
     this.batches = [];
     this.slow = [];
     this.openSamples = 0;
+    this.openFrames = 0;
+    this.inTransit.samples += input.samples;
+    this.inTransit.frames += input.frames;
+    const sent = this.thread.request(
+      { kind: 'append', input },
+      batches.map((b) => b.samples.buffer as ArrayBuffer),
+    );
+    this.timed(started);
+    try {
+      await sent;
+    } finally {
+      this.inTransit.samples -= input.samples;
+      this.inTransit.frames -= input.frames;
+    }
   }
 
-  private async write(units: readonly Unit[]): Promise<void> {
-    const batches = units.flatMap((u) => u.batches);
-    const slow = units.flatMap((u) => u.slow);
-    const rollups = units.flatMap((u) => u.rollups);
-    await this.db.transaction(async (tx) => {
-      for (const rows of chunks(batches.map(toBatchRow))) await tx.insert(fastBatches).values(rows);
-      for (const rows of chunks(slow.map(toSlowRow))) await tx.insert(slowSamples).values(rows);
-      for (const rows of chunks(rollups)) await tx.insert(rollups1s).values(rows).onConflictDoNothing();
-    });
-    this.written.batchesWritten += batches.length;
-    this.written.framesWritten += units.reduce((sum, u) => sum + u.frames, 0);
-    this.written.slowWritten += slow.length;
-    this.written.rollupsWritten += rollups.length;
+  private timed(started: number): void {
+    const ms = performance.now() - started;
+    if (ms > this.eventLoopMaxMs) this.eventLoopMaxMs = ms;
   }
 }
 
-/** Rows per INSERT: well under PostgreSQL's 65,535 bind parameters at 32 columns. */
-const ROWS_PER_INSERT = 1000;
-
-function* chunks<T>(rows: T[]): Generator<T[]> {
-  for (let i = 0; i < rows.length; i += ROWS_PER_INSERT) yield rows.slice(i, i + ROWS_PER_INSERT);
-}
-
-function toBatchRow(b: OpenBatch): typeof fastBatches.$inferInsert {
-  const n = b.channels.cx.length;
-  return {
-    t0Ms: Math.floor(b.t0Ms), // stored to the millisecond; the column is an integer
-    t1Ms: Math.ceil(b.t0Ms + (n * 1000) / b.rateHz),
-    seqFirst: b.seqFirst,
-    seqLast: b.seqLast,
-    rateHz: b.rateHz,
-    sampleCount: n,
-    calibrationId: b.calibrationId,
-    currentX: encodeSamples(b.channels.cx),
-    currentY: encodeSamples(b.channels.cy),
-    currentZ: encodeSamples(b.channels.cz),
-    voltageX: encodeSamples(b.channels.vx),
-    voltageY: encodeSamples(b.channels.vy),
-    voltageZ: encodeSamples(b.channels.vz),
-    setpointX: b.setpoint.x,
-    setpointY: b.setpoint.y,
-    setpointZ: b.setpoint.z,
-  };
-}
-
-function toSlowRow(f: SlowFrame): typeof slowSamples.$inferInsert {
-  return {
-    tMs: f.tMs,
-    seq: f.seq,
-    coilTempX: f.coilTempC.x,
-    coilTempY: f.coilTempC.y,
-    coilTempZ: f.coilTempC.z,
-    flowX: f.flowLpm.x,
-    flowY: f.flowLpm.y,
-    flowZ: f.flowLpm.z,
-    waterSupplyC: f.waterSupplyC,
-    waterReturnX: f.waterReturnC.x,
-    waterReturnY: f.waterReturnC.y,
-    waterReturnZ: f.waterReturnC.z,
-  };
+function toBatchInput(b: OpenBatch): BatchInput {
+  const n = b.channels[0].length;
+  const samples = new Float64Array(6 * n);
+  for (let c = 0; c < 6; c++) samples.set(b.channels[c], c * n);
+  return { t0Ms: b.t0Ms, rateHz: b.rateHz, seqFirst: b.seqFirst, seqLast: b.seqLast, calibrationId: b.calibrationId, setpoint: b.setpoint, n, samples };
 }

@@ -9,6 +9,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { loadConfig } from '../../server/config.js';
 import { startServer, type RunningServer } from '../../server/server.js';
+import { seedPglite } from '../../server/testing/pglite-template.js';
 import { startSimulator, type RunningSimulator, type SimulatorOptions } from '../../simulator/index.js';
 
 export interface Stack {
@@ -29,6 +30,7 @@ export interface StackOptions {
 
 export async function startStack(options: StackOptions = {}): Promise<Stack> {
   const dataDir = await mkdtemp(join(tmpdir(), 'tiltwatch-test-'));
+  if (!options.env?.DATABASE_URL) await seedPglite(dataDir);
   const config = loadConfig({
     PORT: '0',
     MQTT_PORT: '0',
