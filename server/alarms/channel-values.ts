@@ -37,7 +37,7 @@ export function channelValues(live: LiveState, nowMs: number, extras: ChannelExt
     const target = extras.targetDirection;
     if (target) setIfFinite(out, 'fieldAngleDeviation', angleBetweenDeg(live.field.vector, target));
   }
-  setIfFinite(out, 'collapseMargin', live.prediction?.collapseMargin);
+  setIfFinite(out, 'collapseRatio', live.prediction?.collapseRatio);
   const lastFrameMs = live.controller.lastFrameAt === null ? NaN : Date.parse(live.controller.lastFrameAt);
   if (Number.isFinite(lastFrameMs)) out.stale = Math.max(0, nowMs - lastFrameMs);
   return out;

@@ -195,7 +195,7 @@ const inputs: LimitInput[] = [
     },
   },
   {
-    channel: 'collapseMargin',
+    channel: 'collapseRatio',
     level: 'H',
     limit: 0.9,
     deadband: 0.02,

@@ -48,6 +48,10 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   'alarm-limits.update': { path: '/api/alarm-limits/waterReturn.x.H', body: { limit: 35, reason: 'route access check' } },
   'interlock.status': {},
   'interlock.reset': { body: { reason: 'route access check' }, allowedStatus: 409 },
+  'logbook.write': { body: { text: 'route access check', tags: ['access'] } },
+  'logbook.list': { query: '?tag=access' },
+  // No attachment exists on a fresh database: the role check passes, then 404.
+  'logbook.attachment': { path: '/api/logbook/attachments/999999', allowedStatus: 404 },
   'admin.outbox': {},
 };
 

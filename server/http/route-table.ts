@@ -43,7 +43,10 @@ export const API_ROUTES = [
   { id: 'alarm-limits.update', method: 'put', path: '/api/alarm-limits/:id', minRole: 'lead', summary: 'Change one alarm limit: { fields…, reason } (audited)' },
   { id: 'interlock.status', method: 'get', path: '/api/interlock', minRole: 'viewer', summary: 'Software interlock: state, first-out, conditions, hardware trip, history' },
   { id: 'interlock.reset', method: 'post', path: '/api/interlock/reset', minRole: 'operator', summary: 'Reset the tripped interlock once every condition cleared: { reason }' },
-  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mail catcher' },
+  { id: 'logbook.write', method: 'post', path: '/api/logbook/entries', minRole: 'operator', summary: 'Write a logbook entry: JSON { text, tags?, at?, link?, amends? } or multipart with files "file" → 201 { id }' },
+  { id: 'logbook.list', method: 'get', path: '/api/logbook/entries', minRole: 'viewer', summary: 'Logbook entries, newest first (?q=&from=&to=&tag=&limit=) → { entries }' },
+  { id: 'logbook.attachment', method: 'get', path: '/api/logbook/attachments/:id', minRole: 'viewer', summary: 'One attachment, served as its checked type' },
+  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mailbox' },
 ] as const satisfies readonly RouteSpec[];
 
 export type RouteId = (typeof API_ROUTES)[number]['id'];

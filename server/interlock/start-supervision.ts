@@ -1,7 +1,7 @@
 /**
  * Assembles alarms, the software interlock and on-call mail for the server: limits from the
  * database (seeded with the demo set), a latched trip restored from before a restart, the
- * background record writer, the mail path (a real SMTP server, or the local catcher), the
+ * background record writer, the mail path (a real SMTP server, or the local mailbox), the
  * supervisor and the routes. The owner calls `close()`.
  */
 import type { Logger } from 'pino';
@@ -15,7 +15,7 @@ import type { Db } from '../db/database.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import type { LiveStore } from '../live/live-store.js';
 import { parseNoticeOptions } from '../notify/compose-notice.js';
-import { MailCatcher } from '../notify/mail-catcher.js';
+import { LocalMailbox } from '../notify/local-mailbox.js';
 import { Mailer } from '../notify/mailer.js';
 import { OnCallNotifier } from '../notify/on-call-notifier.js';
 import { outboxHandlers } from '../notify/outbox-routes.js';
@@ -38,8 +38,14 @@ type SupervisionRoutes =
 
 export interface Supervision {
   supervisor: Supervisor;
+  /** The alarms (read by the logbook's links and the handover draft). */
+  book: AlarmBook;
+  /** The software interlock (its state goes into the handover draft). */
+  interlock: Interlock;
+  /** On-call mail (the handover summary goes out through it). */
+  mailer: Mailer;
   handlers: Pick<RouteHandlers, SupervisionRoutes>;
-  /** Stops evaluating, writes what is queued, closes the mailer and the local catcher. */
+  /** Stops evaluating, writes what is queued, closes the mailer and the local mailbox. */
   close(): Promise<void>;
 }
 
@@ -66,12 +72,12 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
   try {
     const records = new SupervisionLog(db, { onError: (error) => log.error({ err: error }, 'storing alarm events or trips failed') });
     closers.push(() => records.close());
-    const catcher = config.mail.smtpUrl === null ? await MailCatcher.start({ port: config.mail.catcherPort, log }) : null;
-    if (catcher) {
-      closers.push(() => catcher.close());
-      log.info({ url: catcher.url }, 'local mail catcher running (no SMTP_URL): notices appear on the admin Outbox page');
+    const mailbox = config.mail.smtpUrl === null ? await LocalMailbox.start({ port: config.mail.mailboxPort, log }) : null;
+    if (mailbox) {
+      closers.push(() => mailbox.close());
+      log.info({ url: mailbox.url }, 'local mailbox running (no SMTP_URL): notices appear on the admin Outbox page');
     }
-    const mailer = new Mailer({ transport: config.mail.smtpUrl ?? catcher!.url, from: config.mail.from, log });
+    const mailer = new Mailer({ transport: config.mail.smtpUrl ?? mailbox!.url, from: config.mail.from, log });
     closers.push(() => mailer.close());
     const notice = parseNoticeOptions({ onCall: config.mail.onCall, site: SITE });
     const notifier = new OnCallNotifier(mailer, notice, (id) => book.limits().find((l) => l.id === id));
@@ -80,11 +86,14 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
 
     return {
       supervisor,
+      book,
+      interlock,
+      mailer,
       handlers: {
         ...alarmHandlers({ db, book, records, announce: () => supervisor.announce() }),
         ...alarmLimitHandlers(db, book),
         ...interlockHandlers({ db, interlock, live, supervisor, records }),
-        ...outboxHandlers(catcher),
+        ...outboxHandlers(mailbox),
       },
       close,
     };

@@ -54,7 +54,7 @@ export interface LivePrediction {
   tofAspect: number | null;
   tofMajorAngleDeg: number | null;
   /** ε_dd / ε_dd,crit (1 = collapse threshold); null while not yet computed. */
-  collapseMargin: number | null;
+  collapseRatio: number | null;
   epsDd: number;
   profileId: number;
   /** Field direction the prediction was computed for (trap frame). */
