@@ -16,6 +16,7 @@ import { lockDataFolder } from './data-folder/data-folder-lock.js';
 import { openDatabase } from './db/database.js';
 import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
 import { CalibrationCache } from './field/calibration-cache.js';
+import { EventLoopWatch } from './health/event-loop-watch.js';
 import { healthHandlers, healthProblems, type HealthReport } from './health/health-route.js';
 import { createApp } from './http/app.js';
 import { FrameGate, type AdmittedMessage } from './ingest/frame-gate.js';
@@ -159,6 +160,8 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     supervision.supervisor.attach(ingest);
     supervision.supervisor.start();
 
+    const eventLoop = new EventLoopWatch();
+    closers.push(() => eventLoop.close());
     const report = (): HealthReport => {
       const fanoutCounters = fanout.counters();
       const frames = { ...gate.counters(), deliveryErrors: ingest.deliveryErrors() };
@@ -181,6 +184,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         mqttConnected: ingest.connected(),
         fanout: fanoutCounters,
         storage,
+        eventLoop: eventLoop.report(),
       };
     };
     const app = createApp({

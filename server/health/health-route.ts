@@ -4,6 +4,7 @@ import type { FanoutCounters } from '../fanout/live-fanout.js';
 import type { IngestCounters } from '../ingest/frame-gate.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import type { WriterCounters } from '../storage/telemetry-writer.js';
+import type { EventLoopReport } from './event-loop-watch.js';
 
 /** Frames refused or failing within this window (ms) make the status `degraded`. */
 export const FAILING_WINDOW_MS = 10_000;
@@ -27,6 +28,7 @@ export interface HealthReport {
   mqttConnected: boolean;
   fanout: FanoutCounters;
   storage: WriterCounters;
+  eventLoop: EventLoopReport;
 }
 
 /** What the status is judged on; times are server epoch ms. */

@@ -119,7 +119,8 @@ describe('telemetry storage and the data folder', () => {
     try {
       let output = '';
       child.stdout.on('data', (chunk: Buffer) => (output += chunk.toString()));
-      await vi.waitFor(() => expect(output).toMatch(/"msg":"Tiltwatch server started"/), { timeout: 30_000, interval: 50 });
+      // Two PGlite clusters start (the main one and the storage worker's): allow for a busy machine.
+      await vi.waitFor(() => expect(output).toMatch(/"msg":"Tiltwatch server started"/), { timeout: 90_000, interval: 50 });
       const started = JSON.parse(output.split('\n').find((line) => line.includes('Tiltwatch server started'))!) as { url: string; mqtt: string };
       const credentials = JSON.parse(readFileSync(path.join(dir, 'mqtt-credentials.json'), 'utf8')) as { controller: { username: string; password: string } };
       const client = await mqtt.connectAsync(started.mqtt, { protocolVersion: 4, ...credentials.controller, reconnectPeriod: 0 });
@@ -143,5 +144,5 @@ describe('telemetry storage and the data folder', () => {
     controller = await connectController(server);
     const { series: s } = await series(server, 250);
     expect(s.t.filter((t) => t >= runStart + 5000 && t < runStart + 6000)).toHaveLength(20);
-  }, 90_000); // spawns a second server process: slow on a loaded 2-core machine
+  }, 180_000); // spawns a second server process: slow on a loaded 2-core machine
 });

@@ -21,8 +21,15 @@ interface OpenBatch {
  * `pendingSamples` are read by tools outside the repository: keep the names.
  */
 export interface WriterCounters extends StoreState {
-  /** Longest single piece of storage work done on the event loop (gathering, handing over), ms. */
+  /**
+   * Longest single piece of storage work done on the event loop (gathering a frame, handing a
+   * flush over), ms of wall-clock time (on a busy machine this includes time the thread was not
+   * scheduled).
+   */
   eventLoopMaxMs: number;
+  /** Pieces of storage work on the event loop so far, and how many of them took longer than 10 ms. */
+  eventLoopSteps: number;
+  eventLoopStepsOver10Ms: number;
 }
 
 export interface WriterOptions {
@@ -73,7 +80,7 @@ export class TelemetryWriter implements TelemetryReader {
   private readonly inTransit = { samples: 0, frames: 0 };
   private refused = 0;
   private worker: StoreState = EMPTY_STATE;
-  private eventLoopMaxMs = 0;
+  private readonly loop = { maxMs: 0, steps: 0, over10Ms: 0 };
   private readonly timer: NodeJS.Timeout;
   private closed = false;
   private readonly maxPendingSamples: number;
@@ -159,7 +166,9 @@ export class TelemetryWriter implements TelemetryReader {
       framesDropped: this.worker.framesDropped + this.refused,
       pendingSamples: this.pending(),
       pendingFrames: this.worker.pendingFrames + this.inTransit.frames + this.openFrames,
-      eventLoopMaxMs: this.eventLoopMaxMs,
+      eventLoopMaxMs: this.loop.maxMs,
+      eventLoopSteps: this.loop.steps,
+      eventLoopStepsOver10Ms: this.loop.over10Ms,
     };
   }
 
@@ -226,7 +235,9 @@ export class TelemetryWriter implements TelemetryReader {
 
   private timed(started: number): void {
     const ms = performance.now() - started;
-    if (ms > this.eventLoopMaxMs) this.eventLoopMaxMs = ms;
+    this.loop.steps++;
+    if (ms > 10) this.loop.over10Ms++;
+    if (ms > this.loop.maxMs) this.loop.maxMs = ms;
   }
 }
 
