@@ -1,5 +1,6 @@
 import type { BrokerCounters } from '../../broker/broker.js';
 import type { DbKind } from '../db/database.js';
+import type { DatabaseHealthReport } from '../db/database-health.js';
 import type { FanoutCounters } from '../fanout/live-fanout.js';
 import type { IngestCounters } from '../ingest/frame-gate.js';
 import type { RouteHandlers } from '../http/route-table.js';
@@ -17,7 +18,10 @@ export interface FrameHealth extends IngestCounters {
 
 /** Body of `GET /api/health`. */
 export interface HealthReport {
-  /** `degraded` while frames are refused or fail, or the database does not take telemetry; `problems` says what. */
+  /**
+   * `degraded` while a part the server needs is failing: the PostgreSQL server unreachable, the
+   * database not taking telemetry, frames refused or failing; `problems` says what.
+   */
   status: 'ok' | 'degraded';
   problems: string[];
   uptimeS: number;
@@ -25,6 +29,8 @@ export interface HealthReport {
   clients: number;
   broker: BrokerCounters | null;
   db: DbKind;
+  /** Connection to the PostgreSQL server; null with the embedded PGlite. */
+  database: DatabaseHealthReport | null;
   mqttConnected: boolean;
   fanout: FanoutCounters;
   storage: WriterCounters;
@@ -44,6 +50,9 @@ export interface HealthInputs {
 export function healthProblems(h: HealthInputs): string[] {
   const problems: string[] = [];
   const recent = (at: number | null) => at !== null && h.nowMs - at <= FAILING_WINDOW_MS;
+  if (h.database?.state === 'unreachable') {
+    problems.push(`the PostgreSQL server is unreachable since ${h.database.since}: ${h.database.lastError}`);
+  }
   if (recent(h.lastRejectedAtMs)) {
     problems.push(`telemetry refused at the edge within the last ${FAILING_WINDOW_MS / 1000} s (newest reason: ${h.frames.lastRejectReason})`);
   }
