@@ -44,6 +44,7 @@ export interface HealthInputs {
   lastRejectedAtMs: number | null;
   lastDeliveryErrorAtMs: number | null;
   storage: WriterCounters;
+  database: DatabaseHealthReport | null;
 }
 
 /** Why the server is not fully well, in words for an operator; empty when it is. */
