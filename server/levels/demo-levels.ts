@@ -1,9 +1,12 @@
 /**
  * The seeded level set of the fictional Lindqvist Hall apparatus (invented values, demo
  * only; a real lab sets its own). The simulator's own hardware trip levels sit beyond these
- * software trip levels, as a hardware interlock should (see simulator/coil-model.ts).
+ * software trip levels, as a hardware interlock should (see shared/apparatus/coil-data.ts).
  */
+import { DEMO_PARAMETERS } from '../../shared/apparatus/coil-data.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
+
+const coils = DEMO_PARAMETERS.coils;
 
 export const DEMO_LEVEL_SET: Readonly<LevelSet> = {
   bands: {
@@ -15,6 +18,6 @@ export const DEMO_LEVEL_SET: Readonly<LevelSet> = {
   },
   trips: { currentHighA: 20, temperatureHighC: 65, flowLowLpm: 1 },
   settings: { minOrientingFieldG: 0.5, maxTargetFieldG: 30, maxTargetCollapseRatio: 0.8 },
-  // As measured on the demo windings (the simulator's coils, simulator/parameters.ts).
-  windingsR20Ohm: { x: 0.41, y: 0.39, z: 0.42 },
+  // The demo windings as the simulated controller has them (shared/apparatus/coil-data.ts).
+  windingsR20Ohm: { x: coils.x.r20Ohm, y: coils.y.r20Ohm, z: coils.z.r20Ohm },
 };

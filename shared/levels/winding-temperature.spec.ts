@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { resistanceAt } from '../../simulator/coil-model.js';
+import { resistanceAt } from '../apparatus/coil-model.js';
 import { windingTemperatureC } from './winding-temperature.js';
 
 describe('windingTemperatureC', () => {

@@ -5,8 +5,8 @@
  * winding, so it can run ahead of a sensor on its surface.
  */
 
-/** Temperature coefficient of resistance of annealed copper at 20 °C, 1/K (IEC 60028). */
-export const COPPER_ALPHA_PER_K = 0.00393;
+import { COPPER_ALPHA_PER_K, REFERENCE_TEMPERATURE_C } from '../apparatus/coil-model.js';
+
 /** Below this |I| the voltage is mostly offset and noise; no temperature is derived, A. */
 export const MIN_CURRENT_FOR_RESISTANCE_A = 1;
 /** While the current still moves towards its setpoint by more than this, L·dI/dt spoils V/I, A. */
@@ -21,5 +21,5 @@ export function windingTemperatureC(voltageV: number | null, currentA: number | 
   if (Math.abs(currentA) < MIN_CURRENT_FOR_RESISTANCE_A || !(r20Ohm > 0)) return null;
   if (setpointA !== null && Math.abs(setpointA - currentA) > MAX_SETTLING_DEVIATION_A) return null;
   const resistance = voltageV / currentA;
-  return 20 + (resistance / r20Ohm - 1) / COPPER_ALPHA_PER_K;
+  return REFERENCE_TEMPERATURE_C + (resistance / r20Ohm - 1) / COPPER_ALPHA_PER_K;
 }
