@@ -68,7 +68,9 @@ describe('PredictionPanel', () => {
     expect(text()).toContain('β − 1 = +2.05 %');
     expect(text()).toContain('1.0204');
     expect(text()).toContain('major axis 90.0° from x towards z');
-    expect(flat(host.querySelector('[role="status"]')!)).toContain('Stable: ε_dd is 7.0 % of the collapse threshold.');
+    expect(flat(host.querySelector('[role="status"]')!)).toContain('Stable: εdd is 7.0 % of the collapse threshold.');
+    // Typeset with a subscript, never a raw underscore.
+    expect(host.querySelector('[role="status"] sub')?.textContent).toBe('dd');
   });
 
   it('draws in-situ, momentum and TOF ellipses with the camera axes and the exaggeration printed', async () => {
@@ -83,7 +85,7 @@ describe('PredictionPanel', () => {
   it('says a collapsed gas is collapsed, with its collapse ratio, and draws no geometry', async () => {
     await show(COLLAPSED);
     const status = host.querySelector('[role="status"]')!;
-    expect(flat(status)).toContain('Collapsed: ε_dd is 112.0 % of the collapse threshold.');
+    expect(flat(status)).toContain('Collapsed: εdd is 112.0 % of the collapse threshold.');
     expect(status.querySelector('mat-icon')!.textContent).toBe('dangerous');
     expect(host.querySelector('tw-camera-sketch')).toBeNull();
     expect(host.querySelector('ellipse')).toBeNull();
