@@ -29,7 +29,7 @@ try {
   if (demo && config.mqtt.mode === 'external') {
     throw new ConfigError(['--demo runs the simulator against the embedded broker; unset MQTT_URL, or run the simulator yourself (npm run simulator)']);
   }
-  server = await startServer(config);
+  server = await startServer(config, { demoAccounts: demo });
   if (demo && server.brokerCredentials) {
     simulator = spawn(process.execPath, ['--import', 'tsx', path.join('simulator', 'main.ts')], {
       cwd: projectRoot(),
@@ -48,10 +48,14 @@ try {
     });
   }
   const accounts = DEMO_ACCOUNTS.map((a) => a.email).join(', ');
+  const accountNote = !server.hasAccounts
+    ? 'No account exists yet: create the first admin with  npm run users -- add EMAIL --role admin  (stop the server first when it uses the data folder)'
+    : server.seededDemoAccounts
+      ? `Demo accounts created (demo only): ${accounts} — password from TILTWATCH_DEMO_PASSWORD (default tiltwatch-demo)`
+      : '';
   console.log(
     `\nTiltwatch is running: open ${server.url}\n` +
-      `Demo accounts (demo only): ${accounts} — password from TILTWATCH_DEMO_PASSWORD (default tiltwatch-demo)` +
-      `${demo ? '\nSimulated controller: running the demo program' : ''}\n`,
+      `${accountNote}${demo ? '\nSimulated controller: running the demo program' : ''}\n`,
   );
 } catch (error) {
   if (error instanceof ConfigError || error instanceof DataFolderLockedError) {

@@ -8,7 +8,9 @@ import { authHandlers } from './auth/auth-routes.js';
 import { loadOrCreateJwtSecret } from './auth/jwt-secret.js';
 import { LoginUseCase } from './auth/login.js';
 import { TokenIssuer } from './auth/tokens.js';
-import { seedDemoAccounts } from './auth/users-repository.js';
+import { SecurityLog } from './auth/security-log.js';
+import { DEFAULT_THROTTLE_RULES, SignInThrottle } from './auth/sign-in-throttle.js';
+import { hasNoUsers, seedDemoAccounts } from './auth/users-repository.js';
 import { calibrationHandlers } from './calibration/calibration-routes.js';
 import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
@@ -37,10 +39,15 @@ import { seriesHandlers } from './series/series-routes.js';
 import { RetentionTask } from './storage/retention.js';
 import { RollupAccumulator } from './storage/rollup-accumulator.js';
 import { TelemetryWriter } from './storage/telemetry-writer.js';
+import { AccountEvents } from './users/account-events.js';
+import { UserAccounts } from './users/user-accounts.js';
+import { userHandlers } from './users/user-routes.js';
 
 export interface StartOptions {
   /** Log destination; default a pino logger at `config.logLevel` on stdout. */
   log?: Logger;
+  /** Create the demo accounts on a database without any account (`--demo`); default false. */
+  demoAccounts?: boolean;
   /** WebSocket pacing and limits (defaults: 5 s to sign in, ≥ 33 ms between messages, 1 MB buffer). */
   fanout?: FanoutOptions;
 }
@@ -57,6 +64,8 @@ export interface RunningServer {
   brokerCredentials: BrokerCredentials | null;
   /** True when the demo accounts were created by this start (first start on this database). */
   seededDemoAccounts: boolean;
+  /** False when the database holds no account yet (create the first admin with `npm run users`). */
+  hasAccounts: boolean;
   /** The same report as `GET /api/health`. */
   counters(): HealthReport;
   /** Stops everything in reverse order of start; resolves when nothing is left running. */
@@ -68,7 +77,7 @@ export const WEB_ROOT = path.join(projectRoot(), 'dist', 'tiltwatch', 'browser')
 
 /**
  * Starts Tiltwatch's server: takes the data folder, opens and migrates the database, seeds the
- * demo calibration, sample profile and accounts on first start, starts the embedded broker
+ * demo calibration and sample profile on first start (and the demo accounts with `demoAccounts`), starts the embedded broker
  * (unless MQTT_URL names an external one) and the prediction worker, subscribes to telemetry,
  * and serves the API, the WebSocket and the web app. `config.port` 0 picks a free port. If any
  * step fails, what was started is closed.
@@ -101,7 +110,8 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const { db } = database;
     await seedDemoCalibration(db);
     await seedDemoProfile(db);
-    const seededDemoAccounts = await seedDemoAccounts(db, config.demoPassword);
+    const seededDemoAccounts = opts.demoAccounts === true && (await seedDemoAccounts(db, config.demoPassword));
+    const hasAccounts = !(await hasNoUsers(db));
     const calibrations = new CalibrationCache(db);
     await calibrations.reload();
 
@@ -130,9 +140,17 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     }
 
     const access = new AccessControl(db, tokens);
+    const accountEvents = new AccountEvents();
+    const accounts = new UserAccounts(db, accountEvents);
+    const security = new SecurityLog(db, log);
+    closers.push(() => security.drain());
+    const throttle = new SignInThrottle({ ...DEFAULT_THROTTLE_RULES, addressFailures: config.loginAttemptsPerMinute }, (event) => {
+      const { kind, ...detail } = event;
+      security.record({ kind, email: 'email' in event ? event.email : null, address: event.address, detail });
+    });
     const live = new LiveStore();
     const httpServer = createServer();
-    const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout);
+    const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout, accountEvents);
     closers.push(() => fanout.close());
     // Closed after ingest stops and before the fan-out it publishes to.
     const engine = new PredictionEngine({ log });
@@ -172,7 +190,8 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const app = createApp({
       handlers: {
         ...healthHandlers(report),
-        ...authHandlers(new LoginUseCase(db, tokens), config.loginAttemptsPerMinute),
+        ...authHandlers({ login: new LoginUseCase(db, tokens, throttle, security), accounts, tokens }),
+        ...userHandlers({ db, accounts, throttle, security }),
         ...liveHandlers(live),
         ...seriesHandlers(db, calibrations, writer),
         ...calibrationHandlers(db),
@@ -192,7 +211,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const port = typeof address === 'object' && address !== null ? address.port : config.port;
     const url = `http://${displayHost(config.host)}:${port}`;
     log.info({ url, mqtt: mqtt.url, db: database.kind, dataDir: config.dataDir }, 'Tiltwatch server started');
-    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, counters: report, close };
+    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, hasAccounts, counters: report, close };
   } catch (error) {
     await close();
     throw error;

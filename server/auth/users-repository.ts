@@ -10,6 +10,9 @@ export interface UserRecord {
   email: string;
   role: Role;
   passwordHash: string;
+  createdAt: Date;
+  disabled: boolean;
+  tokenVersion: number;
 }
 
 /** Sign-in names are e-mail addresses compared without case or surrounding blanks. */
@@ -30,13 +33,18 @@ export async function findUserById(db: Db, id: number): Promise<UserRecord | nul
 /** The demo accounts: one per role, `<role>@tiltwatch.example`. */
 export const DEMO_ACCOUNTS: { email: string; role: Role }[] = ROLES.map((role) => ({ email: `${role}@tiltwatch.example`, role }));
 
+/** True when the database holds no account at all. */
+export async function hasNoUsers(db: Db): Promise<boolean> {
+  const [{ n }] = await db.select({ n: count() }).from(users);
+  return n === 0;
+}
+
 /**
  * On a database without users, creates the demo accounts with `password` and records each in
  * the audit trail. Does nothing when any user exists, so changed passwords stay changed.
  */
 export async function seedDemoAccounts(db: Db, password: string): Promise<boolean> {
-  const [{ n }] = await db.select({ n: count() }).from(users);
-  if (n > 0) return false;
+  if (!(await hasNoUsers(db))) return false;
   const hashes = await Promise.all(DEMO_ACCOUNTS.map(() => hashPassword(password)));
   await db.transaction(async (tx) => {
     for (const [i, account] of DEMO_ACCOUNTS.entries()) {

@@ -21,6 +21,7 @@ export const API_ROUTES = [
   { id: 'health', method: 'get', path: '/api/health', minRole: null, summary: 'Liveness and counters' },
   { id: 'auth.login', method: 'post', path: '/api/auth/login', minRole: null, summary: 'Sign in: { email, password } → { token, user }' },
   { id: 'auth.me', method: 'get', path: '/api/auth/me', minRole: 'viewer', summary: 'The signed-in user' },
+  { id: 'auth.password', method: 'post', path: '/api/auth/password', minRole: 'viewer', summary: 'Change one\'s own password: { currentPassword, newPassword } → { token, user }' },
   { id: 'live', method: 'get', path: '/api/live', minRole: 'viewer', summary: 'Latest state of the apparatus' },
   { id: 'series', method: 'get', path: '/api/series', minRole: 'viewer', summary: 'Chart points of the last N seconds (?seconds=N)' },
   { id: 'channels', method: 'get', path: '/api/channels', minRole: 'viewer', summary: 'Display bands of the live channels' },
@@ -43,6 +44,11 @@ export const API_ROUTES = [
   { id: 'alarm-limits.update', method: 'put', path: '/api/alarm-limits/:id', minRole: 'lead', summary: 'Change one alarm limit: { fields…, reason } (audited)' },
   { id: 'interlock.status', method: 'get', path: '/api/interlock', minRole: 'viewer', summary: 'Software interlock: state, first-out, conditions, hardware trip, history' },
   { id: 'interlock.reset', method: 'post', path: '/api/interlock/reset', minRole: 'operator', summary: 'Reset the tripped interlock once every condition cleared: { reason }' },
+  { id: 'users.list', method: 'get', path: '/api/admin/users', minRole: 'admin', summary: 'Accounts → { users }' },
+  { id: 'users.create', method: 'post', path: '/api/admin/users', minRole: 'admin', summary: 'Add an account: { email, role, password, reason? } (audited)' },
+  { id: 'users.update', method: 'patch', path: '/api/admin/users/:id', minRole: 'admin', summary: 'Change role or disable/enable: { role?, disabled?, reason } (audited; revokes the account\'s tokens)' },
+  { id: 'security.report', method: 'get', path: '/api/admin/security', minRole: 'admin', summary: 'Security events of the last N hours and sign-in throttles in force (?hours=N)' },
+  { id: 'security.lift', method: 'post', path: '/api/admin/security/lift', minRole: 'admin', summary: 'Lift a sign-in throttle: { email | address, reason } (audited)' },
   { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mailbox' },
 ] as const satisfies readonly RouteSpec[];
 

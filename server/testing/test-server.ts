@@ -41,9 +41,9 @@ export function testConfig(dataDir: string, env: NodeJS.ProcessEnv = {}): Server
   });
 }
 
-/** Starts a real server (embedded broker, PGlite) on free ports in `dataDir`. */
+/** Starts a real server (embedded broker, PGlite) on free ports in `dataDir`, with the demo accounts unless `opts` says otherwise. */
 export function startTestServer(dataDir: string, opts?: StartOptions, env?: NodeJS.ProcessEnv): Promise<RunningServer> {
-  return startServer(testConfig(dataDir, env), opts);
+  return startServer(testConfig(dataDir, env), { demoAccounts: true, ...opts });
 }
 
 /** Signs in as the demo account of `role` and returns its token. */

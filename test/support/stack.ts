@@ -36,7 +36,7 @@ export async function startStack(options: StackOptions = {}): Promise<Stack> {
     LOG_LEVEL: 'warn',
     ...options.env,
   });
-  const server = await startServer(config);
+  const server = await startServer(config, { demoAccounts: true });
   let simulator: RunningSimulator | null = null;
   if (options.simulator !== false) {
     const account = server.brokerCredentials?.controller;
