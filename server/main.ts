@@ -48,8 +48,8 @@ try {
     });
   }
   const accounts = DEMO_ACCOUNTS.map((a) => a.email).join(', ');
-  const accountNote = !server.hasAccounts
-    ? 'No account exists yet: create the first admin with  npm run users -- add EMAIL --role admin  (stop the server first when it uses the data folder)'
+  const accountNote = !server.hasAdmin
+    ? 'No enabled admin account: create the first admin with  npm run users -- add EMAIL --role admin  (stop the server first when it uses the data folder)'
     : server.seededDemoAccounts
       ? `Demo accounts created (demo only): ${accounts} — password from TILTWATCH_DEMO_PASSWORD (default tiltwatch-demo)`
       : '';

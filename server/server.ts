@@ -10,7 +10,7 @@ import { LoginUseCase } from './auth/login.js';
 import { TokenIssuer } from './auth/tokens.js';
 import { SecurityLog } from './auth/security-log.js';
 import { DEFAULT_THROTTLE_RULES, SignInThrottle } from './auth/sign-in-throttle.js';
-import { hasNoUsers, seedDemoAccounts } from './auth/users-repository.js';
+import { disableDemoAccounts, hasEnabledAdmin, seedDemoAccounts } from './auth/users-repository.js';
 import { calibrationHandlers } from './calibration/calibration-routes.js';
 import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
@@ -64,8 +64,8 @@ export interface RunningServer {
   brokerCredentials: BrokerCredentials | null;
   /** True when the demo accounts were created by this start (first start on this database). */
   seededDemoAccounts: boolean;
-  /** False when the database holds no account yet (create the first admin with `npm run users`). */
-  hasAccounts: boolean;
+  /** False when no enabled admin account exists (create the first admin with `npm run users`). */
+  hasAdmin: boolean;
   /** The same report as `GET /api/health`. */
   counters(): HealthReport;
   /** Stops everything in reverse order of start; resolves when nothing is left running. */
@@ -111,7 +111,11 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     await seedDemoCalibration(db);
     await seedDemoProfile(db);
     const seededDemoAccounts = opts.demoAccounts === true && (await seedDemoAccounts(db, config.demoPassword));
-    const hasAccounts = !(await hasNoUsers(db));
+    if (opts.demoAccounts !== true) {
+      const disabled = await disableDemoAccounts(db, config.demoPassword);
+      if (disabled.length > 0) log.warn({ accounts: disabled }, 'demo accounts with the known demo password disabled (started without --demo)');
+    }
+    const hasAdmin = await hasEnabledAdmin(db);
     const calibrations = new CalibrationCache(db);
     await calibrations.reload();
 
@@ -211,7 +215,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const port = typeof address === 'object' && address !== null ? address.port : config.port;
     const url = `http://${displayHost(config.host)}:${port}`;
     log.info({ url, mqtt: mqtt.url, db: database.kind, dataDir: config.dataDir }, 'Tiltwatch server started');
-    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, hasAccounts, counters: report, close };
+    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, hasAdmin, counters: report, close };
   } catch (error) {
     await close();
     throw error;

@@ -98,6 +98,24 @@ export class UserAccounts {
     return result;
   }
 
+  /** Sets a new password without the current one (the command-line tool, run by whoever runs the server); revokes the account's tokens. */
+  async setPassword(email: string, password: string, actor: string): Promise<UserAccount> {
+    const address = normaliseEmail(email);
+    const passwordHash = await hashPassword(password);
+    const updated = await this.db.transaction(async (tx) => {
+      const [row] = await tx
+        .update(users)
+        .set({ passwordHash, tokenVersion: sql`${users.tokenVersion} + 1` })
+        .where(eq(users.email, address))
+        .returning();
+      if (!row) throw new AccountError('not-found', `no account for ${address}`);
+      await appendAudit(tx, { actor, action: 'user.password-set', subject: `user:${address}`, reason: 'set from the command line' });
+      return row;
+    });
+    this.events.changed(updated.id);
+    return view(updated);
+  }
+
   /**
    * Changes the password of account `id` after checking its current one; returns the account
    * with its new token version (the caller issues a fresh token; every older one is revoked).
