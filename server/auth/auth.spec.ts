@@ -56,6 +56,10 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   'users.update': { path: '/api/admin/users/1', body: { disabled: false, reason: 'route access check' } },
   'security.report': { query: '?hours=1' },
   'security.lift': { body: { email: 'nobody@tiltwatch.example', reason: 'route access check' } },
+  'logbook.write': { body: { text: 'route access check', tags: ['access'] } },
+  'logbook.list': { query: '?tag=access' },
+  // No attachment exists on a fresh database: the role check passes, then 404.
+  'logbook.attachment': { path: '/api/logbook/attachments/999999', allowedStatus: 404 },
   'admin.outbox': {},
 };
 

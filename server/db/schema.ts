@@ -20,10 +20,12 @@ import {
   real,
   serial,
   text,
+  type AnyPgColumn,
   timestamp,
   uniqueIndex,
 } from 'drizzle-orm/pg-core';
 import type { AlarmEventKind, AlarmSuppression } from '../../shared/alarms/alarm-api.js';
+import type { LogbookLinkKind } from '../../shared/logbook/logbook-api.js';
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
@@ -274,6 +276,56 @@ export const interlockTrips = pgTable('interlock_trips', {
   resetReason: text('reset_reason'),
 });
 
+/** PostgreSQL text-search document (written by the database, never by the application). */
+const tsvector = customType<{ data: string }>({ dataType: () => 'tsvector' });
+const bytea = customType<{ data: Uint8Array; driverData: Uint8Array }>({ dataType: () => 'bytea' });
+
+/**
+ * Logbook entries, append-only (a trigger refuses UPDATE and DELETE): a correction is a new
+ * entry whose `amends` names the one it corrects. `at` is the time the note refers to;
+ * `search` is the English text-search document of `text` (GIN-indexed).
+ */
+export const logbookEntries = pgTable(
+  'logbook_entries',
+  {
+    id: serial('id').primaryKey(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    at: timestamp('at', { withTimezone: true }).notNull(),
+    author: text('author').notNull(),
+    text: text('text').notNull(),
+    tags: text('tags').array().notNull().default(sql`'{}'::text[]`),
+    linkKind: text('link_kind').$type<LogbookLinkKind>(),
+    linkRef: text('link_ref'),
+    amends: integer('amends').references((): AnyPgColumn => logbookEntries.id),
+    search: tsvector('search')
+      .notNull()
+      .generatedAlwaysAs((): ReturnType<typeof sql> => sql`to_tsvector('english'::regconfig, ${logbookEntries.text})`),
+  },
+  (t) => [
+    index('logbook_entries_at').on(t.at),
+    index('logbook_entries_search').using('gin', t.search),
+    index('logbook_entries_tags').using('gin', t.tags),
+    index('logbook_entries_amends').on(t.amends),
+  ],
+);
+
+/** Files attached to logbook entries (type checked by content before storing), append-only. */
+export const logbookAttachments = pgTable(
+  'logbook_attachments',
+  {
+    id: serial('id').primaryKey(),
+    entryId: integer('entry_id')
+      .notNull()
+      .references(() => logbookEntries.id),
+    fileName: text('file_name').notNull(),
+    /** MIME type found from the content, the one the file is served with. */
+    contentType: text('content_type').notNull(),
+    sizeBytes: integer('size_bytes').notNull(),
+    data: bytea('data').notNull(),
+  },
+  (t) => [index('logbook_attachments_entry').on(t.entryId)],
+);
+
 export const schema = {
   users,
   calibrations,
@@ -286,4 +338,6 @@ export const schema = {
   alarmLimits,
   alarmEvents,
   interlockTrips,
+  logbookEntries,
+  logbookAttachments,
 };

@@ -49,6 +49,9 @@ export const API_ROUTES = [
   { id: 'users.update', method: 'patch', path: '/api/admin/users/:id', minRole: 'admin', summary: 'Change role or disable/enable: { role?, disabled?, reason } (audited; revokes the account\'s tokens)' },
   { id: 'security.report', method: 'get', path: '/api/admin/security', minRole: 'admin', summary: 'Security events of the last N hours and sign-in throttles in force (?hours=N)' },
   { id: 'security.lift', method: 'post', path: '/api/admin/security/lift', minRole: 'admin', summary: 'Lift a sign-in throttle: { email | address, reason } (audited)' },
+  { id: 'logbook.write', method: 'post', path: '/api/logbook/entries', minRole: 'operator', summary: 'Write a logbook entry: JSON { text, tags?, at?, link?, amends? } or multipart with files "file" → 201 { id }' },
+  { id: 'logbook.list', method: 'get', path: '/api/logbook/entries', minRole: 'viewer', summary: 'Logbook entries, newest first (?q=&from=&to=&tag=&limit=) → { entries }' },
+  { id: 'logbook.attachment', method: 'get', path: '/api/logbook/attachments/:id', minRole: 'viewer', summary: 'One attachment, served as its checked type' },
   { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mailbox' },
 ] as const satisfies readonly RouteSpec[];
 

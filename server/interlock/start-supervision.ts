@@ -38,6 +38,12 @@ type SupervisionRoutes =
 
 export interface Supervision {
   supervisor: Supervisor;
+  /** The alarms (read by the logbook's links and the handover draft). */
+  book: AlarmBook;
+  /** The software interlock (its state goes into the handover draft). */
+  interlock: Interlock;
+  /** On-call mail (the handover summary goes out through it). */
+  mailer: Mailer;
   handlers: Pick<RouteHandlers, SupervisionRoutes>;
   /** Stops evaluating, writes what is queued, closes the mailer and the local mailbox. */
   close(): Promise<void>;
@@ -80,6 +86,9 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
 
     return {
       supervisor,
+      book,
+      interlock,
+      mailer,
       handlers: {
         ...alarmHandlers({ db, book, records, announce: () => supervisor.announce() }),
         ...alarmLimitHandlers(db, book),
