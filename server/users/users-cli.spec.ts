@@ -38,7 +38,8 @@ const login = async (server: RunningServer, email: string, password: string) => 
   return { status: res.status, body: (await res.json()) as { user?: { role: string } } };
 };
 
-describe('accounts without --demo and the users command', () => {
+// Each case starts child processes (and sometimes a server); allow for a busy machine.
+describe('accounts without --demo and the users command', { timeout: 120_000 }, () => {
   let dir: string;
 
   beforeAll(async () => {
