@@ -3,6 +3,7 @@ import type { SecurityReport, UserAccount } from '../../shared/auth/user-api.js'
 import { openDatabase } from '../db/database.js';
 import { auditLog } from '../db/schema.js';
 import type { RunningServer } from '../server.js';
+import { databaseUrlFor } from '../testing/external-services.js';
 import { callApi, makeDataDir, removeDataDir, signIn, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
 
 const NEW_PASSWORD = 'a new pass phrase for night shift';
@@ -145,7 +146,7 @@ describe('accounts, passwords and sign-in throttling', () => {
 
   it('wrote every account change to the audit trail, without passwords', async () => {
     await server.close();
-    const database = await openDatabase({ dataDir: dir, databaseUrl: null });
+    const database = await openDatabase({ dataDir: dir, databaseUrl: databaseUrlFor(dir) });
     try {
       const rows = await database.db.select().from(auditLog);
       const actions = rows.filter((r) => r.actor !== 'system').map((r) => `${r.action} ${r.subject}`);
