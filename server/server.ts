@@ -12,7 +12,7 @@ import { LoginUseCase } from './auth/login.js';
 import { TokenIssuer } from './auth/tokens.js';
 import { SecurityLog } from './auth/security-log.js';
 import { DEFAULT_THROTTLE_RULES, SignInThrottle } from './auth/sign-in-throttle.js';
-import { disableDemoAccounts, hasEnabledAdmin, seedDemoAccounts } from './auth/users-repository.js';
+import { hasEnabledAdmin, seedDemoAccounts } from './auth/users-repository.js';
 import { calibrationHandlers } from './calibration/calibration-routes.js';
 import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
@@ -50,7 +50,11 @@ import { userHandlers } from './users/user-routes.js';
 export interface StartOptions {
   /** Log destination; default a pino logger at `config.logLevel` on stdout. */
   log?: Logger;
-  /** Create the demo accounts on a database without any account (`--demo`); default false. */
+  /**
+   * `--demo`: create the demo accounts on a database without any account, and let them sign
+   * in. Default false: demo accounts (`<role>@tiltwatch.example`) cannot sign in, their tokens
+   * are refused and the Users page does not list them, as if they did not exist.
+   */
   demoAccounts?: boolean;
   /** WebSocket pacing and limits (defaults: 5 s to sign in, ≥ 33 ms between messages, 1 MB buffer). */
   fanout?: FanoutOptions;
@@ -125,11 +129,8 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     await seedDemoCalibration(db);
     await seedDemoProfile(db);
     const seededDemoAccounts = opts.demoAccounts === true && (await seedDemoAccounts(db, config.demoPassword));
-    if (opts.demoAccounts !== true) {
-      const disabled = await disableDemoAccounts(db, config.demoPassword);
-      if (disabled.length > 0) log.warn({ accounts: disabled }, 'demo accounts with the known demo password disabled (started without --demo)');
-    }
-    const hasAdmin = await hasEnabledAdmin(db);
+    const demo = opts.demoAccounts === true;
+    const hasAdmin = await hasEnabledAdmin(db, demo);
     const calibrations = new CalibrationCache(db);
     await calibrations.reload();
 
@@ -161,9 +162,9 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
       mqtt = config.mqtt;
     }
 
-    const access = new AccessControl(db, tokens);
+    const access = new AccessControl(db, tokens, demo);
     const accountEvents = new AccountEvents();
-    const accounts = new UserAccounts(db, accountEvents);
+    const accounts = new UserAccounts(db, accountEvents, demo);
     const security = new SecurityLog(db, log);
     closers.push(() => security.drain());
     const throttle = new SignInThrottle({ ...DEFAULT_THROTTLE_RULES, addressFailures: config.loginAttemptsPerMinute }, (event) => {
@@ -228,7 +229,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const app = createApp({
       handlers: {
         ...healthHandlers(report),
-        ...authHandlers({ login: new LoginUseCase(db, tokens, throttle, security), accounts, tokens }),
+        ...authHandlers({ login: new LoginUseCase(db, tokens, throttle, security, demo), accounts, tokens }),
         ...userHandlers({ db, accounts, throttle, security }),
         ...liveHandlers(live),
         ...seriesHandlers(calibrations, writer),

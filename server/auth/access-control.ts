@@ -5,7 +5,7 @@ import { hasRole, type Role } from '../../shared/auth/roles.js';
 import type { Db } from '../db/database.js';
 import { HttpError } from '../http/http-error.js';
 import { claimsOf, type TokenIssuer, type VerifiedClaims } from './tokens.js';
-import { findUserById } from './users-repository.js';
+import { findUserById, isDemoAccount } from './users-repository.js';
 
 /** The person behind a request, as the database knows them now. */
 export interface SignedInUser {
@@ -41,6 +41,8 @@ export class AccessControl {
   constructor(
     private readonly db: Db,
     private readonly tokens: TokenIssuer,
+    /** Whether the demo accounts may be used (`--demo`). */
+    private readonly demoAccounts = false,
   ) {
     this.passport.use(
       'jwt',
@@ -85,6 +87,7 @@ export class AccessControl {
     if (!claims) return null;
     const user = await findUserById(this.db, claims.userId);
     if (!user || user.email !== claims.email || user.disabled || user.tokenVersion !== claims.tokenVersion) return null;
+    if (!this.demoAccounts && isDemoAccount(user.email)) return null;
     return { id: user.id, email: user.email, role: user.role };
   }
 }

@@ -5,7 +5,7 @@ import { hashPassword, verifyPassword } from './password.js';
 import type { SecurityLog } from './security-log.js';
 import type { SignInThrottle } from './sign-in-throttle.js';
 import type { TokenIssuer } from './tokens.js';
-import { findUserByEmail, normaliseEmail } from './users-repository.js';
+import { findUserByEmail, isDemoAccount, normaliseEmail } from './users-repository.js';
 
 export interface LoginResult {
   token: string;
@@ -43,13 +43,16 @@ export class LoginUseCase {
     private readonly tokens: TokenIssuer,
     private readonly throttle: SignInThrottle,
     private readonly security: SecurityLog,
+    /** Whether the demo accounts may sign in (`--demo`); otherwise they count as unknown. */
+    private readonly demoAccounts = false,
   ) {}
 
   async login(rawEmail: string, password: string, address: string): Promise<LoginResult> {
     const email = normaliseEmail(rawEmail);
     const verdict = this.throttle.check(email, address);
     if (!verdict.allowed) throw new SignInThrottledError(verdict.scope, Math.max(1, Math.ceil(verdict.retryAfterMs / 1000)));
-    const user = await findUserByEmail(this.db, email);
+    const found = await findUserByEmail(this.db, email);
+    const user = found && (this.demoAccounts || !isDemoAccount(found.email)) ? found : null;
     if (!user) {
       this.decoyHash ??= hashPassword('decoy password that matches no account');
       await verifyPassword(await this.decoyHash, password);

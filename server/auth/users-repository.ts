@@ -1,9 +1,9 @@
-import { count, eq, inArray, sql } from 'drizzle-orm';
+import { and, count, eq } from 'drizzle-orm';
 import { ROLES, type Role } from '../../shared/auth/roles.js';
 import { appendAudit } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
 import { users } from '../db/schema.js';
-import { hashPassword, verifyPassword } from './password.js';
+import { hashPassword } from './password.js';
 
 export interface UserRecord {
   id: number;
@@ -39,10 +39,15 @@ export async function hasNoUsers(db: Db): Promise<boolean> {
   return n === 0;
 }
 
-/** True when at least one enabled admin account exists. */
-export async function hasEnabledAdmin(db: Db): Promise<boolean> {
-  const [{ n }] = await db.select({ n: count() }).from(users).where(sql`${users.role} = 'admin' and not ${users.disabled}`);
-  return n > 0;
+/** True for the e-mail of a demo account; those sign in only while the server runs with `--demo`. */
+export function isDemoAccount(email: string): boolean {
+  return DEMO_ACCOUNTS.some((a) => a.email === normaliseEmail(email));
+}
+
+/** True when at least one enabled admin account exists (demo accounts count only with `demo`). */
+export async function hasEnabledAdmin(db: Db, demo: boolean): Promise<boolean> {
+  const admins = await db.select({ email: users.email }).from(users).where(and(eq(users.role, 'admin'), eq(users.disabled, false)));
+  return admins.some((a) => demo || !isDemoAccount(a.email));
 }
 
 /**
@@ -65,33 +70,4 @@ export async function seedDemoAccounts(db: Db, password: string): Promise<boolea
     }
   });
   return true;
-}
-
-/**
- * Without `--demo` no demo account may be usable: disables (audited) every demo account still
- * accepting the demo password, e.g. one seeded by an earlier version or an earlier demo start.
- * Returns the e-mails disabled.
- */
-export async function disableDemoAccounts(db: Db, password: string): Promise<string[]> {
-  const rows = await db
-    .select()
-    .from(users)
-    .where(inArray(users.email, DEMO_ACCOUNTS.map((a) => a.email)));
-  const known: UserRecord[] = [];
-  for (const row of rows) if (!row.disabled && (await verifyPassword(row.passwordHash, password))) known.push(row);
-  if (known.length === 0) return [];
-  await db.transaction(async (tx) => {
-    for (const row of known) {
-      await tx.update(users).set({ disabled: true, tokenVersion: sql`${users.tokenVersion} + 1` }).where(eq(users.id, row.id));
-      await appendAudit(tx, {
-        actor: 'system',
-        action: 'user.update',
-        subject: `user:${row.email}`,
-        oldValue: { role: row.role, disabled: false },
-        newValue: { role: row.role, disabled: true },
-        reason: 'demo account with the known demo password disabled: started without --demo',
-      });
-    }
-  });
-  return known.map((r) => r.email);
 }

@@ -3,7 +3,7 @@ import type { Role } from '../../shared/auth/roles.js';
 import type { UserAccount } from '../../shared/auth/user-api.js';
 import { appendAudit } from '../audit/audit-log.js';
 import { hashPassword, verifyPassword } from '../auth/password.js';
-import { normaliseEmail, type UserRecord } from '../auth/users-repository.js';
+import { isDemoAccount, normaliseEmail, type UserRecord } from '../auth/users-repository.js';
 import type { Db } from '../db/database.js';
 import { users } from '../db/schema.js';
 import { AccountEvents } from './account-events.js';
@@ -45,11 +45,13 @@ export class UserAccounts {
   constructor(
     private readonly db: Db,
     private readonly events: AccountEvents = new AccountEvents(),
+    /** Whether the demo accounts are in use (`--demo`); otherwise they are not listed. */
+    private readonly demoAccounts = true,
   ) {}
 
   async list(): Promise<UserAccount[]> {
     const rows = await this.db.select().from(users).orderBy(asc(users.email));
-    return rows.map(view);
+    return rows.filter((r) => this.demoAccounts || !isDemoAccount(r.email)).map(view);
   }
 
   async create(input: NewAccount, actor: string, reason: string | null): Promise<UserAccount> {

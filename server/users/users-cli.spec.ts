@@ -58,19 +58,26 @@ describe('accounts without --demo and the users command', { timeout: 120_000 }, 
     }
   });
 
-  it('disables demo accounts that still accept the demo password when started without --demo', async () => {
+  it('lets the demo accounts sign in only while started with the demo accounts', async () => {
     const other = await makeDataDir();
     try {
       const demo = await startTestServer(other, { demoAccounts: true });
       expect(demo.seededDemoAccounts).toBe(true);
-      expect((await login(demo, 'admin@tiltwatch.example', TEST_PASSWORD)).status).toBe(200);
+      const token = ((await login(demo, 'admin@tiltwatch.example', TEST_PASSWORD)).body as { token: string }).token;
       await demo.close();
       const real = await startTestServer(other, { demoAccounts: false });
       try {
         expect(real.hasAdmin).toBe(false);
-        expect((await login(real, 'admin@tiltwatch.example', TEST_PASSWORD)).status).toBe(403);
+        expect((await login(real, 'admin@tiltwatch.example', TEST_PASSWORD)).status).toBe(401);
+        expect((await fetch(`${real.url}/api/auth/me`, { headers: { authorization: `Bearer ${token}` } })).status).toBe(401);
       } finally {
         await real.close();
+      }
+      const again = await startTestServer(other, { demoAccounts: true });
+      try {
+        expect((await login(again, 'admin@tiltwatch.example', TEST_PASSWORD)).status).toBe(200);
+      } finally {
+        await again.close();
       }
     } finally {
       removeDataDir(other);
