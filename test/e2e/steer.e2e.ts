@@ -22,7 +22,7 @@ describe('Steer page in Chromium', () => {
     const page = await chrome.browser.newPage();
     // The browser keeps one session for all its pages: start signed out.
     await page.goto(stack.server.url);
-    await page.evaluate(() => localStorage.clear());
+    await page.evaluate('localStorage.clear()');
     await page.goto(stack.server.url);
     await page.getByLabel('Email').fill(`${role}@tiltwatch.example`);
     await page.getByLabel('Password').fill(DEMO_PASSWORD);
