@@ -13,7 +13,7 @@ import { calibrationHandlers } from './calibration/calibration-routes.js';
 import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
 import { lockDataFolder } from './data-folder/data-folder-lock.js';
-import { openDatabase } from './db/database.js';
+import { openDatabase, type OpenDatabase } from './db/database.js';
 import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
 import { CalibrationCache } from './field/calibration-cache.js';
 import { healthHandlers, type HealthReport } from './health/health-route.js';
@@ -43,6 +43,11 @@ export interface StartOptions {
   log?: Logger;
   /** WebSocket pacing and limits (defaults: 5 s to sign in, ≥ 33 ms between messages, 1 MB buffer). */
   fanout?: FanoutOptions;
+  /**
+   * A database the caller opened (and closes) instead of the one of `config`; tests use it to
+   * reach the same database, e.g. to make writes fail.
+   */
+  database?: OpenDatabase;
 }
 
 /** A started server; its owner must call `close()`. */
@@ -59,6 +64,12 @@ export interface RunningServer {
   seededDemoAccounts: boolean;
   /** The same report as `GET /api/health`. */
   counters(): HealthReport;
+  /**
+   * Ends supervision (alarms and the software interlock stop evaluating) while everything else
+   * runs on: call it before stopping the controller on a clean stop, so the stop neither trips
+   * nor mails on-call. `close()` does it first as well.
+   */
+  endSupervision(): void;
   /** Stops everything in reverse order of start; resolves when nothing is left running. */
   close(): Promise<void>;
 }
@@ -96,8 +107,8 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     closers.push(() => lock.release());
     const tokens = new TokenIssuer(loadOrCreateJwtSecret(config.dataDir));
 
-    const database = await openDatabase({ dataDir: config.dataDir, databaseUrl: config.databaseUrl });
-    closers.push(() => database.close());
+    const database = opts.database ?? (await openDatabase({ dataDir: config.dataDir, databaseUrl: config.databaseUrl }));
+    if (!opts.database) closers.push(() => database.close());
     const { db } = database;
     await seedDemoCalibration(db);
     await seedDemoProfile(db);
@@ -138,22 +149,23 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const engine = new PredictionEngine({ log });
     closers.push(() => engine.close());
     const history = new PredictionHistoryRing();
-    const prediction = new LivePredictionFeed({ engine, live, history, fanout });
+    const prediction = new LivePredictionFeed({ engine, live, history, fanout, staleMs: config.staleTripMs });
+    closers.push(() => prediction.close());
     const profiles = new ActiveProfileLoader(db, prediction);
     await profiles.reload();
     const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout, prediction });
     const gate = new FrameGate();
-    // Alarms and the software interlock evaluate each message after the pipeline applied it.
+    // Alarms and the software interlock evaluate what the pipeline made of each message.
     const supervision = await startSupervision({ db, live, sink: fanout, config, log });
     closers.push(() => supervision.close());
-    const deliver = (message: AdmittedMessage) => {
-      pipeline.handle(message);
-      supervision.supervisor.observe(message);
-    };
+    const deliver = (message: AdmittedMessage) => supervision.supervisor.observe(pipeline.handle(message));
     const ingest = await startIngest({ ...mqtt, gate, deliver, log });
     closers.push(() => ingest.close());
     supervision.supervisor.attach(ingest);
     supervision.supervisor.start();
+    const endSupervision = () => supervision.supervisor.close();
+    // Closers run in reverse: supervision ends before ingest and the controller link go away.
+    closers.push(endSupervision);
 
     const report = (): HealthReport => {
       const fanoutCounters = fanout.counters();
@@ -192,7 +204,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const port = typeof address === 'object' && address !== null ? address.port : config.port;
     const url = `http://${displayHost(config.host)}:${port}`;
     log.info({ url, mqtt: mqtt.url, db: database.kind, dataDir: config.dataDir }, 'Tiltwatch server started');
-    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, counters: report, close };
+    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, counters: report, endSupervision, close };
   } catch (error) {
     await close();
     throw error;

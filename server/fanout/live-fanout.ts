@@ -9,7 +9,7 @@ import type { SeriesChunk, ServerMessage, SlowChunk } from '../../shared/live/li
 import type { AccessControl, SignedInUser } from '../auth/access-control.js';
 import type { LiveStore } from '../live/live-store.js';
 import { appendSeriesChunk, appendSlowChunk, DECIMATED_RATE_HZ, emptySeriesChunk, emptySlowChunk } from '../live/series-chunk.js';
-import type { ChunkSink } from '../pipeline/telemetry-pipeline.js';
+import type { LiveSink } from '../live/live-sink.js';
 
 export const WS_PATH = '/ws';
 /** Close codes: sign-in missing, late or invalid / role too low. */
@@ -65,7 +65,7 @@ interface Viewer {
  * over the bound has updates skipped, and is dropped if that lasts; the pipeline only appends
  * to per-client buffers, so no browser can slow ingest.
  */
-export class LiveFanout implements ChunkSink {
+export class LiveFanout implements LiveSink {
   private readonly wss = new WebSocketServer({ noServer: true, maxPayload: 8 * 1024 });
   private readonly viewers = new Set<Viewer>();
   private readonly waiting = new Map<WebSocket, NodeJS.Timeout>();
@@ -87,12 +87,22 @@ export class LiveFanout implements ChunkSink {
     server.on('upgrade', this.onUpgrade);
   }
 
-  publish(series: SeriesChunk | null, slow: SlowChunk | null): void {
+  publishSeries(series: SeriesChunk): void {
     for (const viewer of this.viewers) {
-      if (series) appendSeriesChunk(viewer.series, series);
-      if (slow) appendSlowChunk(viewer.slow, slow);
+      appendSeriesChunk(viewer.series, series);
       this.schedule(viewer);
     }
+  }
+
+  publishSlow(slow: SlowChunk): void {
+    for (const viewer of this.viewers) {
+      appendSlowChunk(viewer.slow, slow);
+      this.schedule(viewer);
+    }
+  }
+
+  publishStateChange(): void {
+    for (const viewer of this.viewers) this.schedule(viewer);
   }
 
   /**

@@ -1,14 +1,15 @@
 /**
  * Assembles alarms, the software interlock and on-call mail for the server: limits from the
- * database (seeded with the demo set), a latched trip restored from before a restart, the
- * background record writer, the mail path (a real SMTP server, or the local catcher), the
- * supervisor and the routes. The owner calls `close()`.
+ * database (seeded with the demo set), the alarm states and a latched trip restored from
+ * before a restart, the record writer, the mail path (a real SMTP server, or the local
+ * catcher), the supervisor and the routes. The owner calls `close()`.
  */
 import type { Logger } from 'pino';
 import { AlarmBook } from '../alarms/alarm-book.js';
 import { alarmLimitHandlers } from '../alarms/alarm-limit-routes.js';
 import { loadAlarmLimits } from '../alarms/alarm-limit-repository.js';
 import { alarmHandlers, type AlarmRoutes } from '../alarms/alarm-routes.js';
+import { loadAlarmStates } from '../alarms/alarm-state-repository.js';
 import { SupervisionLog } from '../alarms/supervision-log.js';
 import type { ServerConfig } from '../config.js';
 import type { Db } from '../db/database.js';
@@ -46,6 +47,7 @@ export interface Supervision {
 export async function startSupervision(deps: { db: Db; live: LiveStore; sink: AlarmsSink; config: ServerConfig; log: Logger }): Promise<Supervision> {
   const { db, live, sink, config, log } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
+  book.restore(await loadAlarmStates(db));
   const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs }));
   const latched = await openTrip(db);
   if (latched) {
@@ -64,7 +66,10 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
     }
   };
   try {
-    const records = new SupervisionLog(db, { onError: (error) => log.error({ err: error }, 'storing alarm events or trips failed') });
+    const records = new SupervisionLog(db, {
+      statesOf: (ids) => book.memories(ids),
+      onError: (error) => log.error({ err: error }, 'storing alarm events or trips failed'),
+    });
     closers.push(() => records.close());
     const catcher = config.mail.smtpUrl === null ? await MailCatcher.start({ port: config.mail.catcherPort, log }) : null;
     if (catcher) {

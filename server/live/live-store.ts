@@ -1,6 +1,7 @@
 import type { Calibration } from '../../shared/field/calibration.js';
 import type { FieldState } from '../../shared/field/field-vector.js';
-import type { LivePrediction, LiveState, PerAxis } from '../../shared/live/live-state.js';
+import type { LivePrediction, LiveState, PerAxis, PredictionStatus } from '../../shared/live/live-state.js';
+import { DEFAULT_MIN_ORIENTING_FIELD_G } from '../../shared/profiles/sample-profile.js';
 import type { ControllerStatus, FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
 
 /**
@@ -29,8 +30,10 @@ export class LiveStore {
       lastFrameAt: null,
     },
     prediction: null,
+    predictionStatus: { state: 'no-telemetry', fieldG: null, minFieldG: DEFAULT_MIN_ORIENTING_FIELD_G, reason: 'No telemetry yet.' },
   };
   private newestSampleMs = -Infinity;
+  private lastFrameMs: number | null = null;
   private cached: LiveState | null = null;
 
   /**
@@ -51,6 +54,12 @@ export class LiveStore {
       calibration: { id: calibration.id, version: calibration.version, label: calibration.label },
       controller: { ...this.state.controller, lastFrameAt: new Date(receivedAtMs).toISOString() },
     });
+    this.lastFrameMs = receivedAtMs;
+  }
+
+  /** Server time the newest fast frame arrived, Unix epoch ms; null before the first. */
+  lastFrameAtMs(): number | null {
+    return this.lastFrameMs;
   }
 
   applySlow(frame: SlowFrame): void {
@@ -79,6 +88,11 @@ export class LiveStore {
   /** Takes the newest prediction for the measured field direction (null: none available). */
   applyPrediction(prediction: LivePrediction | null): void {
     this.update({ prediction });
+  }
+
+  /** Takes whether the prediction describes the gas now. */
+  applyPredictionStatus(predictionStatus: PredictionStatus): void {
+    this.update({ predictionStatus });
   }
 
   /** The current state; the same object until the next update, so callers must not change it. */

@@ -31,6 +31,25 @@ export interface LiveState {
   };
   /** Live prediction for the measured field direction and the active sample profile. */
   prediction: LivePrediction | null;
+  /** Whether that prediction describes the gas now. */
+  predictionStatus: PredictionStatus;
+}
+
+/**
+ * Whether the live prediction describes the gas now: `applies` with fresh telemetry and a
+ * field strong enough to orient the dipoles; `weak-field` while |B| is below the active
+ * profile's `minOrientingFieldG`; `stale` while no telemetry arrived for longer than the
+ * stale limit; `no-telemetry` before the first frame. Screens grey the prediction out unless
+ * it applies.
+ */
+export interface PredictionStatus {
+  state: 'applies' | 'weak-field' | 'stale' | 'no-telemetry';
+  /** |B| of the newest frame, G; null before the first. */
+  fieldG: number | null;
+  /** The active profile's minimum orienting field, G. */
+  minFieldG: number;
+  /** Why the prediction does not apply, in one sentence; null when it applies. */
+  reason: string | null;
 }
 
 /** An ellipse as the camera sees it: semi-axes and the major axis angle from u towards v. */

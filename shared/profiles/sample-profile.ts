@@ -7,6 +7,15 @@ import { imagingPlane } from '../physics/tof.js';
 /** Most TOF times a profile lists: the live panel shows the first, the others are for records. */
 export const MAX_TOF_TIMES = 4;
 
+/**
+ * |B| below which the field is taken as too weak to orient the dipoles, G, when a profile
+ * does not set its own (`minOrientingFieldG`). Invented for the demo lab: the lead sets the
+ * level the lab trusts for its sample (stray fields and gradients against the Zeeman energy).
+ */
+export const DEFAULT_MIN_ORIENTING_FIELD_G = 0.5;
+/** Largest `minOrientingFieldG` accepted, G: above it no field the coils give would count. */
+export const MAX_MIN_ORIENTING_FIELD_G = 20;
+
 const numberOf = (what: string) => z.number({ error: `${what} must be a finite number` });
 const vector3 = (what: string) => {
   const error = `${what} must be three finite numbers`;
@@ -62,6 +71,16 @@ export const SampleProfile = z
     }).check(
       z.minLength(1, { error: 'tofMs must list at least one time in ms' }),
       z.maxLength(MAX_TOF_TIMES, { error: `tofMs must list at most ${MAX_TOF_TIMES} times` }),
+    ),
+    /**
+     * |B| below which the prediction is shown as not applying (field too weak to orient the
+     * dipoles), G; default `DEFAULT_MIN_ORIENTING_FIELD_G`.
+     */
+    minOrientingFieldG: z.optional(
+      numberOf('minOrientingFieldG (G)').check(
+        z.positive({ error: 'minOrientingFieldG must be a field above 0 G' }),
+        z.lte(MAX_MIN_ORIENTING_FIELD_G, { error: `minOrientingFieldG must be at most ${MAX_MIN_ORIENTING_FIELD_G} G` }),
+      ),
     ),
     /** Camera line of sight "x", "y", "z" or in-plane vectors u (horizontal) and v (vertical), trap frame. */
     imaging: z.union([z.enum(['x', 'y', 'z']), z.strictObject({ u: vector3('imaging.u'), v: vector3('imaging.v') })], {

@@ -61,6 +61,11 @@ export class LiveFeed {
    * change; rare, so published at once rather than with the summary). Null until the first.
    */
   readonly alarms = this.latestAlarms.asReadonly();
+  /**
+   * The `revision` of the newest `alarms` message: changes only when the interlock state or the
+   * active list changed, not when a push merely refreshes present values. Null until the first.
+   */
+  readonly alarmsRevision = computed(() => this.latestAlarms()?.revision ?? null);
   /** Browser-clock time of the next reconnect attempt while offline. */
   readonly reconnectAt = this.retryAt.asReadonly();
   /** Current browser time, advanced with each summary; for "n s ago" texts. */

@@ -13,6 +13,7 @@ import { SPECIES } from '../../../shared/physics/species';
 import type { ProfileRecord, ProfileSaveRequest } from '../../../shared/profiles/profile-record';
 import type { SampleProfile } from '../../../shared/profiles/sample-profile';
 import { errorText } from '../api/error-text';
+import { DEFAULT_MIN_ORIENTING_FIELD_G } from '../../../shared/profiles/sample-profile';
 import { CUSTOM_ELECTRIC, CUSTOM_MAGNETIC, DRAFT_FIELDS, draftFromProfile, isElectricSpecies, profileFromDraft, type DraftField, type ProfileDraft } from './profile-draft';
 
 type DraftControls = { [K in DraftField]: FormControl<string> };
@@ -49,6 +50,7 @@ export class ProfileForm implements OnInit {
   readonly closed = output<void>();
 
   protected readonly speciesOptions = SPECIES_OPTIONS;
+  protected readonly defaultMinField = DEFAULT_MIN_ORIENTING_FIELD_G;
   protected readonly form = new FormGroup({
     ...(Object.fromEntries(DRAFT_FIELDS.map((key) => [key, new FormControl('', { nonNullable: true })])) as DraftControls),
     reason: new FormControl('', { nonNullable: true }),
