@@ -23,7 +23,7 @@ describe('loadConfig', () => {
       logLevel: 'info',
       retention: { rawHours: 24, rollupDays: 30 },
       loginAttemptsPerMinute: 10,
-      mail: { smtpUrl: null, catcherPort: 0, onCall: ['oncall@lindqvist-hall.example'], from: 'tiltwatch@lindqvist-hall.example' },
+      mail: { smtpUrl: null, mailboxPort: 0, onCall: ['oncall@lindqvist-hall.example'], from: 'tiltwatch@lindqvist-hall.example' },
       staleTripMs: 250,
     });
     expect(config.dataDir).toMatch(/[/\\]data$/);
@@ -57,12 +57,12 @@ describe('loadConfig', () => {
     });
     expect(config.mail).toEqual({
       smtpUrl: 'smtp://relay.lindqvist-hall.example:587',
-      catcherPort: 0,
+      mailboxPort: 0,
       onCall: ['oncall@lindqvist-hall.example', 'ada.berg@lindqvist-hall.example'],
       from: 'alarms@lindqvist-hall.example',
     });
     expect(config.staleTripMs).toBe(400);
-    expect(loadConfig({ SMTP_CATCHER_PORT: '2525' }).mail.catcherPort).toBe(2525);
+    expect(loadConfig({ SMTP_MAILBOX_PORT: '2525' }).mail.mailboxPort).toBe(2525);
   });
 
   it.each([
@@ -80,8 +80,8 @@ describe('loadConfig', () => {
     [{ MQTT_URL: 'mqtt://b.example', MQTT_USERNAME: 'server' }, /MQTT_USERNAME and MQTT_PASSWORD must be set together/],
     [{ MQTT_URL: 'mqtt://b.example', MQTT_PORT: '1884' }, /MQTT_HOST\/MQTT_PORT configure the embedded broker and conflict with MQTT_URL/],
     [{ SMTP_URL: 'relay.example:25' }, /^SMTP_URL=\(value hidden\) must look like smtp:\/\//],
-    [{ SMTP_CATCHER_PORT: 'any' }, /^SMTP_CATCHER_PORT="any" must be a whole number from 0 to 65535/],
-    [{ SMTP_URL: 'smtp://relay.example', SMTP_CATCHER_PORT: '2525' }, /SMTP_CATCHER_PORT configures the local mail catcher/],
+    [{ SMTP_MAILBOX_PORT: 'any' }, /^SMTP_MAILBOX_PORT="any" must be a whole number from 0 to 65535/],
+    [{ SMTP_URL: 'smtp://relay.example', SMTP_MAILBOX_PORT: '2525' }, /SMTP_MAILBOX_PORT configures the local mailbox/],
     [{ TILTWATCH_ON_CALL: 'oncall@lindqvist-hall.example;lead' }, /^TILTWATCH_ON_CALL="oncall@lindqvist-hall.example;lead" must be e-mail addresses separated by commas/],
     [{ TILTWATCH_ON_CALL: ',' }, /^TILTWATCH_ON_CALL="," must be e-mail addresses/],
     [{ TILTWATCH_MAIL_FROM: 'tiltwatch' }, /^TILTWATCH_MAIL_FROM="tiltwatch" must be an e-mail address/],

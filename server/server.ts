@@ -24,6 +24,7 @@ import { startIngest } from './ingest/mqtt-ingest.js';
 import { LiveStore } from './live/live-store.js';
 import { liveHandlers } from './live/live-routes.js';
 import { createLogger } from './logging/logger.js';
+import { logbookHandlers } from './logbook/logbook-routes.js';
 import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
 import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
 import { PredictionEngine } from './prediction/prediction-engine.js';
@@ -191,6 +192,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),
         ...supervision.handlers,
+        ...logbookHandlers({ db, targets: { db, alarmIds: () => supervision.book.limits().map((l) => l.id) } }),
       },
       access,
       webRoot: WEB_ROOT,

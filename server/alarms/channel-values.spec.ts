@@ -71,10 +71,10 @@ describe('channelValues', () => {
     expect(channelValues(live(), NOW, { targetDirection: target }).fieldAngleDeviation).toBeCloseTo(3, 9);
   });
 
-  it('takes the collapse margin from the prediction when there is one', () => {
-    expect(channelValues(live(), NOW).collapseMargin).toBeUndefined();
-    const prediction = { collapseMargin: 0.42 } as NonNullable<LiveState['prediction']>;
-    expect(channelValues(live({ prediction }), NOW).collapseMargin).toBe(0.42);
+  it('takes the collapse ratio from the prediction when there is one', () => {
+    expect(channelValues(live(), NOW).collapseRatio).toBeUndefined();
+    const prediction = { collapseRatio: 0.42 } as NonNullable<LiveState['prediction']>;
+    expect(channelValues(live({ prediction }), NOW).collapseRatio).toBe(0.42);
   });
 });
 

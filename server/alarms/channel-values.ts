@@ -39,7 +39,7 @@ export function channelValues(live: LiveState, nowMs: number, extras: ChannelExt
     const target = extras.targetDirection;
     if (target) setIfFinite(out, 'fieldAngleDeviation', angleBetweenDeg(live.field.vector, target));
   }
-  setIfFinite(out, 'collapseMargin', live.prediction?.collapseMargin);
+  setIfFinite(out, 'collapseRatio', live.prediction?.collapseRatio);
   const lastFrameMs = extras.lastFrameAtMs;
   if (finite(lastFrameMs)) out.stale = Math.max(0, nowMs - lastFrameMs);
   return out;

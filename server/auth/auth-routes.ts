@@ -2,13 +2,14 @@ import type { RequestHandler } from 'express';
 import { z } from 'zod';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
+import { emailAddress, secretText } from '../http/fields.js';
 import { parseInput } from '../http/validate.js';
 import type { LoginUseCase } from './login.js';
 import { loginRateLimit } from './login-rate-limit.js';
 
 const LoginRequest = z.object({
-  email: z.preprocess((v) => (typeof v === 'string' ? v.trim() : v), z.email({ error: 'must be an e-mail address' }).max(320)),
-  password: z.string({ error: 'must be a string' }).min(1, 'must not be empty').max(1024, 'must be at most 1024 characters'),
+  email: emailAddress(),
+  password: secretText({ min: 1, max: 1024 }),
 });
 
 /** `POST /api/auth/login` (rate-limited) and `GET /api/auth/me`. */

@@ -4,6 +4,7 @@ import jwt from 'jsonwebtoken';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES, hasRole, type Role } from '../../shared/auth/roles.js';
 import { DEMO_PROFILE } from '../../shared/profiles/demo-profile.js';
+import { DEMO_LEVEL_SET } from '../levels/demo-levels.js';
 import { API_ROUTES, type RouteId } from '../http/route-table.js';
 import type { RunningServer } from '../server.js';
 import { makeDataDir, removeDataDir, signIn, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
@@ -27,6 +28,9 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   live: {},
   series: { query: '?seconds=60' },
   channels: {},
+  'levels.get': {},
+  'levels.history': {},
+  'levels.update': { body: { levels: DEMO_LEVEL_SET, reason: 'route access check' } },
   'calibrations.list': {},
   'calibrations.active': {},
   'profiles.list': {},
@@ -48,6 +52,10 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   'alarm-limits.update': { path: '/api/alarm-limits/waterReturn.x.H', body: { limit: 35, reason: 'route access check' } },
   'interlock.status': {},
   'interlock.reset': { body: { reason: 'route access check' }, allowedStatus: 409 },
+  'logbook.write': { body: { text: 'route access check', tags: ['access'] } },
+  'logbook.list': { query: '?tag=access' },
+  // No attachment exists on a fresh database: the role check passes, then 404.
+  'logbook.attachment': { path: '/api/logbook/attachments/999999', allowedStatus: 404 },
   'admin.outbox': {},
 };
 

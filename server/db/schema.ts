@@ -20,12 +20,15 @@ import {
   real,
   serial,
   text,
+  type AnyPgColumn,
   timestamp,
   uniqueIndex,
 } from 'drizzle-orm/pg-core';
 import type { AlarmEventKind, AlarmSuppression } from '../../shared/alarms/alarm-api.js';
+import type { LogbookLinkKind } from '../../shared/logbook/logbook-api.js';
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
+import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
 import type { AlarmMemory, AlarmState } from '../alarms/alarm-state.js';
@@ -212,6 +215,19 @@ export const alarmLimits = pgTable('alarm_limits', {
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });
 
+/**
+ * Versions of the lead-set level set (display bands, trip levels, operating settings): every
+ * edit adds a version with its reason, never changes a stored one; the newest is in force.
+ */
+export const levelSets = pgTable('level_sets', {
+  id: serial('id').primaryKey(),
+  version: integer('version').notNull().unique(),
+  body: jsonb('body').$type<LevelSet>().notNull(),
+  createdBy: text('created_by').notNull(),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  reason: text('reason').notNull(),
+});
+
 /** Every alarm transition (raise, clear, acknowledge, shelve, …): the alarm history. */
 export const alarmEvents = pgTable(
   'alarm_events',
@@ -250,6 +266,56 @@ export const interlockTrips = pgTable('interlock_trips', {
   resetReason: text('reset_reason'),
 });
 
+/** PostgreSQL text-search document (written by the database, never by the application). */
+const tsvector = customType<{ data: string }>({ dataType: () => 'tsvector' });
+const bytea = customType<{ data: Uint8Array; driverData: Uint8Array }>({ dataType: () => 'bytea' });
+
+/**
+ * Logbook entries, append-only (a trigger refuses UPDATE and DELETE): a correction is a new
+ * entry whose `amends` names the one it corrects. `at` is the time the note refers to;
+ * `search` is the English text-search document of `text` (GIN-indexed).
+ */
+export const logbookEntries = pgTable(
+  'logbook_entries',
+  {
+    id: serial('id').primaryKey(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    at: timestamp('at', { withTimezone: true }).notNull(),
+    author: text('author').notNull(),
+    text: text('text').notNull(),
+    tags: text('tags').array().notNull().default(sql`'{}'::text[]`),
+    linkKind: text('link_kind').$type<LogbookLinkKind>(),
+    linkRef: text('link_ref'),
+    amends: integer('amends').references((): AnyPgColumn => logbookEntries.id),
+    search: tsvector('search')
+      .notNull()
+      .generatedAlwaysAs((): ReturnType<typeof sql> => sql`to_tsvector('english'::regconfig, ${logbookEntries.text})`),
+  },
+  (t) => [
+    index('logbook_entries_at').on(t.at),
+    index('logbook_entries_search').using('gin', t.search),
+    index('logbook_entries_tags').using('gin', t.tags),
+    index('logbook_entries_amends').on(t.amends),
+  ],
+);
+
+/** Files attached to logbook entries (type checked by content before storing), append-only. */
+export const logbookAttachments = pgTable(
+  'logbook_attachments',
+  {
+    id: serial('id').primaryKey(),
+    entryId: integer('entry_id')
+      .notNull()
+      .references(() => logbookEntries.id),
+    fileName: text('file_name').notNull(),
+    /** MIME type found from the content, the one the file is served with. */
+    contentType: text('content_type').notNull(),
+    sizeBytes: integer('size_bytes').notNull(),
+    data: bytea('data').notNull(),
+  },
+  (t) => [index('logbook_attachments_entry').on(t.entryId)],
+);
+
 /**
  * The state of each alarm that must survive a restart (acknowledged, latched, shelved with its
  * expiry, out of service, raise time and value, first-out group): one row per alarm id, written
@@ -271,7 +337,10 @@ export const schema = {
   rollups1s,
   auditLog,
   alarmLimits,
+  levelSets,
   alarmEvents,
   interlockTrips,
+  logbookEntries,
+  logbookAttachments,
   alarmStates,
 };

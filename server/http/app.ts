@@ -2,13 +2,15 @@ import express, { type Express } from 'express';
 import type { Logger } from 'pino';
 import type { AccessControl } from '../auth/access-control.js';
 import { apiNotFound, errorHandler } from './error-handler.js';
+import { refuseHostileInput } from './hostile-input.js';
 import { requestLogger } from './request-logger.js';
 import { API_ROUTES, type RouteHandlers } from './route-table.js';
 import { securityHeaders } from './security-headers.js';
 import { webApp } from './web-app.js';
 
 /**
- * The Express application: security headers, request log, JSON bodies up to 100 kB, the API
+ * The Express application: security headers, request log, JSON bodies up to 100 kB, hostile
+ * input refused on every `/api` request (NUL, lone surrogates, absurd numbers), the API
  * routes of the route table (each behind `requireRole(minRole)` unless public), a JSON 404 for
  * other `/api` paths, the web app, and the error funnel last.
  */
@@ -18,6 +20,7 @@ export function createApp(deps: { handlers: RouteHandlers; access: AccessControl
   app.use(securityHeaders());
   app.use(requestLogger(deps.log));
   app.use(express.json({ limit: '100kb' }));
+  app.use('/api', refuseHostileInput);
   for (const route of API_ROUTES) {
     const guard = route.minRole === null ? [] : [deps.access.requireRole(route.minRole)];
     app[route.method](route.path, ...guard, ...[deps.handlers[route.id]].flat());

@@ -23,7 +23,10 @@ export const API_ROUTES = [
   { id: 'auth.me', method: 'get', path: '/api/auth/me', minRole: 'viewer', summary: 'The signed-in user' },
   { id: 'live', method: 'get', path: '/api/live', minRole: 'viewer', summary: 'Latest state of the apparatus' },
   { id: 'series', method: 'get', path: '/api/series', minRole: 'viewer', summary: 'Chart points of the last N seconds (?seconds=N)' },
-  { id: 'channels', method: 'get', path: '/api/channels', minRole: 'viewer', summary: 'Display bands of the live channels' },
+  { id: 'channels', method: 'get', path: '/api/channels', minRole: 'viewer', summary: 'Display bands of the live channels, from the level set and alarm limits in force' },
+  { id: 'levels.get', method: 'get', path: '/api/levels', minRole: 'viewer', summary: 'The level set in force: display bands, trip levels, operating settings' },
+  { id: 'levels.history', method: 'get', path: '/api/levels/history', minRole: 'viewer', summary: 'Stored versions of the level set, newest first' },
+  { id: 'levels.update', method: 'put', path: '/api/levels', minRole: 'lead', summary: 'Store the next level-set version: { levels, reason } (audited)' },
   { id: 'calibrations.list', method: 'get', path: '/api/calibrations', minRole: 'viewer', summary: 'Calibration versions, the active one marked' },
   { id: 'calibrations.active', method: 'get', path: '/api/calibrations/active', minRole: 'viewer', summary: 'The active calibration' },
   { id: 'profiles.list', method: 'get', path: '/api/profiles', minRole: 'viewer', summary: 'Sample-profile versions, the active one marked' },
@@ -43,7 +46,10 @@ export const API_ROUTES = [
   { id: 'alarm-limits.update', method: 'put', path: '/api/alarm-limits/:id', minRole: 'lead', summary: 'Change one alarm limit: { fields…, reason } (audited)' },
   { id: 'interlock.status', method: 'get', path: '/api/interlock', minRole: 'viewer', summary: 'Software interlock: state, first-out, conditions, hardware trip, history' },
   { id: 'interlock.reset', method: 'post', path: '/api/interlock/reset', minRole: 'operator', summary: 'Reset the tripped interlock once every condition cleared: { reason }' },
-  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mail catcher' },
+  { id: 'logbook.write', method: 'post', path: '/api/logbook/entries', minRole: 'operator', summary: 'Write a logbook entry: JSON { text, tags?, at?, link?, amends? } or multipart with files "file" → 201 { id }' },
+  { id: 'logbook.list', method: 'get', path: '/api/logbook/entries', minRole: 'viewer', summary: 'Logbook entries, newest first (?q=&from=&to=&tag=&limit=) → { entries }' },
+  { id: 'logbook.attachment', method: 'get', path: '/api/logbook/attachments/:id', minRole: 'viewer', summary: 'One attachment, served as its checked type' },
+  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mailbox' },
 ] as const satisfies readonly RouteSpec[];
 
 export type RouteId = (typeof API_ROUTES)[number]['id'];

@@ -111,7 +111,7 @@ describe('software interlock routes', () => {
     expect(again).toMatchObject({ status: 409, body: { error: expect.stringMatching(/not tripped/), conditions: [] } });
   });
 
-  it('mails the trip to the on-call list through the local catcher, shown to admins only', async () => {
+  it('mails the trip to the on-call list through the local mailbox, shown to admins only', async () => {
     const mail = await waitFor(async () => {
       const { body } = await call<{ messages: { to: string[]; subject: string; text: string; receivedAt: string }[] }>('admin', 'GET', '/api/admin/outbox');
       return body.messages.find((m) => m.subject.includes('Interlock tripped'));

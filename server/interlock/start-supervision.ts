@@ -2,7 +2,7 @@
  * Assembles alarms, the software interlock and on-call mail for the server: limits from the
  * database (seeded with the demo set), the alarm states and a latched trip restored from
  * before a restart, the record writer, the mail path (a real SMTP server, or the local
- * catcher), the supervisor and the routes. The owner calls `close()`.
+ * mailbox), the supervisor and the routes. The owner calls `close()`.
  */
 import type { Logger } from 'pino';
 import { AlarmBook } from '../alarms/alarm-book.js';
@@ -15,13 +15,17 @@ import type { ServerConfig } from '../config.js';
 import type { Db } from '../db/database.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import type { LiveStore } from '../live/live-store.js';
+import { composeChannelBands } from '../../shared/levels/channel-bands.js';
+import type { ChannelBands } from '../../shared/live/channels.js';
+import { levelHandlers, type LevelRoutes } from '../levels/level-routes.js';
+import { LevelStore } from '../levels/level-store.js';
 import { parseNoticeOptions } from '../notify/compose-notice.js';
-import { MailCatcher } from '../notify/mail-catcher.js';
+import { LocalMailbox } from '../notify/local-mailbox.js';
 import { Mailer } from '../notify/mailer.js';
 import { OnCallNotifier } from '../notify/on-call-notifier.js';
 import { outboxHandlers } from '../notify/outbox-routes.js';
 import { Interlock } from './interlock.js';
-import { parseInterlockConfig } from './interlock-config.js';
+import { interlockTrips, parseInterlockConfig } from './interlock-config.js';
 import { interlockHandlers } from './interlock-routes.js';
 import { Supervisor, type AlarmsSink } from './supervisor.js';
 import { openTrip } from './trip-repository.js';
@@ -35,20 +39,40 @@ type SupervisionRoutes =
   | 'alarm-limits.update'
   | 'interlock.status'
   | 'interlock.reset'
-  | 'admin.outbox';
+  | 'admin.outbox'
+  | LevelRoutes;
 
 export interface Supervision {
   supervisor: Supervisor;
+  /** The alarms (read by the logbook's links and the handover draft). */
+  book: AlarmBook;
+  /** The software interlock (its state goes into the handover draft). */
+  interlock: Interlock;
+  /** On-call mail (the handover summary goes out through it). */
+  mailer: Mailer;
   handlers: Pick<RouteHandlers, SupervisionRoutes>;
-  /** Stops evaluating, writes what is queued, closes the mailer and the local catcher. */
+  /** Stops evaluating, writes what is queued, closes the mailer and the local mailbox. */
   close(): Promise<void>;
 }
 
-export async function startSupervision(deps: { db: Db; live: LiveStore; sink: AlarmsSink; config: ServerConfig; log: Logger }): Promise<Supervision> {
+/** Where the alarm state and the display bands in force go (the WebSocket fan-out). */
+export interface SupervisionSink extends AlarmsSink {
+  publishChannels(bands: ChannelBands): void;
+}
+
+export async function startSupervision(deps: { db: Db; live: LiveStore; sink: SupervisionSink; config: ServerConfig; log: Logger }): Promise<Supervision> {
   const { db, live, sink, config, log } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
   book.restore(await loadAlarmStates(db));
-  const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs }));
+  const levels = await LevelStore.load(db);
+  const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs, ...interlockTrips(levels.inForce().levels.trips) }));
+  // One source: the level set in force feeds the interlock's trip levels and the gauges' bands.
+  const publishBands = () => sink.publishChannels(composeChannelBands(levels.inForce(), book.limits()));
+  levels.onChange((set) => {
+    interlock.retune(interlockTrips(set.levels.trips));
+    publishBands();
+  });
+  publishBands();
   const latched = await openTrip(db);
   if (latched) {
     interlock.restore(latched);
@@ -71,12 +95,12 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
       onError: (error) => log.error({ err: error }, 'storing alarm events or trips failed'),
     });
     closers.push(() => records.close());
-    const catcher = config.mail.smtpUrl === null ? await MailCatcher.start({ port: config.mail.catcherPort, log }) : null;
-    if (catcher) {
-      closers.push(() => catcher.close());
-      log.info({ url: catcher.url }, 'local mail catcher running (no SMTP_URL): notices appear on the admin Outbox page');
+    const mailbox = config.mail.smtpUrl === null ? await LocalMailbox.start({ port: config.mail.mailboxPort, log }) : null;
+    if (mailbox) {
+      closers.push(() => mailbox.close());
+      log.info({ url: mailbox.url }, 'local mailbox running (no SMTP_URL): notices appear on the admin Outbox page');
     }
-    const mailer = new Mailer({ transport: config.mail.smtpUrl ?? catcher!.url, from: config.mail.from, log });
+    const mailer = new Mailer({ transport: config.mail.smtpUrl ?? mailbox!.url, from: config.mail.from, log });
     closers.push(() => mailer.close());
     const notice = parseNoticeOptions({ onCall: config.mail.onCall, site: SITE });
     const notifier = new OnCallNotifier(mailer, notice, (id) => book.limits().find((l) => l.id === id));
@@ -85,11 +109,15 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
 
     return {
       supervisor,
+      book,
+      interlock,
+      mailer,
       handlers: {
         ...alarmHandlers({ db, book, records, announce: () => supervisor.announce() }),
-        ...alarmLimitHandlers(db, book),
+        ...alarmLimitHandlers(db, book, levels, publishBands),
+        ...levelHandlers(levels, book),
         ...interlockHandlers({ db, interlock, live, supervisor, records }),
-        ...outboxHandlers(catcher),
+        ...outboxHandlers(mailbox),
       },
       close,
     };

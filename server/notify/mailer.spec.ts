@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import net from 'node:net';
 import { pino } from 'pino';
 import { Mailer, type MailTransport } from './mailer.js';
-import { MailCatcher } from './mail-catcher.js';
+import { LocalMailbox } from './local-mailbox.js';
 import { composeTripNotice, SUPERVISORY_CAUTION } from './compose-notice.js';
 import { Interlock } from '../interlock/interlock.js';
 
@@ -40,19 +40,19 @@ afterEach(async () => {
   while (owned.length) await owned.pop()!.close();
 });
 
-describe('Mailer with the local mail catcher', () => {
-  it('delivers a trip notice over real SMTP to the catcher', async () => {
-    const catcher = await MailCatcher.start();
-    owned.push(catcher);
+describe('Mailer with the local mailbox', () => {
+  it('delivers a trip notice over real SMTP to the mailbox', async () => {
+    const mailbox = await LocalMailbox.start();
+    owned.push(mailbox);
     const { log } = capturedLog();
-    const mailer = new Mailer({ transport: catcher.url, from: FROM, log });
+    const mailer = new Mailer({ transport: mailbox.url, from: FROM, log });
     owned.push(mailer);
 
     const notice = tripNotice();
     mailer.send(notice);
     await mailer.idle();
 
-    const [received] = catcher.messages();
+    const [received] = mailbox.messages();
     expect(received).toMatchObject({ from: FROM, to: ON_CALL, subject: notice.subject });
     expect(received.text).toContain('First out:  Coil temperature z: 66.2 °C (trips above 65.0 °C)');
     expect(received.text).toContain(SUPERVISORY_CAUTION);
@@ -60,20 +60,20 @@ describe('Mailer with the local mail catcher', () => {
   });
 
   it('keeps only the newest messages up to its capacity, newest first', async () => {
-    const catcher = await MailCatcher.start({ capacity: 2 });
-    owned.push(catcher);
-    const mailer = new Mailer({ transport: catcher.url, from: FROM, log: capturedLog().log });
+    const mailbox = await LocalMailbox.start({ capacity: 2 });
+    owned.push(mailbox);
+    const mailer = new Mailer({ transport: mailbox.url, from: FROM, log: capturedLog().log });
     owned.push(mailer);
     for (const n of [1, 2, 3]) mailer.send({ to: ON_CALL, subject: `notice ${n}`, text: 'test' });
     await mailer.idle();
-    expect(catcher.messages().map((m) => m.subject)).toEqual(['notice 3', 'notice 2']);
+    expect(mailbox.messages().map((m) => m.subject)).toEqual(['notice 3', 'notice 2']);
   });
 
   it('listens on loopback only', async () => {
-    const catcher = await MailCatcher.start();
-    owned.push(catcher);
-    expect(catcher.url).toBe(`smtp://127.0.0.1:${catcher.port}`);
-    expect(catcher.port).toBeGreaterThan(0);
+    const mailbox = await LocalMailbox.start();
+    owned.push(mailbox);
+    expect(mailbox.url).toBe(`smtp://127.0.0.1:${mailbox.port}`);
+    expect(mailbox.port).toBeGreaterThan(0);
   });
 });
 

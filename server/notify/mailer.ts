@@ -25,7 +25,7 @@ export interface MailLog {
 }
 
 export interface MailerOptions {
-  /** SMTP URL (e.g. the catcher's `smtp://127.0.0.1:PORT`, or `SMTP_URL`) or a transport. */
+  /** SMTP URL (e.g. the mailbox's `smtp://127.0.0.1:PORT`, or `SMTP_URL`) or a transport. */
   transport: string | MailTransport;
   /** Sender address, e.g. `tiltwatch@lindqvist-hall.example`. */
   from: string;

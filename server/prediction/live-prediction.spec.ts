@@ -98,16 +98,16 @@ describe('live prediction in the server', () => {
     expect(i).toBeGreaterThanOrEqual(0);
     expect(history.fermiSurfaceAspect[i]).toBe(p.fermiSurfaceAspect);
     expect(history.tofAspect[i]).toBe(p.tofAspect);
-    expect([history.fermiSurfaceAspect, history.tofAspect, history.collapseMargin].map((a) => a.length)).toEqual([history.t.length, history.t.length, history.t.length]);
+    expect([history.fermiSurfaceAspect, history.tofAspect, history.collapseRatio].map((a) => a.length)).toEqual([history.t.length, history.t.length, history.t.length]);
   });
 
-  it('adds the collapse margin to the live prediction once ε_dd,crit is known', async () => {
-    const p = await livePrediction((q) => q.collapseMargin !== null);
-    expect(p.collapseMargin).toBeGreaterThan(0);
-    expect(p.collapseMargin).toBeLessThan(1);
+  it('adds the collapse ratio to the live prediction once ε_dd,crit is known', async () => {
+    const p = await livePrediction((q) => q.collapseRatio !== null);
+    expect(p.collapseRatio).toBeGreaterThan(0);
+    expect(p.collapseRatio).toBeLessThan(1);
     await vi.waitFor(async () => {
       const history = await get<PredictionHistory>('/api/prediction/history?seconds=600');
-      expect(history.collapseMargin.at(-1)).toBe(p.collapseMargin);
+      expect(history.collapseRatio.at(-1)).toBe(p.collapseRatio);
     }, WAIT);
   });
 

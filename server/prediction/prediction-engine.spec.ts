@@ -34,17 +34,17 @@ function predictionWhere(e: PredictionEngine, accept: (p: LivePrediction) => boo
   });
 }
 
-const withMargin = (p: LivePrediction) => p.collapseMargin !== null;
+const withRatio = (p: LivePrediction) => p.collapseRatio !== null;
 
 describe('PredictionEngine (real worker thread)', () => {
-  it('publishes the prediction for a direction that a direct predict() call gives, then adds the collapse margin', async () => {
+  it('publishes the prediction for a direction that a direct predict() call gives, then adds the collapse ratio', async () => {
     const e = engine();
     e.setProfile(7, DEMO_PROFILE);
     e.updateDirection({ thetaDeg: 35, phiDeg: 25 }, 0);
     const first = await predictionWhere(e, () => true);
     const direct = predict(sampleParamsOf(DEMO_PROFILE), { thetaDeg: 35, phiDeg: 25 }, { tofMs: [0, 20], imaging: 'y' });
 
-    expect(first).toMatchObject({ stable: true, reason: null, profileId: 7, thetaDeg: 35, phiDeg: 25, collapseMargin: null });
+    expect(first).toMatchObject({ stable: true, reason: null, profileId: 7, thetaDeg: 35, phiDeg: 25, collapseRatio: null });
     expect(first.epsDd).toBe(direct.epsDd);
     // The first solve is cold in both, so the numbers agree exactly.
     expect(first.fermiSurfaceAspect).toBe(direct.fermiSurface?.aspectRatio);
@@ -59,10 +59,10 @@ describe('PredictionEngine (real worker thread)', () => {
     });
     expect(Number.isNaN(Date.parse(first.computedAt))).toBe(false);
 
-    const later = await predictionWhere(e, withMargin);
+    const later = await predictionWhere(e, withRatio);
     const centre = directionBucket(fieldDirectionOf(35, 25), 1).centre;
     const critical = predict(sampleParamsOf(DEMO_PROFILE), centre, { computeCritical: true });
-    expect(later.collapseMargin).toBeCloseTo(direct.epsDd / (critical.epsDdCritical as number), 6);
+    expect(later.collapseRatio).toBeCloseTo(direct.epsDd / (critical.epsDdCritical as number), 6);
     expect(later.fermiSurfaceAspect).toBe(first.fermiSurfaceAspect);
     expect(e.counters()).toMatchObject({ predictions: 1, criticalComputations: 1 });
   });
@@ -71,7 +71,7 @@ describe('PredictionEngine (real worker thread)', () => {
     const e = engine({ minIntervalMs: 0 });
     e.setProfile(1, DEMO_PROFILE);
     e.updateDirection({ thetaDeg: 35, phiDeg: 25 }, 0);
-    await predictionWhere(e, withMargin);
+    await predictionWhere(e, withRatio);
 
     e.updateDirection({ thetaDeg: 35.1, phiDeg: 25 }, 1);
     e.updateDirection({ thetaDeg: 35, phiDeg: 25.15 }, 2);
@@ -128,12 +128,12 @@ describe('PredictionEngine (real worker thread)', () => {
     expect(e.counters().predictions).toBe(2);
   });
 
-  it('reports a collapsed gas as not stable, with the reason, its margin and no geometry', async () => {
+  it('reports a collapsed gas as not stable, with the reason, its ratio and no geometry', async () => {
     const e = engine({ minIntervalMs: 0 });
     const collapsed = (p: LivePrediction) => {
       expect(p).toMatchObject({ stable: false, fermiSurfaceAspect: null, cloudAspect: null, tofAspect: null, tofMajorAngleDeg: null, camera: null });
       expect(p.reason).toMatch(/collapsed/);
-      expect(p.collapseMargin).toBeGreaterThan(1);
+      expect(p.collapseRatio).toBeGreaterThan(1);
     };
     e.setProfile(1, { ...DEMO_PROFILE, atomNumber: 1e15 });
     e.updateDirection({ thetaDeg: 0, phiDeg: 0 }, 0);
@@ -164,7 +164,7 @@ describe('PredictionEngine (real worker thread)', () => {
     const e = new PredictionEngine({ minIntervalMs: 60_000 });
     e.setProfile(1, DEMO_PROFILE);
     e.updateDirection({ thetaDeg: 20, phiDeg: 0 }, 0);
-    await predictionWhere(e, withMargin);
+    await predictionWhere(e, withRatio);
     // The next direction waits for the interval: the worker and a timer are open.
     e.updateDirection({ thetaDeg: 40, phiDeg: 0 }, 1);
     expect(open('MessagePort')).toBe(portsBefore + 1);

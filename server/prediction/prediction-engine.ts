@@ -77,7 +77,7 @@ const RESTART_DELAY_MS = [50, 200, 1000, 5000];
  *   the newest waits, and predictions start at most every `minIntervalMs`;
  * * each prediction starts from the previous solution (the worker keeps it);
  * * ε_dd,crit is slower, so it is computed after the prediction is published, once per trap
- *   shape and direction cell, and the prediction is then republished with its collapse margin;
+ *   shape and direction cell, and the prediction is then republished with its collapse ratio;
  * * a crashed worker is logged and restarted; `close()` terminates it.
  */
 export class PredictionEngine {
@@ -234,7 +234,7 @@ export class PredictionEngine {
   private startCriticalIfMissing(): void {
     const p = this.current;
     const active = this.active as ActiveProfile;
-    if (!p || !p.stable || p.collapseMargin !== null) return;
+    if (!p || !p.stable || p.collapseRatio !== null) return;
     const bucket = directionBucket(fieldDirectionOf(p.thetaDeg, p.phiDeg), this.cellDeg);
     if (this.cache.get(active.shapeKey, bucket.key) !== undefined) return;
     const jobId = this.nextJobId++;
@@ -265,7 +265,7 @@ export class PredictionEngine {
       return;
     }
     const prediction: LivePrediction = { ...summary, profileId: active.id, computedAt: new Date().toISOString() };
-    if (prediction.stable) prediction.collapseMargin = this.cachedMargin(prediction);
+    if (prediction.stable) prediction.collapseRatio = this.cachedRatio(prediction);
     this.publish(prediction);
   }
 
@@ -273,16 +273,16 @@ export class PredictionEngine {
     // Valid for the trap shape whatever the profile is now: keep it.
     this.cache.set(job.shapeKey, job.bucketKey, epsDdCritical);
     const p = this.current;
-    if (!p || !p.stable || p.collapseMargin !== null) return;
-    const margin = this.cachedMargin(p);
-    if (margin !== null) this.publish({ ...p, collapseMargin: margin });
+    if (!p || !p.stable || p.collapseRatio !== null) return;
+    const ratio = this.cachedRatio(p);
+    if (ratio !== null) this.publish({ ...p, collapseRatio: ratio });
   }
 
   private onFailure(job: InFlight, message: string): void {
     this.count.failures++;
     this.log?.error({ job: job.kind, err: message }, 'prediction failed');
     if (job.kind === 'critical') {
-      // Remember the cell as unknown (margin stays null) instead of retrying it forever.
+      // Remember the cell as unknown (ratio stays null) instead of retrying it forever.
       this.cache.set(job.shapeKey, job.bucketKey, Number.NaN);
       return;
     }
@@ -290,7 +290,7 @@ export class PredictionEngine {
   }
 
   /** ε_dd/ε_dd,crit for the prediction's direction cell, or null while not known. */
-  private cachedMargin(p: LivePrediction): number | null {
+  private cachedRatio(p: LivePrediction): number | null {
     const active = this.active as ActiveProfile;
     const bucket = directionBucket(fieldDirectionOf(p.thetaDeg, p.phiDeg), this.cellDeg);
     const epsC = this.cache.get(active.shapeKey, bucket.key);
@@ -300,7 +300,7 @@ export class PredictionEngine {
   private publishFailure(direction: FieldDirection, reason: string): void {
     const active = this.active as ActiveProfile;
     this.publish({
-      stable: false, reason, fermiSurfaceAspect: null, cloudAspect: null, tofAspect: null, tofMajorAngleDeg: null, collapseMargin: null,
+      stable: false, reason, fermiSurfaceAspect: null, cloudAspect: null, tofAspect: null, tofMajorAngleDeg: null, collapseRatio: null,
       epsDd: active.epsDd, profileId: active.id, thetaDeg: direction.thetaDeg, phiDeg: direction.phiDeg, computedAt: new Date().toISOString(), camera: null,
     });
   }
@@ -334,7 +334,7 @@ export class PredictionEngine {
     this.log?.error({ code, err: this.workerError }, 'prediction worker stopped; restarting it');
     const job = this.inFlight;
     this.inFlight = null;
-    // A cell whose ε_dd,crit stopped the worker is not tried again; its margin stays unknown.
+    // A cell whose ε_dd,crit stopped the worker is not tried again; its ratio stays unknown.
     if (job?.kind === 'critical') this.cache.set(job.shapeKey, job.bucketKey, Number.NaN);
     if (job?.kind === 'predict' && this.active && job.version === this.active.version && !this.pending) {
       const crashes = job.pending.crashes + 1;

@@ -4,10 +4,10 @@ import { PredictionHistoryRing } from './prediction-history.js';
 
 const T0 = Date.parse('2031-05-04T10:00:00Z');
 
-function prediction(atMs: number, beta: number | null, margin: number | null = null, profileId = 1): LivePrediction {
+function prediction(atMs: number, beta: number | null, ratio: number | null = null, profileId = 1): LivePrediction {
   return {
     stable: beta !== null, reason: beta === null ? 'collapsed' : null, fermiSurfaceAspect: beta, cloudAspect: null, tofAspect: beta === null ? null : 2 * beta,
-    tofMajorAngleDeg: null, collapseMargin: margin, epsDd: 0.12, profileId, thetaDeg: 30, phiDeg: 40, computedAt: new Date(atMs).toISOString(), camera: null,
+    tofMajorAngleDeg: null, collapseRatio: ratio, epsDd: 0.12, profileId, thetaDeg: 30, phiDeg: 40, computedAt: new Date(atMs).toISOString(), camera: null,
   };
 }
 
@@ -18,17 +18,17 @@ describe('PredictionHistoryRing', () => {
     ring.push(prediction(T0 + 100, null, 1.3));
     ring.push(prediction(T0 + 200, 1.03));
 
-    expect(ring.since(T0 + 100)).toEqual({ t: [T0 + 100, T0 + 200], fermiSurfaceAspect: [null, 1.03], tofAspect: [null, 2.06], collapseMargin: [1.3, null] });
+    expect(ring.since(T0 + 100)).toEqual({ t: [T0 + 100, T0 + 200], fermiSurfaceAspect: [null, 1.03], tofAspect: [null, 2.06], collapseRatio: [1.3, null] });
   });
 
-  it('replaces the newest entry when the same prediction comes back with its collapse margin', () => {
+  it('replaces the newest entry when the same prediction comes back with its collapse ratio', () => {
     const ring = new PredictionHistoryRing(10);
     ring.push(prediction(T0, 1.01));
     ring.push(prediction(T0, 1.01, 0.4));
     // Same time, another profile: a different prediction.
     ring.push(prediction(T0, 1.05, null, 2));
 
-    expect(ring.since(0)).toEqual({ t: [T0, T0], fermiSurfaceAspect: [1.01, 1.05], tofAspect: [2.02, 2.1], collapseMargin: [0.4, null] });
+    expect(ring.since(0)).toEqual({ t: [T0, T0], fermiSurfaceAspect: [1.01, 1.05], tofAspect: [2.02, 2.1], collapseRatio: [0.4, null] });
   });
 
   it('keeps only the newest entries up to its capacity', () => {

@@ -3,7 +3,7 @@ import type { PredictionHistory } from '../../shared/profiles/profile-record.js'
 
 /**
  * Room for one hour at the engine's fastest pace: it starts a prediction at most every 100 ms
- * (10/s), and a later collapse-margin update of the same prediction replaces its entry
+ * (10/s), and a later collapse-ratio update of the same prediction replaces its entry
  * instead of adding one. Older entries are overwritten; 36,000 × 4 float64 ≈ 1.2 MB.
  */
 export const HISTORY_CAPACITY = 3600 * 10;
@@ -20,8 +20,8 @@ export class PredictionHistoryRing {
   private readonly t: Float64Array;
   private readonly beta: Float64Array;
   private readonly tof: Float64Array;
-  private readonly margin: Float64Array;
-  /** Newest entry's `computedAt` and profile, to recognise a margin update of it. */
+  private readonly ratio: Float64Array;
+  /** Newest entry's `computedAt` and profile, to recognise a ratio update of it. */
   private newestKey: string | null = null;
   private next = 0;
   private size = 0;
@@ -30,7 +30,7 @@ export class PredictionHistoryRing {
     this.t = new Float64Array(capacity);
     this.beta = new Float64Array(capacity);
     this.tof = new Float64Array(capacity);
-    this.margin = new Float64Array(capacity);
+    this.ratio = new Float64Array(capacity);
   }
 
   /** Adds a prediction at its `computedAt` time, or updates the newest entry when it is the same prediction. */
@@ -48,12 +48,12 @@ export class PredictionHistoryRing {
     this.t[i] = Date.parse(p.computedAt);
     this.beta[i] = p.fermiSurfaceAspect ?? Number.NaN;
     this.tof[i] = p.tofAspect ?? Number.NaN;
-    this.margin[i] = p.collapseMargin ?? Number.NaN;
+    this.ratio[i] = p.collapseRatio ?? Number.NaN;
   }
 
   /** The entries computed at or after `fromMs` (Unix epoch ms), oldest first. */
   since(fromMs: number): PredictionHistory {
-    const out: PredictionHistory = { t: [], fermiSurfaceAspect: [], tofAspect: [], collapseMargin: [] };
+    const out: PredictionHistory = { t: [], fermiSurfaceAspect: [], tofAspect: [], collapseRatio: [] };
     const orNull = (v: number) => (Number.isNaN(v) ? null : v);
     for (let k = 0; k < this.size; k++) {
       const i = (this.next - this.size + k + this.capacity) % this.capacity;
@@ -61,7 +61,7 @@ export class PredictionHistoryRing {
       out.t.push(this.t[i]);
       out.fermiSurfaceAspect.push(orNull(this.beta[i]));
       out.tofAspect.push(orNull(this.tof[i]));
-      out.collapseMargin.push(orNull(this.margin[i]));
+      out.collapseRatio.push(orNull(this.ratio[i]));
     }
     return out;
   }

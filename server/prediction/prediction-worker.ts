@@ -40,7 +40,7 @@ function solvePrediction(request: Extract<WorkerRequest, { kind: 'predict' }>): 
     tofMajorAngleDeg: first?.majorAngleDeg ?? null,
     // A collapsed solve brings its own ε_dd,crit for the exact direction; a stable one gets
     // the cached cell value from the engine.
-    collapseMargin: p.stable ? null : (p.collapseMargin ?? null),
+    collapseRatio: p.stable ? null : (p.collapseRatio ?? null),
     epsDd: p.epsDd,
     thetaDeg: request.thetaDeg,
     phiDeg: request.phiDeg,

@@ -13,7 +13,7 @@ export type ChannelId =
   | 'fieldMagnitude'
   | 'fieldAngleDeviation'
   | 'stale'
-  | 'collapseMargin';
+  | 'collapseRatio';
 
 /** What a channel measures, for labels in lists, e-mails and error messages. */
 export interface ChannelInfo {
@@ -39,7 +39,7 @@ function perAxisInfo(): Record<`${AxisChannel}.${Axis}`, ChannelInfo> {
 
 /**
  * Every channel with its label and unit. Currents are absolute values (the supplies are
- * bipolar); `stale` is the time since the newest telemetry frame; `collapseMargin` is the
+ * bipolar); `stale` is the time since the newest telemetry frame; `collapseRatio` is the
  * prediction's ε_dd / ε_dd,crit (dimensionless, 1 = mean-field collapse threshold).
  */
 export const CHANNELS: Readonly<Record<ChannelId, ChannelInfo>> = {
@@ -48,7 +48,7 @@ export const CHANNELS: Readonly<Record<ChannelId, ChannelInfo>> = {
   fieldMagnitude: { label: 'Field magnitude', unit: 'G' },
   fieldAngleDeviation: { label: 'Field direction off target', unit: '°' },
   stale: { label: 'Time since the last telemetry frame', unit: 'ms' },
-  collapseMargin: { label: 'Dipolar strength over its collapse threshold', unit: '' },
+  collapseRatio: { label: 'Collapse ratio ε_dd/ε_dd,crit', unit: '' },
 };
 
 export const CHANNEL_IDS = Object.keys(CHANNELS) as ChannelId[];

@@ -41,11 +41,11 @@ describe('computeOrientationMap', () => {
     expect(at(beta, 45, 60)).toBeCloseTo(p.fermiSurface!.aspectRatio, 8);
   });
 
-  it('marks collapsed directions NaN and gives their collapse margin above one', () => {
+  it('marks collapsed directions NaN and gives their collapse ratio above one', () => {
     const pancake = computeOrientationMap(PANCAKE, { quantity: 'fermiSurfaceAspect', resolutionDeg: 45 });
     expect(at(pancake, 0, 0)).toBeGreaterThan(1);
     expect(at(pancake, 90, 0)).toBeNaN();
-    const margin = computeOrientationMap(PANCAKE, { quantity: 'collapseMargin', resolutionDeg: 45 });
+    const margin = computeOrientationMap(PANCAKE, { quantity: 'collapseRatio', resolutionDeg: 45 });
     expect(at(margin, 0, 0)).toBeCloseTo(pancake.epsDd / 32.35, 3);
     expect(at(margin, 90, 0)).toBeGreaterThan(1);
     for (let k = 0; k < margin.values.length; k++) expect(Number.isNaN(pancake.values[k])).toBe(margin.values[k] > 1);

@@ -5,7 +5,7 @@ import { sampleScales, type SampleParams } from './sample.js';
 import { expandedMetric, imagingPlane, momentumMetric, projectEllipse, type ImagingInput } from './tof.js';
 
 /** β = K∥/K⊥; principal TOF aspect ratio; ε_dd/ε_dd,crit. */
-export type MapQuantity = 'fermiSurfaceAspect' | 'tofAspect' | 'collapseMargin';
+export type MapQuantity = 'fermiSurfaceAspect' | 'tofAspect' | 'collapseRatio';
 
 export interface OrientationMapOptions {
   quantity: MapQuantity;
@@ -51,8 +51,8 @@ const NEIGHBOUR_STEP = 1 + 3 * MAP_CRITICAL_TOLERANCE;
 export function computeOrientationMap(params: SampleParams, opts: OrientationMapOptions): OrientationMap {
   const scales = sampleScales(params);
   const { quantity } = opts;
-  if (!['fermiSurfaceAspect', 'tofAspect', 'collapseMargin'].includes(quantity)) {
-    throw new PhysicsInputError(`quantity must be fermiSurfaceAspect, tofAspect or collapseMargin (got ${quantity})`);
+  if (!['fermiSurfaceAspect', 'tofAspect', 'collapseRatio'].includes(quantity)) {
+    throw new PhysicsInputError(`quantity must be fermiSurfaceAspect, tofAspect or collapseRatio (got ${quantity})`);
   }
   if (!(opts.resolutionDeg > 0 && opts.resolutionDeg <= 45)) {
     throw new PhysicsInputError(`resolutionDeg must lie in (0, 45] degrees (got ${opts.resolutionDeg})`);
@@ -78,7 +78,7 @@ export function computeOrientationMap(params: SampleParams, opts: OrientationMap
   let cancelled = false;
 
   const valueAt = (): number => {
-    if (quantity === 'collapseMargin') {
+    if (quantity === 'collapseRatio') {
       const c = criticalHint && criticalHint.state && Number.isFinite(criticalHint.eps)
         ? criticalEpsDd(solver, lambda, e, { tolerance: MAP_CRITICAL_TOLERANCE, startEpsDd: criticalHint.eps / NEIGHBOUR_STEP, startState: criticalHint.state, growth: NEIGHBOUR_STEP })
         : criticalEpsDd(solver, lambda, e, { tolerance: MAP_CRITICAL_TOLERANCE });

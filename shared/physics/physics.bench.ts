@@ -63,7 +63,7 @@ export async function benchPhysics(): Promise<Figure[]> {
     const p = predict(SAMPLE, { thetaDeg: (i * 7.3) % 180, phiDeg: (i * 13.1) % 360 }, { tofMs: [20] });
     return p.fermiSurface!.aspectRatio;
   }, 'cold solve');
-  const mapTime = (quantity: 'fermiSurfaceAspect' | 'collapseMargin') => {
+  const mapTime = (quantity: 'fermiSurfaceAspect' | 'collapseRatio') => {
     const t0 = performance.now();
     const map = computeOrientationMap(SAMPLE, { quantity, resolutionDeg: 2 });
     const ms = performance.now() - t0;
@@ -73,7 +73,7 @@ export async function benchPhysics(): Promise<Figure[]> {
     return ms;
   };
   const betaMapMs = mapTime('fermiSurfaceAspect');
-  const marginMapMs = mapTime('collapseMargin');
+  const marginMapMs = mapTime('collapseRatio');
   const warmMedian = quantile(warmTimes, 0.5);
 
   return [
@@ -85,7 +85,7 @@ export async function benchPhysics(): Promise<Figure[]> {
     { name: 'cold prediction, p99', value: quantile(coldTimes, 0.99), unit: 'ms' },
     { name: 'orientation map β, 2°', value: betaMapMs, unit: 'ms', note: '91 × 181 grid from 2116 solves in one octant' },
     { name: 'β map / target (5 s)', value: betaMapMs / MAP_TARGET_MS, unit: '×', note: '≤ 1 meets the target' },
-    { name: 'orientation map collapse margin, 2°', value: marginMapMs, unit: 'ms', note: 'ε_dd,crit per direction to 1e-3' },
+    { name: 'orientation map collapse ratio, 2°', value: marginMapMs, unit: 'ms', note: 'ε_dd,crit per direction to 1e-3' },
     { name: 'margin map / target (5 s)', value: marginMapMs / MAP_TARGET_MS, unit: '×' },
   ];
 }

@@ -68,7 +68,7 @@ describe('predict', () => {
     // physics.md §4.2: the critical atom number follows from ε_dd ∝ N^(1/6) without a new solve.
     const first = predict(ER, { thetaDeg: 35, phiDeg: 25 }, { computeCritical: true });
     expect(first.atomNumberCritical).toBeCloseTo(ER.atomNumber * (first.epsDdCritical! / first.epsDd) ** 6, -3);
-    expect(first.collapseMargin).toBeCloseTo(first.epsDd / first.epsDdCritical!, 14);
+    expect(first.collapseRatio).toBeCloseTo(first.epsDd / first.epsDdCritical!, 14);
     const again = predict(ER, { thetaDeg: 35, phiDeg: 25 }, { computeCritical: true, warm: first.warm });
     expect(again.epsDdCritical).toBe(first.epsDdCritical);
     expect(again.warm?.critical).toBe(first.warm?.critical);
@@ -98,9 +98,9 @@ describe('predict', () => {
     expect(p.cloud).toBeNull();
     expect(p.energyPerParticleEF).toBeNull();
     expect(p.tof).toBeNull();
-    expect(p.collapseMargin).toBeGreaterThan(1);
+    expect(p.collapseRatio).toBeGreaterThan(1);
     expect(p.reason).toMatch(/collapsed/);
-    expect(p.reason).toContain(`ε_dd/ε_dd,crit = ${p.collapseMargin!.toFixed(4)}`);
+    expect(p.reason).toContain(`ε_dd/ε_dd,crit = ${p.collapseRatio!.toFixed(4)}`);
   });
 
   it('rejects non-physical input with an error naming it', () => {

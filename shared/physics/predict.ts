@@ -44,7 +44,7 @@ export interface Prediction {
   /** N_crit = N (ε_c/ε_dd)⁶. */
   atomNumberCritical?: number;
   /** ε_dd/ε_dd,crit (< 1 stable). */
-  collapseMargin?: number;
+  collapseRatio?: number;
   /** Smallest eigenvalue of the stability Hessian (dimensionless; null when the check was not reached). */
   smallestHessianEigenvalue: number | null;
   fermiSurface: {
@@ -89,7 +89,7 @@ const solver = new GroundStateSolver();
  * ellipsoid, energies, stability and ballistic TOF images. Pass the returned `warm` to the
  * next call (e.g. after a small field change) to start from this solution.
  * Throws PhysicsInputError for non-physical input; a collapsed gas returns `stable: false`
- * with the reason and the margin, and null geometry.
+ * with the reason and the collapse ratio, and null geometry.
  */
 export function predict(params: SampleParams, field: FieldInput, options: PredictOptions = {}): Prediction {
   const scales = sampleScales(params);
@@ -125,12 +125,12 @@ export function predict(params: SampleParams, field: FieldInput, options: Predic
     }
     const epsC = cached.epsDdCritical;
     out.epsDdCritical = epsC;
-    out.collapseMargin = epsDd / epsC;
+    out.collapseRatio = epsDd / epsC;
     out.atomNumberCritical = epsDd > 0 ? scales.atomNumber * Math.pow(epsC / epsDd, 6) : Infinity;
   }
   if (!gs.stable) {
-    const margin = out.collapseMargin !== undefined ? `; ε_dd/ε_dd,crit = ${out.collapseMargin.toFixed(4)}` : '';
-    out.reason = `collapsed: no metastable state near the ideal gas — ${gs.reason}${margin}`;
+    const ratio = out.collapseRatio !== undefined ? `; ε_dd/ε_dd,crit = ${out.collapseRatio.toFixed(4)}` : '';
+    out.reason = `collapsed: no metastable state near the ideal gas — ${gs.reason}${ratio}`;
     return out;
   }
 

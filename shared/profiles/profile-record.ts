@@ -31,5 +31,5 @@ export interface PredictionHistory {
   t: number[];
   fermiSurfaceAspect: (number | null)[];
   tofAspect: (number | null)[];
-  collapseMargin: (number | null)[];
+  collapseRatio: (number | null)[];
 }

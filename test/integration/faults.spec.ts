@@ -22,7 +22,7 @@ const NEUTRAL: Vec3 = { x: 4, y: -3, z: 4 };
  * Fault injection with the real simulator, broker and server: every fault kind the simulator
  * offers, with what Tiltwatch can honestly see of it — the alarm or trip and its first-out,
  * currents ramping to zero after a trip, the reset refused while the cause holds and accepted
- * after, and the on-call mail in the local catcher. Setpoints are published with the server's
+ * after, and the on-call mail in the local mailbox. Setpoints are published with the server's
  * MQTT account, standing in for steering (not built yet). One stack for the file; each test
  * clears its faults and resets what tripped.
  */

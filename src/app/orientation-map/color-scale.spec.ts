@@ -33,12 +33,12 @@ describe('colour scale', () => {
     expect(colorOf(1.021, 'fermiSurfaceAspect', scale)).toEqual(paletteColor(1));
   });
 
-  it('gives no colour (hatch) where the gas collapses: NaN, or a margin of 1 or more', () => {
-    const scale = scaleFor([0.2, 0.5, 1.3], 'collapseMargin');
+  it('gives no colour (hatch) where the gas collapses: NaN, or a collapse ratio of 1 or more', () => {
+    const scale = scaleFor([0.2, 0.5, 1.3], 'collapseRatio');
     expect(scale.max).toBe(0.5);
     expect(colorOf(Number.NaN, 'tofAspect', scale)).toBeNull();
-    expect(colorOf(1.3, 'collapseMargin', scale)).toBeNull();
-    expect(isCollapsed(1, 'collapseMargin')).toBe(true);
+    expect(colorOf(1.3, 'collapseRatio', scale)).toBeNull();
+    expect(isCollapsed(1, 'collapseRatio')).toBe(true);
     expect(isCollapsed(1.3, 'tofAspect')).toBe(false);
   });
 

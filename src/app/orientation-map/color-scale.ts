@@ -30,15 +30,15 @@ export interface ColorScale {
 export const QUANTITY_TEXT: Record<MapQuantity, { name: string; symbol: string; unit: string }> = {
   fermiSurfaceAspect: { name: 'Fermi-surface aspect ratio', symbol: 'β = K∥/K⊥', unit: 'dimensionless' },
   tofAspect: { name: 'TOF aspect ratio', symbol: 'major/minor', unit: 'dimensionless' },
-  collapseMargin: { name: 'Collapse margin', symbol: 'ε_dd/ε_dd,crit', unit: 'collapse at 1' },
+  collapseRatio: { name: 'Collapse ratio', symbol: 'ε_dd/ε_dd,crit', unit: 'collapse at 1' },
 };
 
 /**
- * True where the map has no stable gas: NaN (no stationary state), or a collapse margin of 1 or
+ * True where the map has no stable gas: NaN (no stationary state), or a collapse ratio of 1 or
  * more (ε_dd at or beyond the critical value for that direction).
  */
 export function isCollapsed(value: number, quantity: MapQuantity): boolean {
-  return Number.isNaN(value) || (quantity === 'collapseMargin' && value >= 1);
+  return Number.isNaN(value) || (quantity === 'collapseRatio' && value >= 1);
 }
 
 /** Palette colour at position `t` (0 = low end, 1 = high end; clamped). */

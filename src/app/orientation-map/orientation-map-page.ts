@@ -20,7 +20,7 @@ import { MapView, type PresentDirection } from './map-view';
 const QUANTITIES: { value: MapQuantity; label: string }[] = [
   { value: 'fermiSurfaceAspect', label: 'β = K∥/K⊥' },
   { value: 'tofAspect', label: 'TOF aspect ratio' },
-  { value: 'collapseMargin', label: 'Collapse margin' },
+  { value: 'collapseRatio', label: 'Collapse ratio' },
 ];
 const RESOLUTIONS = [10, 5, 2, 1];
 

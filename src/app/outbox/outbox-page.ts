@@ -6,7 +6,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { errorText } from '../api/error-text';
 import { formatLocalDateTime } from '../readout/format-quantity';
 
-/** One message the local mail catcher received (`GET /api/admin/outbox`). */
+/** One message the local mailbox received (`GET /api/admin/outbox`). */
 export interface OutboxMessage {
   from: string;
   to: string[];
@@ -17,7 +17,7 @@ export interface OutboxMessage {
 }
 
 /**
- * The on-call notices Tiltwatch sent, as the local mail catcher received them (development
+ * The on-call notices Tiltwatch sent, as the local mailbox received them (development
  * and tests; with a real mail server configured there is no local outbox). Admin only.
  */
 @Component({

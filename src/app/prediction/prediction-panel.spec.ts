@@ -10,7 +10,7 @@ const STABLE: LivePrediction = {
   cloudAspect: 4.99,
   tofAspect: 1.0204,
   tofMajorAngleDeg: 90,
-  collapseMargin: 0.07,
+  collapseRatio: 0.07,
   epsDd: 0.146,
   profileId: 3,
   thetaDeg: 0,
@@ -33,7 +33,7 @@ const COLLAPSED: LivePrediction = {
   cloudAspect: null,
   tofAspect: null,
   tofMajorAngleDeg: null,
-  collapseMargin: 1.12,
+  collapseRatio: 1.12,
   camera: null,
 };
 
@@ -80,7 +80,7 @@ describe('PredictionPanel', () => {
     expect(factors).toEqual(['true shape', 'deformation ×10', 'deformation ×10']);
   });
 
-  it('says a collapsed gas is collapsed, with its margin, and draws no geometry', async () => {
+  it('says a collapsed gas is collapsed, with its collapse ratio, and draws no geometry', async () => {
     await show(COLLAPSED);
     const status = host.querySelector('[role="status"]')!;
     expect(flat(status)).toContain('Collapsed: ε_dd is 112.0 % of the collapse threshold.');

@@ -12,7 +12,7 @@ import { readPrediction } from './prediction-readout';
 /**
  * The live prediction for the present field direction: Fermi-surface and cloud shape, the TOF
  * image the camera should record, and the distance to collapse, with a sketch of the three
- * ellipses. A collapsed gas is reported with its margin and nothing is drawn. While the
+ * ellipses. A collapsed gas is reported with its collapse ratio and nothing is drawn. While the
  * prediction does not apply (field too weak to orient the dipoles, telemetry stale) the panel
  * says why instead of a stability verdict and greys its numbers.
  */

@@ -14,7 +14,7 @@ export interface PredictionReadout {
   /** Major-axis angle of the TOF image from u towards v, or a word when the image is round. */
   tofAngle: string;
   epsDd: string;
-  collapseMargin: string;
+  collapseRatio: string;
   stability: StabilityKind;
   /** One sentence on stability, e.g. "Stable: ε_dd is 7.0 % of the collapse threshold." */
   stabilityText: string;
@@ -30,7 +30,7 @@ const EMPTY: PredictionReadout = {
   tofAspect: NO_VALUE,
   tofAngle: NO_VALUE,
   epsDd: NO_VALUE,
-  collapseMargin: NO_VALUE,
+  collapseRatio: NO_VALUE,
   stability: 'unknown',
   stabilityText: 'No prediction yet.',
   direction: NO_VALUE,
@@ -38,13 +38,13 @@ const EMPTY: PredictionReadout = {
 };
 
 /**
- * Formats a live prediction. A collapsed gas gets no shape numbers, only its margin: the
+ * Formats a live prediction. A collapsed gas gets no shape numbers, only its collapse ratio: the
  * model has no stationary state there, and any shape would be made up.
  */
 export function readPrediction(prediction: LivePrediction | null): PredictionReadout {
   if (!prediction) return EMPTY;
   const stable = prediction.stable;
-  const margin = prediction.collapseMargin;
+  const ratio = prediction.collapseRatio;
   const beta = stable ? prediction.fermiSurfaceAspect : null;
   const computedAtMs = Date.parse(prediction.computedAt);
   return {
@@ -54,9 +54,9 @@ export function readPrediction(prediction: LivePrediction | null): PredictionRea
     tofAspect: stable ? plain(prediction.tofAspect, 4) : NO_VALUE,
     tofAngle: !stable || prediction.tofAspect === null ? NO_VALUE : prediction.tofMajorAngleDeg === null ? 'round' : formatQuantity(prediction.tofMajorAngleDeg, '°', 1),
     epsDd: formatNumber(prediction.epsDd, 3),
-    collapseMargin: margin === null ? NO_VALUE : formatNumber(margin, 3),
+    collapseRatio: ratio === null ? NO_VALUE : formatNumber(ratio, 3),
     stability: stable ? 'stable' : 'collapsed',
-    stabilityText: stabilitySentence(stable, margin),
+    stabilityText: stabilitySentence(stable, ratio),
     direction: `θ ${formatQuantity(prediction.thetaDeg, '°', 1)}, φ ${formatQuantity(prediction.phiDeg, '°', 1)}`,
     computedAt: Number.isFinite(computedAtMs) ? formatLocalTime(computedAtMs) : NO_VALUE,
   };
@@ -67,8 +67,8 @@ function plain(value: number | null, digits: number): string {
   return value === null || !Number.isFinite(value) ? NO_VALUE : formatNumber(value, digits);
 }
 
-function stabilitySentence(stable: boolean, margin: number | null): string {
-  const share = margin === null ? null : `ε_dd is ${formatNumber(margin * 100, 1)}\u00a0% of the collapse threshold`;
+function stabilitySentence(stable: boolean, ratio: number | null): string {
+  const share = ratio === null ? null : `ε_dd is ${formatNumber(ratio * 100, 1)}\u00a0% of the collapse threshold`;
   if (stable) return share ? `Stable: ${share}.` : 'Stable. Collapse threshold for this direction is being computed.';
   return share ? `Collapsed: ${share}.` : 'Collapsed: the model finds no stable state for this direction.';
 }

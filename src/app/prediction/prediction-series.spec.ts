@@ -4,7 +4,7 @@ import { predictedValues, resampleHistory } from './prediction-series';
 
 describe('resampleHistory', () => {
   it('holds each recorded prediction until the next one, sampled at the given spacing', () => {
-    const history = { t: [1000, 1250], fermiSurfaceAspect: [1.02, 1.03], tofAspect: [1.01, null], collapseMargin: [0.1, 0.1] };
+    const history = { t: [1000, 1250], fermiSurfaceAspect: [1.02, 1.03], tofAspect: [1.01, null], collapseRatio: [0.1, 0.1] };
     const points = resampleHistory(history, 100, 1500);
     expect(points.map((p) => p.t)).toEqual([1000, 1100, 1200, 1300, 1400]);
     // Deformations in percent: β = 1.02 → 2 %, 1.03 → 3 %.
@@ -13,7 +13,7 @@ describe('resampleHistory', () => {
   });
 
   it('gives nothing for an empty history', () => {
-    expect(resampleHistory({ t: [], fermiSurfaceAspect: [], tofAspect: [], collapseMargin: [] }, 100, 5000)).toEqual([]);
+    expect(resampleHistory({ t: [], fermiSurfaceAspect: [], tofAspect: [], collapseRatio: [] }, 100, 5000)).toEqual([]);
   });
 });
 

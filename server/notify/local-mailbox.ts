@@ -1,5 +1,5 @@
 /**
- * Local SMTP catcher for development and tests: accepts every message on 127.0.0.1 without
+ * Local SMTP mailbox for development and tests: accepts every message on 127.0.0.1 without
  * authentication or TLS and keeps the newest ones in memory for the admin's Outbox page.
  * It never relays anything onwards. `SMTP_URL` replaces it with a real mail server.
  */
@@ -7,7 +7,7 @@ import { SMTPServer, type SMTPServerDataStream, type SMTPServerSession } from 's
 import { simpleParser, type AddressObject } from 'mailparser';
 import type { MailLog } from './mailer.js';
 
-export interface CaughtMessage {
+export interface MailboxMessage {
   from: string;
   to: string[];
   subject: string;
@@ -16,7 +16,7 @@ export interface CaughtMessage {
   receivedAt: number;
 }
 
-export interface MailCatcherOptions {
+export interface LocalMailboxOptions {
   /** TCP port; 0 (default) picks a free one. */
   port?: number;
   /** Messages kept; older ones are forgotten (default 500). */
@@ -24,14 +24,14 @@ export interface MailCatcherOptions {
   /** Largest accepted message, bytes (default 1 MiB). */
   maxBytes?: number;
   clock?: () => number;
-  /** Where connection errors go (a pino logger fits); they never stop the catcher. */
+  /** Where connection errors go (a pino logger fits); they never stop the mailbox. */
   log?: Pick<MailLog, 'warn'>;
 }
 
 const HOST = '127.0.0.1';
 
-export class MailCatcher {
-  private readonly kept: CaughtMessage[] = [];
+export class LocalMailbox {
+  private readonly kept: MailboxMessage[] = [];
 
   private constructor(
     private readonly server: SMTPServer,
@@ -40,18 +40,18 @@ export class MailCatcher {
   ) {}
 
   /** Starts listening on 127.0.0.1; resolves once the port is bound. */
-  static async start(options: MailCatcherOptions = {}): Promise<MailCatcher> {
+  static async start(options: LocalMailboxOptions = {}): Promise<LocalMailbox> {
     const capacity = options.capacity ?? 500;
     const maxBytes = options.maxBytes ?? 1024 * 1024;
     const clock = options.clock ?? Date.now;
     if (!Number.isInteger(capacity) || capacity < 1) throw new Error(`capacity must be a whole number of 1 or more, got ${capacity}`);
-    let catcher: MailCatcher | null = null;
+    let mailbox: LocalMailbox | null = null;
     const server = new SMTPServer({
       authOptional: true,
       disabledCommands: ['AUTH', 'STARTTLS'],
       size: maxBytes,
       logger: false,
-      banner: 'Tiltwatch local mail catcher (development only, nothing is relayed)',
+      banner: 'Tiltwatch local mailbox (development only, nothing is relayed)',
       closeTimeout: 1000,
       onData(stream: SMTPServerDataStream, session: SMTPServerSession, callback: (err?: Error | null) => void) {
         simpleParser(stream)
@@ -60,7 +60,7 @@ export class MailCatcher {
               callback(Object.assign(new Error(`message larger than ${maxBytes} bytes`), { responseCode: 552 }));
               return;
             }
-            catcher?.keep({
+            mailbox?.keep({
               from: session.envelope.mailFrom ? session.envelope.mailFrom.address : addressText(mail.from),
               to: session.envelope.rcptTo.map((r) => r.address),
               subject: mail.subject ?? '',
@@ -77,13 +77,13 @@ export class MailCatcher {
       server.listen(options.port ?? 0, HOST, () => {
         server.off('error', reject);
         // smtp-server reports client-side failures as 'error' events; unhandled, they would end the process.
-        server.on('error', (err: Error) => options.log?.warn({ error: err.message }, 'mail catcher connection error'));
+        server.on('error', (err: Error) => options.log?.warn({ error: err.message }, 'local mailbox connection error'));
         const address = server.server.address();
         resolve(typeof address === 'object' && address ? address.port : 0);
       });
     });
-    catcher = new MailCatcher(server, port, capacity);
-    return catcher;
+    mailbox = new LocalMailbox(server, port, capacity);
+    return mailbox;
   }
 
   /** SMTP URL for nodemailer (`smtp://127.0.0.1:PORT`). */
@@ -92,7 +92,7 @@ export class MailCatcher {
   }
 
   /** Received messages, newest first. */
-  messages(): CaughtMessage[] {
+  messages(): MailboxMessage[] {
     return [...this.kept].reverse();
   }
 
@@ -101,7 +101,7 @@ export class MailCatcher {
     return new Promise((resolve) => this.server.close(() => resolve()));
   }
 
-  private keep(message: CaughtMessage): void {
+  private keep(message: MailboxMessage): void {
     this.kept.push(message);
     if (this.kept.length > this.capacity) this.kept.splice(0, this.kept.length - this.capacity);
   }
