@@ -274,3 +274,20 @@ describe('AlarmBook: actions stored before they take effect', () => {
     expect(revived.list().find((a) => a.id === 'current.y.H')?.shelf).toMatchObject({ by: OPERATOR, reason: 'supply under repair' });
   });
 });
+
+describe('AlarmBook: a finished group is not reopened', () => {
+  it('files a new fault under its own first-out once every condition of the earlier group has cleared', () => {
+    const { book, at } = demoBook();
+    // A ramp raises the deviation alarms for a moment; they clear (off-delay 1 s) before the flow falls.
+    at(0, { 'currentDeviation.x': 0.8, 'flow.x': 3.2 });
+    at(300, { 'currentDeviation.x': 0.8, 'flow.x': 3.2 });
+    at(400, { 'currentDeviation.x': 0, 'flow.x': 3.2 });
+    at(1400, { 'currentDeviation.x': 0, 'flow.x': 3.2 });
+    at(2000, { 'currentDeviation.x': 0, 'flow.x': 1.4 });
+    const raise = at(3000, { 'currentDeviation.x': 0, 'flow.x': 1.4 });
+    expect(raise).toMatchObject([{ alarmId: 'flow.x.L', kind: 'raise' }]);
+    expect(raise[0].firstOutOf).toBeUndefined();
+    expect(book.active().find((a) => a.id === 'flow.x.L')).not.toHaveProperty('firstOutOf');
+  });
+});
+

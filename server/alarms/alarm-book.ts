@@ -129,6 +129,8 @@ export class AlarmBook {
 
   /** Places an annunciated raise in its first-out group, by the time its condition began. */
   private group(alarm: AlarmStateMachine, event: AlarmEvent): void {
+    const open = this.grouper.head();
+    if (open && !this.groupHolds(open, alarm)) this.grouper.close();
     const { head, replaced } = this.grouper.assign(event.alarmId, event.conditionSince ?? event.at);
     if (head) {
       alarm.groupUnder(head);
@@ -138,6 +140,14 @@ export class AlarmBook {
     for (const other of this.alarms.values()) {
       if (other.raisedAt !== null && (other.limit.id === replaced || other.firstOutOf === replaced)) other.groupUnder(event.alarmId);
     }
+  }
+
+  /** True while the condition of the group's head or of an alarm grouped under it (other than `raising`) still holds. */
+  private groupHolds(headId: string, raising: AlarmStateMachine): boolean {
+    for (const a of this.alarms.values()) {
+      if (a !== raising && a.conditionHolds && (a.limit.id === headId || a.firstOutOf === headId)) return true;
+    }
+    return false;
   }
 
   /**

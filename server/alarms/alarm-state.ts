@@ -155,6 +155,11 @@ export class AlarmStateMachine {
     return this.raisedAtMs;
   }
 
+  /** True while the alarm's condition holds (after its on-delay, until its off-delay ran out). */
+  get conditionHolds(): boolean {
+    return this.conditionActive;
+  }
+
   /** Present value (the newest one evaluated). */
   get value(): number | null {
     return this.lastValue;

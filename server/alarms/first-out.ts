@@ -8,7 +8,8 @@
  * present head takes the head over.
  *
  * The window runs from the group's earliest condition start (not from the latest raise), so a
- * long chain of faults cannot keep one group open for ever.
+ * long chain of faults cannot keep one group open for ever; and a group whose conditions have
+ * all cleared is closed (`close()`), so a new fault is not filed under an old, finished one.
  */
 export const DEFAULT_FIRST_OUT_WINDOW_MS = 10_000;
 
@@ -26,6 +27,16 @@ export class FirstOutGrouper {
   /** @param windowMs how far apart condition starts may lie within one group, ms. */
   constructor(readonly windowMs: number = DEFAULT_FIRST_OUT_WINDOW_MS) {
     if (!(windowMs > 0)) throw new Error(`first-out window must be more than 0 ms, got ${windowMs}`);
+  }
+
+  /** The head of the open group, or null. */
+  head(): string | null {
+    return this.group?.headId ?? null;
+  }
+
+  /** Closes the open group: the next raise opens a new one. */
+  close(): void {
+    this.group = null;
   }
 
   /**
