@@ -2,6 +2,8 @@ import { createServer, type Server } from 'node:http';
 import path from 'node:path';
 import type { Logger } from 'pino';
 import { startBroker, type RunningBroker } from '../broker/broker.js';
+import { listenProblem } from '../shared/net/listen-problem.js';
+import type { MqttProtocolLevel } from '../shared/telemetry/mqtt-protocol.js';
 import { loadOrCreateCredentials, type BrokerCredentials } from '../broker/credentials.js';
 import { AccessControl } from './auth/access-control.js';
 import { authHandlers } from './auth/auth-routes.js';
@@ -13,6 +15,7 @@ import { calibrationHandlers } from './calibration/calibration-routes.js';
 import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
 import { lockDataFolder } from './data-folder/data-folder-lock.js';
+import { checkListenSlots, listenSlots } from './start-checks/listen-check.js';
 import { openDatabase, type OpenDatabase } from './db/database.js';
 import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
 import { CalibrationCache } from './field/calibration-cache.js';
@@ -26,6 +29,7 @@ import { liveHandlers } from './live/live-routes.js';
 import { createLogger } from './logging/logger.js';
 import { logbookHandlers } from './logbook/logbook-routes.js';
 import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
+import { LevelStore } from './levels/level-store.js';
 import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
 import { PredictionEngine } from './prediction/prediction-engine.js';
 import { PredictionHistoryRing } from './prediction/prediction-history.js';
@@ -104,11 +108,23 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
   };
 
   try {
+    // A bad HOST or MQTT_HOST is refused before anything starts.
+    await checkListenSlots(listenSlots(config), { portsToo: false });
     const lock = lockDataFolder(config.dataDir);
     closers.push(() => lock.release());
     const tokens = new TokenIssuer(loadOrCreateJwtSecret(config.dataDir));
 
-    const database = opts.database ?? (await openDatabase({ dataDir: config.dataDir, databaseUrl: config.databaseUrl }));
+    const database =
+      opts.database ??
+      (await openDatabase({
+        dataDir: config.dataDir,
+        databaseUrl: config.databaseUrl,
+        onRetry: (reason, delayMs) => log.warn(`PostgreSQL at DATABASE_URL cannot be reached (${reason}); trying again in ${delayMs / 1000} s`),
+        onHealthChange: (db) =>
+          db.state === 'up'
+            ? log.info({ outageSince: db.since }, 'PostgreSQL reachable again; storage resumes')
+            : log.error(`PostgreSQL at DATABASE_URL cannot be reached (${db.lastError}); supervision goes on from memory`),
+      }));
     if (!opts.database) closers.push(() => database.close());
     const { db } = database;
     await seedDemoCalibration(db);
@@ -125,7 +141,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
 
     let broker: RunningBroker | null = null;
     let brokerCredentials: BrokerCredentials | null = null;
-    let mqtt: { url: string; username: string | null; password: string | null };
+    let mqtt: { url: string; username: string | null; password: string | null; protocolVersion: MqttProtocolLevel };
     if (config.mqtt.mode === 'embedded') {
       brokerCredentials = await loadOrCreateCredentials(config.dataDir);
       const started = await startBroker({
@@ -136,7 +152,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
       });
       broker = started;
       closers.push(() => started.close());
-      mqtt = { url: started.url, ...brokerCredentials.server };
+      mqtt = { url: started.url, ...brokerCredentials.server, protocolVersion: 4 };
     } else {
       mqtt = config.mqtt;
     }
@@ -150,14 +166,19 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const engine = new PredictionEngine({ log });
     closers.push(() => engine.close());
     const history = new PredictionHistoryRing();
-    const prediction = new LivePredictionFeed({ engine, live, history, fanout, staleMs: config.staleTripMs });
+    // One source of the lead-set levels: the interlock's trip levels, the bands, and the least
+    // field that orients the dipoles, below which the prediction is shown as not applying.
+    const levels = await LevelStore.load(db);
+    const minOrientingField = () => levels.inForce().levels.settings.minOrientingFieldG;
+    const prediction = new LivePredictionFeed({ engine, live, history, fanout, staleMs: config.staleTripMs, minOrientingFieldG: minOrientingField() });
     closers.push(() => prediction.close());
+    levels.onChange(() => prediction.setMinOrientingField(minOrientingField()));
     const profiles = new ActiveProfileLoader(db, prediction);
     await profiles.reload();
     const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout, prediction });
     const gate = new FrameGate();
     // Alarms and the software interlock evaluate what the pipeline made of each message.
-    const supervision = await startSupervision({ db, live, sink: fanout, config, log });
+    const supervision = await startSupervision({ db, live, sink: fanout, config, log, levels, databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined });
     closers.push(() => supervision.close());
     const deliver = (message: AdmittedMessage) => supervision.supervisor.observe(pipeline.handle(message));
     const ingest = await startIngest({ ...mqtt, gate, deliver, log });
@@ -170,13 +191,15 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
 
     const report = (): HealthReport => {
       const fanoutCounters = fanout.counters();
+      const databaseHealth = database.health?.report() ?? null;
       return {
-        status: 'ok',
+        status: databaseHealth?.state === 'unreachable' ? 'degraded' : 'ok',
         uptimeS: Math.round((performance.now() - startedAt) / 1000),
         frames: gate.counters(),
         clients: fanoutCounters.clients,
         broker: broker?.counters() ?? null,
         db: database.kind,
+        database: databaseHealth,
         mqttConnected: ingest.connected(),
         fanout: fanoutCounters,
         storage: writer.counters(),
@@ -215,7 +238,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
 
 function listen(server: Server, port: number, host: string): Promise<void> {
   return new Promise((resolve, reject) => {
-    server.once('error', (error) => reject(new Error(`Cannot listen on ${host}:${port} (PORT/HOST): ${error.message}`)));
+    server.once('error', (error) => reject(new Error(listenProblem('The web server', { port: 'PORT', host: 'HOST' }, host, port, error))));
     server.listen(port, host, () => resolve());
   });
 }

@@ -9,6 +9,8 @@ export interface ChannelExtras {
   targetDirection?: Vec3 | null;
   /** Server time the newest telemetry frame was heard, Unix epoch ms; null or absent before the first. */
   lastFrameAtMs?: number | null;
+  /** Seconds the PostgreSQL server has been unreachable (0 while reachable); absent with PGlite. */
+  databaseOutageS?: number;
 }
 
 const DEG = 180 / Math.PI;
@@ -42,6 +44,7 @@ export function channelValues(live: LiveState, nowMs: number, extras: ChannelExt
   setIfFinite(out, 'collapseRatio', live.prediction?.collapseRatio);
   const lastFrameMs = extras.lastFrameAtMs;
   if (finite(lastFrameMs)) out.stale = Math.max(0, nowMs - lastFrameMs);
+  setIfFinite(out, 'databaseOutage', extras.databaseOutageS);
   return out;
 }
 

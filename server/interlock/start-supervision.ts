@@ -18,7 +18,7 @@ import type { LiveStore } from '../live/live-store.js';
 import { composeChannelBands } from '../../shared/levels/channel-bands.js';
 import type { ChannelBands } from '../../shared/live/channels.js';
 import { levelHandlers, type LevelRoutes } from '../levels/level-routes.js';
-import { LevelStore } from '../levels/level-store.js';
+import type { LevelStore } from '../levels/level-store.js';
 import { parseNoticeOptions } from '../notify/compose-notice.js';
 import { LocalMailbox } from '../notify/local-mailbox.js';
 import { Mailer } from '../notify/mailer.js';
@@ -60,11 +60,20 @@ export interface SupervisionSink extends AlarmsSink {
   publishChannels(bands: ChannelBands): void;
 }
 
-export async function startSupervision(deps: { db: Db; live: LiveStore; sink: SupervisionSink; config: ServerConfig; log: Logger }): Promise<Supervision> {
-  const { db, live, sink, config, log } = deps;
+export async function startSupervision(deps: {
+  db: Db;
+  live: LiveStore;
+  sink: SupervisionSink;
+  config: ServerConfig;
+  log: Logger;
+  /** The lead-set levels (trip levels, bands, settings), loaded once for the whole server. */
+  levels: LevelStore;
+  /** Seconds the PostgreSQL server has been unreachable (the `databaseOutage` alarm); absent with PGlite. */
+  databaseOutageS?: () => number;
+}): Promise<Supervision> {
+  const { db, live, sink, config, log, levels } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
   book.restore(await loadAlarmStates(db));
-  const levels = await LevelStore.load(db);
   const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs, ...interlockTrips(levels.inForce().levels.trips) }));
   // One source: the level set in force feeds the interlock's trip levels and the gauges' bands.
   const publishBands = () => sink.publishChannels(composeChannelBands(levels.inForce(), book.limits()));
@@ -104,7 +113,8 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Su
     closers.push(() => mailer.close());
     const notice = parseNoticeOptions({ onCall: config.mail.onCall, site: SITE });
     const notifier = new OnCallNotifier(mailer, notice, (id) => book.limits().find((l) => l.id === id));
-    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log });
+    const outage = deps.databaseOutageS;
+    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log, extras: outage ? () => ({ databaseOutageS: outage() }) : undefined });
     closers.push(() => supervisor.close());
 
     return {

@@ -15,7 +15,7 @@ import { AXES, type FastFrame, type ReleaseCommand, type TripCommand } from '../
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import { activeAlarms } from '../alarms/alarm-body.js';
 import type { AlarmBook } from '../alarms/alarm-book.js';
-import { channelValues } from '../alarms/channel-values.js';
+import { channelValues, type ChannelExtras } from '../alarms/channel-values.js';
 import type { SupervisionLog } from '../alarms/supervision-log.js';
 import { writeFailureText } from '../db/write-failure.js';
 import type { LiveStore } from '../live/live-store.js';
@@ -47,6 +47,8 @@ export interface SupervisorDeps {
   notifier: Pick<OnCallNotifier, 'trip' | 'alarmEvents'>;
   sink: AlarmsSink;
   log: Logger;
+  /** Channel inputs from outside the live state (the database outage), read at each evaluation. */
+  extras?: () => ChannelExtras;
   /** Server clock, Unix epoch ms (default `Date.now`). */
   now?: () => number;
   /** Period of the timer evaluation, ms (default 20: silence is seen within the stale limit + 20 ms). */
@@ -132,7 +134,7 @@ export class Supervisor {
     try {
       // Time this process could not listen does not count against the controller (see `tick`).
       const heardAtMs = lastFrameAtMs === null ? null : lastFrameAtMs + this.pausedMs;
-      const values = channelValues(live, nowMs, { lastFrameAtMs: heardAtMs });
+      const values = channelValues(live, nowMs, { ...this.deps.extras?.(), lastFrameAtMs: heardAtMs });
       if (this.peakCurrent && live.currents) {
         for (const axis of AXES) values[`current.${axis}`] = this.peakCurrent[axis];
       }

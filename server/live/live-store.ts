@@ -1,7 +1,6 @@
 import type { Calibration } from '../../shared/field/calibration.js';
 import type { FieldState } from '../../shared/field/field-vector.js';
 import type { LivePrediction, LiveState, PerAxis, PredictionStatus } from '../../shared/live/live-state.js';
-import { DEFAULT_MIN_ORIENTING_FIELD_G } from '../../shared/profiles/sample-profile.js';
 import type { ControllerStatus, FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
 
 /**
@@ -30,7 +29,7 @@ export class LiveStore {
       lastFrameAt: null,
     },
     prediction: null,
-    predictionStatus: { state: 'no-telemetry', fieldG: null, minFieldG: DEFAULT_MIN_ORIENTING_FIELD_G, reason: 'No telemetry yet.' },
+    predictionStatus: { state: 'no-telemetry', fieldG: null, minFieldG: null, reason: 'No telemetry yet.' },
   };
   private newestSampleMs = -Infinity;
   private lastFrameMs: number | null = null;

@@ -21,7 +21,7 @@ type FieldCalibration = Pick<CalibrationBody, 'gaussPerAmp' | 'offsetGauss'>;
  * the ingest path, so it only does a matrix product and hands over: the engine thresholds,
  * coalesces and solves in its worker thread. It also keeps the live state's `predictionStatus`:
  * whether the prediction describes the gas now (|B| strong enough to orient the dipoles, as
- * the active profile sets it, and telemetry not stale), checked on every frame and on a timer.
+ * the lead sets it in the level set, and telemetry not stale), checked on every frame and on a timer.
  * The owner calls `close()`.
  */
 export class LivePredictionFeed {
@@ -29,6 +29,7 @@ export class LivePredictionFeed {
   private lastFrame: { calibration: FieldCalibration; meanCurrentA: Vec3; fieldG: number; atMs: number } | null = null;
   private readonly timer: NodeJS.Timeout;
   private readonly now: () => number;
+  private minOrientingFieldG: number;
 
   constructor(
     private readonly deps: {
@@ -38,11 +39,14 @@ export class LivePredictionFeed {
       fanout: Pick<LiveSink, 'publishStateChange'>;
       /** Telemetry older than this is stale, ms (the interlock's stale limit). */
       staleMs: number;
+      /** The least field that orients the dipoles, G, until `setMinOrientingField`. */
+      minOrientingFieldG: number;
       /** Server clock, Unix epoch ms (default `Date.now`). */
       now?: () => number;
     },
   ) {
     this.now = deps.now ?? Date.now;
+    this.minOrientingFieldG = deps.minOrientingFieldG;
     deps.engine.onPrediction((p) => {
       deps.live.applyPrediction(p);
       deps.history.push(p);
@@ -50,6 +54,12 @@ export class LivePredictionFeed {
     });
     this.timer = setInterval(() => this.updateStatus(), STATUS_CHECK_MS);
     this.timer.unref();
+  }
+
+  /** Takes a new least field that orients the dipoles, G (a lead changed the level set). */
+  setMinOrientingField(fieldG: number): void {
+    this.minOrientingFieldG = fieldG;
+    this.updateStatus();
   }
 
   /** Stops the staleness check. */
@@ -99,7 +109,7 @@ export class LivePredictionFeed {
       lastFrameAtMs: last?.atMs ?? null,
       nowMs: this.now(),
       staleMs: this.deps.staleMs,
-      minFieldG: this.profile?.profile.minOrientingFieldG,
+      minFieldG: this.minOrientingFieldG,
     });
     if (sameStatus(next, this.deps.live.snapshot().predictionStatus)) return;
     this.deps.live.applyPredictionStatus(next);

@@ -25,7 +25,7 @@ describe('predictionStatus', () => {
     expect(status.reason).toMatch(/No telemetry for 1\.5 s/);
   });
 
-  it('says there is no telemetry before the first frame, and uses the default minimum without a profile value', () => {
-    expect(predictionStatus({ fieldG: null, lastFrameAtMs: null, nowMs: NOW, staleMs: 250 })).toMatchObject({ state: 'no-telemetry', minFieldG: 0.5 });
+  it('says there is no telemetry before the first frame', () => {
+    expect(predictionStatus({ fieldG: null, lastFrameAtMs: null, nowMs: NOW, staleMs: 250, minFieldG: 0.5 })).toMatchObject({ state: 'no-telemetry', minFieldG: 0.5 });
   });
 });

@@ -1,5 +1,4 @@
 import type { PredictionStatus } from '../../shared/live/live-state.js';
-import { DEFAULT_MIN_ORIENTING_FIELD_G } from '../../shared/profiles/sample-profile.js';
 
 export interface PredictionStatusInput {
   /** |B| of the newest frame, G; null before the first. */
@@ -9,8 +8,8 @@ export interface PredictionStatusInput {
   nowMs: number;
   /** Telemetry older than this is stale, ms (the interlock's stale limit). */
   staleMs: number;
-  /** The active profile's minimum orienting field, G. */
-  minFieldG?: number;
+  /** The least field that orients the dipoles, G (lead-set, in the level set in force). */
+  minFieldG: number;
 }
 
 /**
@@ -18,8 +17,7 @@ export interface PredictionStatusInput {
  * first: an old |B| says nothing about the field now.
  */
 export function predictionStatus(input: PredictionStatusInput): PredictionStatus {
-  const minFieldG = input.minFieldG ?? DEFAULT_MIN_ORIENTING_FIELD_G;
-  const { fieldG, lastFrameAtMs } = input;
+  const { fieldG, lastFrameAtMs, minFieldG } = input;
   if (lastFrameAtMs === null || fieldG === null) {
     return { state: 'no-telemetry', fieldG: null, minFieldG, reason: 'No telemetry yet: the field, and with it the prediction, is unknown.' };
   }

@@ -3,7 +3,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { fermiEnergyNanoKelvin, sampleScales } from '../../../shared/physics/sample';
 import { SPECIES } from '../../../shared/physics/species';
 import type { ProfileRecord } from '../../../shared/profiles/profile-record';
-import { DEFAULT_MIN_ORIENTING_FIELD_G, sampleParamsOf, type SampleProfile } from '../../../shared/profiles/sample-profile';
+import { sampleParamsOf, type SampleProfile } from '../../../shared/profiles/sample-profile';
 import { cameraAxes } from '../prediction/camera-axes';
 import { formatLocalDateTime, formatNumber, formatQuantity } from '../readout/format-quantity';
 
@@ -32,10 +32,6 @@ export class ProfileDetails {
       },
       { label: 'TOF times', value: `${profile.tofMs.map((t) => formatNumber(t, 1)).join(', ')}\u00a0ms (first shown live)` },
       { label: 'Camera', value: cameraAxes(profile.imaging)?.label ?? '—' },
-      {
-        label: 'Least field that orients the dipoles',
-        value: `${formatQuantity(profile.minOrientingFieldG ?? DEFAULT_MIN_ORIENTING_FIELD_G, 'G', 2)}${profile.minOrientingFieldG === undefined ? ' (default)' : ''}`,
-      },
     ];
   });
 

@@ -29,8 +29,6 @@ export interface ProfileDraft {
   /** Comma-separated components, trap frame. */
   imagingU: string;
   imagingV: string;
-  /** Field below which the prediction does not apply, G; empty for the default. */
-  minOrientingFieldG: string;
 }
 
 export type DraftField = keyof ProfileDraft;
@@ -39,7 +37,7 @@ export type DraftField = keyof ProfileDraft;
 const FIELD_SET: Record<DraftField, true> = {
   name: true, species: true, customName: true, massU: true, magneticMomentMuB: true, dipoleDebye: true, polarization: true,
   atomNumber: true, trapX: true, trapY: true, trapZ: true, eulerAlpha: true, eulerBeta: true, eulerGamma: true, tofMs: true,
-  imaging: true, imagingU: true, imagingV: true, minOrientingFieldG: true,
+  imaging: true, imagingU: true, imagingV: true,
 };
 export const DRAFT_FIELDS = Object.keys(FIELD_SET) as DraftField[];
 
@@ -81,7 +79,6 @@ export function draftFromProfile(profile: SampleProfile): ProfileDraft {
     imaging: typeof imaging === 'string' ? imaging : 'custom',
     imagingU: typeof imaging === 'string' ? '' : imaging.u.join(', '),
     imagingV: typeof imaging === 'string' ? '' : imaging.v.join(', '),
-    minOrientingFieldG: profile.minOrientingFieldG === undefined ? '' : String(profile.minOrientingFieldG),
   };
 }
 
@@ -134,7 +131,6 @@ export function profileFromDraft(draft: ProfileDraft): DraftResult {
     ...(eulerGiven ? { trapToCoilEulerDeg: euler } : {}),
     tofMs: list('tofMs', 'the TOF times in ms'),
     imaging: draft.imaging === 'custom' ? { u: list('imagingU', 'the camera u vector'), v: list('imagingV', 'the camera v vector') } : draft.imaging,
-    ...(draft.minOrientingFieldG.trim() !== '' ? { minOrientingFieldG: number('minOrientingFieldG', 'the least field that orients the dipoles in G') } : {}),
   };
   if (Object.keys(problems.fields).length > 0) return { profile: null, problems };
 
@@ -159,14 +155,13 @@ const TRAP_FIELDS: DraftField[] = ['trapX', 'trapY', 'trapZ'];
 const EULER_FIELDS: DraftField[] = ['eulerAlpha', 'eulerBeta', 'eulerGamma'];
 
 /** The form field of a schema issue path, e.g. ["trapHz", "1"] → trapY. */
-function fieldOfPath(path: string[]): DraftField | null {
+export function fieldOfPath(path: string[]): DraftField | null {
   const [key, sub] = path;
   switch (key) {
     case 'name':
     case 'atomNumber':
     case 'polarization':
     case 'tofMs':
-    case 'minOrientingFieldG':
       return key;
     case 'species':
       return sub === 'massU' || sub === 'magneticMomentMuB' || sub === 'dipoleDebye' ? sub : 'species';
