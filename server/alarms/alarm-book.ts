@@ -93,6 +93,7 @@ export class AlarmBook {
   private readonly busy = new Set<string>();
   private readonly grouper: FirstOutGrouper;
   private readonly clock: () => number;
+  private changes = 0;
   readonly maxShelveMinutes: number;
 
   /** @param limits validated limits (see `parseAlarmLimits`); ids must be unique. */
@@ -124,6 +125,7 @@ export class AlarmBook {
         events.push(event);
       }
     }
+    this.changes += events.length;
     return events;
   }
 
@@ -137,6 +139,7 @@ export class AlarmBook {
       event.firstOutOf = head;
     }
     if (!replaced) return;
+    this.changes++;
     for (const other of this.alarms.values()) {
       if (other.raisedAt !== null && (other.limit.id === replaced || other.firstOutOf === replaced)) other.groupUnder(event.alarmId);
     }
@@ -173,6 +176,7 @@ export class AlarmBook {
       commit: () => {
         close();
         alarm.takeOver(twin);
+        this.changes++;
       },
       cancel: close,
     };
@@ -198,6 +202,7 @@ export class AlarmBook {
   /** Takes over states remembered before a restart; ids no longer defined are ignored. */
   restore(memories: ReadonlyMap<string, AlarmMemory>): void {
     for (const [id, memory] of memories) this.alarms.get(id)?.adopt(memory);
+    this.changes++;
   }
 
   private run(alarm: AlarmStateMachine, actor: string, request: AlarmRequest): AlarmEvent | null {
@@ -229,6 +234,15 @@ export class AlarmBook {
       case 'reset':
         return alarm.resetLatched(actor, checkReason(request.reason, 'a reset'), now);
     }
+  }
+
+  /**
+   * A number that changes whenever an alarm changes state, grouping or definition (every
+   * transition is an event), not on mere value changes: lets a caller tell in constant time
+   * whether the active list has news.
+   */
+  revision(): number {
+    return this.changes;
   }
 
   /** Acknowledges an alarm; null when it had nothing to acknowledge. */
@@ -274,6 +288,7 @@ export class AlarmBook {
       throw new AlarmRequestError('invalid', (err as Error).message);
     }
     alarm.redefine(next);
+    this.changes++;
     return previous;
   }
 

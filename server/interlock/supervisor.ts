@@ -196,28 +196,26 @@ export class Supervisor {
 
   /**
    * Sends the `alarms` message at once when the interlock state or the active alarm list
-   * changed (a new `revision`), and otherwise at most every 250 ms while the present values of
-   * active alarms move, so that the values shown for them stay live.
+   * changed — the interlock and the alarm book count their changes, so that check costs the
+   * same however many alarms there are — with a new `revision`; and otherwise at most every
+   * 250 ms while the present values of active alarms move, so the values shown stay live.
    */
   announce(nowMs: number = this.now()): void {
-    const message = this.alarmsMessage();
-    const { interlock, active } = message;
-    const key = JSON.stringify([
-      interlock.state,
-      interlock.firstOut?.at,
-      interlock.hardwareTripped,
-      interlock.hardwareTripCause,
-      interlock.conditions.filter((c) => c.active).map((c) => c.name),
-      active.map((a) => [a.id, a.state, a.firstOutOf]),
-    ]);
-    const values = JSON.stringify(active.map((a) => a.value));
+    const { controller } = this.deps.live.snapshot();
+    const key = `${this.deps.interlock.revision()}/${this.deps.book.revision()}/${controller.hardwareTripped}/${controller.hardwareTripCause}`;
     if (key !== this.announcedKey) {
-      message.revision = ++this.revision;
-    } else if (values === this.announcedValues || nowMs - this.announcedAt < VALUE_REFRESH_MS) {
+      this.announcedKey = key;
+      this.revision++;
+      this.publishAlarms(this.alarmsMessage(), nowMs);
       return;
     }
-    this.announcedKey = key;
-    this.announcedValues = values;
+    if (nowMs - this.announcedAt < VALUE_REFRESH_MS) return;
+    const message = this.alarmsMessage();
+    if (presentValues(message) !== this.announcedValues) this.publishAlarms(message, nowMs);
+  }
+
+  private publishAlarms(message: AlarmsMessage, nowMs: number): void {
+    this.announcedValues = presentValues(message);
     this.announcedAt = nowMs;
     this.deps.sink.publishAlarms(message);
   }
@@ -295,4 +293,9 @@ function peakAbs(frame: FastFrame): PerAxis<number> {
     return max;
   };
   return { x: peak(frame.currentA.x), y: peak(frame.currentA.y), z: peak(frame.currentA.z) };
+}
+
+/** The present values of the active alarms, to tell whether a refresh has news. */
+function presentValues(message: AlarmsMessage): string {
+  return JSON.stringify(message.active.map((a) => a.value));
 }
