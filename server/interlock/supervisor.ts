@@ -10,6 +10,7 @@
  */
 import type { Logger } from 'pino';
 import type { AlarmsMessage } from '../../shared/alarms/alarm-api.js';
+import type { Vec3 } from '../../shared/field/field-vector.js';
 import type { LiveState, PerAxis } from '../../shared/live/live-state.js';
 import { AXES, type FastFrame, type ReleaseCommand, type TripCommand } from '../../shared/telemetry/messages.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
@@ -28,6 +29,11 @@ import { interlockInputs } from './trip-conditions.js';
 /** How commands reach the controller (the server's MQTT client). */
 export interface CommandLink {
   publish(topic: string, payload: string, qos: 0 | 1): void;
+}
+
+/** What steering tells the alarms at a moment: the target direction (trap frame) and whether a ramp is programmed. */
+export interface SteeringContext {
+  alarmContext(nowMs: number): { targetDirection: Vec3 | null; rampProgrammed: boolean };
 }
 
 /** Where changes of the interlock state and the active alarm list go (the WebSocket fan-out). */
@@ -51,6 +57,8 @@ export interface SupervisorDeps {
   extras?: () => ChannelExtras;
   /** Server clock, Unix epoch ms (default `Date.now`). */
   now?: () => number;
+  /** The target in force and whether a ramp is programmed (steering); none when absent. */
+  steering?: SteeringContext;
   /** Period of the timer evaluation, ms (default 20: silence is seen within the stale limit + 20 ms). */
   tickMs?: number;
 }
@@ -134,7 +142,8 @@ export class Supervisor {
     try {
       // Time this process could not listen does not count against the controller (see `tick`).
       const heardAtMs = lastFrameAtMs === null ? null : lastFrameAtMs + this.pausedMs;
-      const values = channelValues(live, nowMs, { ...this.deps.extras?.(), lastFrameAtMs: heardAtMs });
+      const steering = this.deps.steering?.alarmContext(nowMs) ?? { targetDirection: null, rampProgrammed: false };
+      const values = channelValues(live, nowMs, { ...this.deps.extras?.(), targetDirection: steering.targetDirection, lastFrameAtMs: heardAtMs });
       if (this.peakCurrent && live.currents) {
         for (const axis of AXES) values[`current.${axis}`] = this.peakCurrent[axis];
       }
@@ -142,8 +151,7 @@ export class Supervisor {
       inputs.controllerOnline = !this.reportedOffline;
       const trip = interlock.evaluate(inputs, nowMs);
       if (trip) this.sendTrip(trip.reason, nowMs);
-      // Steering (programmed ramps) arrives later; until then no ramp suppresses an alarm.
-      const events = book.evaluate(values, nowMs, { rampProgrammed: false });
+      const events = book.evaluate(values, nowMs, { rampProgrammed: steering.rampProgrammed });
       if (trip) {
         log.warn({ firstOut: trip.firstOut }, 'software interlock tripped');
         this.record(trip);

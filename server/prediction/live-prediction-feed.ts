@@ -67,6 +67,11 @@ export class LivePredictionFeed {
     clearInterval(this.timer);
   }
 
+  /** The active profile, or null before the first `setProfile`. */
+  activeProfile(): ProfileRecord | null {
+    return this.profile;
+  }
+
   /** The active profile's id, or null before the first `setProfile`. */
   activeProfileId(): number | null {
     return this.profile?.id ?? null;
