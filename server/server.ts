@@ -176,7 +176,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...authHandlers(new LoginUseCase(db, tokens), config.loginAttemptsPerMinute),
         ...liveHandlers(live),
         ...seriesHandlers(db, calibrations, writer),
-        ...calibrationHandlers(db),
+        ...calibrationHandlers(db, async () => void (await calibrations.reload())),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),
         ...supervision.handlers,
