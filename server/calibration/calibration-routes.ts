@@ -5,6 +5,7 @@ import type { CalibrationFitResponse } from '../../shared/field/calibration-reco
 import type { Db } from '../db/database.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
+import { queryNumber, reasonText } from '../http/fields.js';
 import { parseInput } from '../http/validate.js';
 import { approveCalibration, findActiveCalibration, findCalibrationDetail, listCalibrations, saveDraft } from './calibration-repository.js';
 import { parseCalibrationCsv } from './fit/calibration-csv.js';
@@ -14,31 +15,25 @@ import { CalibrationInputError } from './fit/fit-input-error.js';
 /** Largest calibration file accepted, bytes (100 000 lines of a few numbers). */
 export const MAX_CALIBRATION_FILE_BYTES = 4 * 1024 * 1024;
 
-const reason = z
-  .string({ error: 'must be text saying why (it goes into the audit trail)' })
-  .trim()
-  .min(1, 'must say why (it goes into the audit trail)')
-  .max(500, 'must be at most 500 characters');
-const ApproveRequest = z.strictObject({ reason });
-const CalibrationId = z.object({
-  id: z.coerce.number({ error: 'must be a calibration version id' }).int('must be a whole number').positive('must be a calibration version id ≥ 1').max(2 ** 31 - 1, 'is too large'),
-});
-/** The form fields beside the file; labels as on the Calibration screen. */
-const FitFields = z.strictObject({
-  mhzPerGauss: z
-    .string()
-    .trim()
-    .optional()
-    .transform((raw, ctx) => {
-      if (raw === undefined || raw === '') return undefined;
-      const value = Number(raw);
-      if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(raw) || !Number.isFinite(value)) {
-        ctx.addIssue({ code: 'custom', message: 'MHz per G must be a number' });
-        return z.NEVER;
-      }
-      return value;
-    }),
-});
+const ApproveRequest = z.strictObject({ reason: reasonText() });
+const CalibrationId = z.object({ id: queryNumber({ min: 1, max: 2 ** 31 - 1, integer: true }) });
+
+/**
+ * The Zeeman coefficient from the upload form (text), labelled as on the Calibration screen;
+ * undefined when left empty. Whether it is needed and positive is the file reader's check.
+ */
+function formCoefficient(body: unknown): number | undefined {
+  const fields = (body ?? {}) as Record<string, unknown>;
+  const unknown = Object.keys(fields).find((key) => key !== 'mhzPerGauss');
+  if (unknown !== undefined) throw new HttpError(400, `Invalid request body: ${JSON.stringify(unknown).slice(0, 60)} is not a field of the calibration upload (file, mhzPerGauss)`);
+  const raw = fields['mhzPerGauss'];
+  if (raw === undefined || (typeof raw === 'string' && raw.trim() === '')) return undefined;
+  const text = typeof raw === 'string' ? raw.trim() : '';
+  if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(text) || !Number.isFinite(Number(text))) {
+    throw new HttpError(400, 'MHz per G: must be a number, e.g. 1.4 (the transition\'s linear Zeeman coefficient)');
+  }
+  return Number(text);
+}
 
 const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_CALIBRATION_FILE_BYTES, files: 1, fields: 4, fieldSize: 1000, parts: 6 } });
 
@@ -87,21 +82,21 @@ export function calibrationHandlers(
     'calibrations.fit': [
       receiveFile,
       async (req, res) => {
-        const fields = parseInput(FitFields, req.body, 'body');
+        const mhzPerGauss = formCoefficient(req.body);
         const file = req.file;
         if (!file || file.size === 0) throw new HttpError(400, 'Calibration file: choose a CSV file (form field "file")');
         const active = await findActiveCalibration(db);
         let fit;
         try {
           fit = fitCalibration(
-            parseCalibrationCsv(file.buffer.toString('utf8'), { mhzPerGauss: fields.mhzPerGauss }),
+            parseCalibrationCsv(file.buffer.toString('utf8'), { mhzPerGauss }),
             active ? { version: active.version, gaussPerAmp: active.gaussPerAmp, coilToTrap: active.coilToTrap } : undefined,
           );
         } catch (error) {
           if (error instanceof CalibrationInputError) throw new HttpError(400, `Calibration file: ${error.message}`);
           throw error;
         }
-        const detail = await saveDraft(db, { fit, sourceName: safeName(file.originalname), mhzPerGauss: fields.mhzPerGauss ?? null, actor: actor(req) });
+        const detail = await saveDraft(db, { fit, sourceName: safeName(file.originalname), mhzPerGauss: mhzPerGauss ?? null, actor: actor(req) });
         const body: CalibrationFitResponse = { id: detail.id, state: 'draft', fit: fit.report, calibration: detail };
         res.status(201).json(body);
       },

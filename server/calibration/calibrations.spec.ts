@@ -75,7 +75,7 @@ describe('calibration fits and approval over the API', () => {
     const zero = await upload('lead', 'rf.csv', example('lindqvist-rf-frequency.csv'), { mhzPerGauss: '0' });
     expect(zero.body.error).toMatch(/must be a positive number of MHz\/G/);
     const text = await upload('lead', 'rf.csv', example('lindqvist-rf-frequency.csv'), { mhzPerGauss: 'fast' });
-    expect(text).toMatchObject({ status: 400, body: { error: expect.stringMatching(/MHz per G must be a number/) } });
+    expect(text).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^MHz per G: must be a number/) } });
     const absurd = await upload('lead', 'rf.csv', example('lindqvist-rf-frequency.csv'), { mhzPerGauss: '1e308' });
     expect(absurd.status).toBe(400);
     const hostile = await upload('lead', 'nul.csv', 'current_x_A,current_y_A,current_z_A,field_G\n1,2,3\u0000,4\n');

@@ -5,7 +5,7 @@
  */
 import { LOGBOOK_LINK_KINDS, MAX_ENTRY_CHARS, MAX_TAG_CHARS, MAX_TAGS, type LogbookLink, type LogbookLinkKind } from '../../shared/logbook/logbook-api.js';
 import { HttpError } from '../http/http-error.js';
-import { textProblem } from './text-rules.js';
+import { textProblem } from '../../shared/validation/edge-rules.js';
 
 export interface EntryInput {
   text: string;

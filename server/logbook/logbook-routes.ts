@@ -19,7 +19,7 @@ import { checkAttachment, contentDisposition, type CheckedFile } from './attachm
 import { parseEntryInput } from './entry-input.js';
 import { linkProblem, type LinkTargets } from './link-targets.js';
 import { entryExists, findAttachment, findEntries, insertEntry } from './logbook-repository.js';
-import { textProblem } from './text-rules.js';
+import { textProblem } from '../../shared/validation/edge-rules.js';
 
 const DEFAULT_LIMIT = 200;
 const MAX_LIMIT = 1000;

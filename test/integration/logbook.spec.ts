@@ -51,8 +51,11 @@ describe('logbook API', () => {
   it('refuses empty text, hostile text and malformed fields with a 400 naming the field', async () => {
     expect(await write({ text: '   ' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Text: .*cannot be empty/) } });
     expect(await write({})).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Text:/) } });
-    expect(await write({ text: 'a\u0000b' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Text: .*NUL/) } });
-    expect(await write({ text: 'half \uD800 pair' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Text: .*surrogate/) } });
+    expect(await write({ text: 'a\u0000b' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/text must not contain a NUL/) } });
+    expect(await write({ text: 'half \uD800 pair' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/text .*lone surrogate/) } });
+    // Form fields are not JSON: the logbook checks them itself.
+    expect(await upload({ text: 'a\u0000b' }, [])).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Text: .*NUL/) } });
+    expect(await upload({ text: 'ok', link: 'alarm:x\u0007' }, [])).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to:/) } });
     expect(await write({ text: 'x', tags: ['two words'] })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Tags:/) } });
     expect(await write({ text: 'x', at: 'yesterday' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Refers to \(at\):/) } });
     expect(await write({ text: 'x', at: new Date(Date.now() + 86_400_000).toISOString() })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/future/) } });
