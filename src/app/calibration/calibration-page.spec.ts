@@ -1,6 +1,6 @@
 import { HttpTestingController } from '@angular/common/http/testing';
 import { TestBed, type ComponentFixture } from '@angular/core/testing';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '../../../shared/auth/roles';
 import type { CalibrationDetail, CalibrationRecord } from '../../../shared/field/calibration-record';
 import { DEMO_CALIBRATION, DEMO_COVARIANCE } from '../../../shared/field/demo-calibration';
@@ -26,11 +26,23 @@ const DRAFT: CalibrationDetail = {
   ],
 };
 
-describe('CalibrationPage', () => {
+describe('CalibrationPage', { timeout: 30_000 }, () => {
   let fixture: ComponentFixture<CalibrationPage>;
   let http: HttpTestingController;
   let host: HTMLElement;
 
+  // jsdom has no Path2D; uPlot draws the residual points with it.
+  beforeAll(() => {
+    const g = globalThis as { Path2D?: unknown };
+    g.Path2D ??= class {
+      moveTo(): void {}
+      lineTo(): void {}
+      arc(): void {}
+      rect(): void {}
+      closePath(): void {}
+      addPath(): void {}
+    };
+  });
   afterEach(() => localStorage.clear());
 
   async function open(role: Role): Promise<void> {
@@ -40,15 +52,25 @@ describe('CalibrationPage', () => {
     host = fixture.nativeElement as HTMLElement;
     TestBed.tick();
     http.expectOne('/api/calibrations').flush({ calibrations: [DEMO, DRAFT] });
+    // The active version's report is asked for once the list is in.
+    (await nextRequest('/api/calibrations/1')).flush({ ...DEMO, points: null });
     await fixture.whenStable();
-    http.expectOne('/api/calibrations/1').flush({ ...DEMO, points: null });
-    await fixture.whenStable();
+  }
+
+  /** Lets the resources react (a few ticks and microtasks) until the request to `url` is out. */
+  async function nextRequest(url: string) {
+    for (let i = 0; i < 20 && http.match(url).length === 0; i++) {
+      TestBed.tick();
+      await new Promise((resolve) => setTimeout(resolve, 0));
+      const found = http.match(url);
+      if (found.length > 0) return found[0];
+    }
+    return http.expectOne(url);
   }
 
   async function choose(version: string): Promise<void> {
     [...host.querySelectorAll('button.version')].find((b) => b.textContent!.includes(version))!.dispatchEvent(new Event('click'));
-    TestBed.tick();
-    http.expectOne('/api/calibrations/2').flush(DRAFT);
+    (await nextRequest('/api/calibrations/2')).flush(DRAFT);
     await fixture.whenStable();
   }
 
