@@ -77,10 +77,14 @@ export class ResidualChart {
     this.plot = new uPlot(
       {
         ...plotSize(host),
-        scales: { x: { time: false } },
+        scales: {
+          x: { time: false },
+          // Symmetric about zero, so the sign of a residual reads at a glance.
+          y: { range: (_u, min, max) => symmetricRange(min, max) },
+        },
         cursor: { drag: { x: false, y: false, setScale: false } },
         legend: { live: false },
-        axes: [axis(xLabel), axis('Residual (mG)', 3)],
+        axes: [axis(xLabel), { ...axis('Residual (mG)', 3), space: 20 }],
         series: [
           { label: xLabel },
           ...components.map<uPlot.Series>((name, c) => ({
@@ -101,6 +105,11 @@ export class ResidualChart {
       host,
     );
   }
+}
+
+function symmetricRange(min: number | null, max: number | null): uPlot.Range.MinMax {
+  const m = Math.max(Math.abs(min ?? 0), Math.abs(max ?? 0), 0.01) * 1.15;
+  return [-m, m];
 }
 
 function worst(values: readonly number[]): number {
