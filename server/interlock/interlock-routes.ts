@@ -15,6 +15,7 @@ import type { Interlock } from './interlock.js';
 import { conditionBody, interlockBody } from './interlock-body.js';
 import type { Supervisor } from './supervisor.js';
 import { recentTrips, recordTripReset } from './trip-repository.js';
+import { unlessDatabaseDown } from '../db/database-health.js';
 
 /** Trips listed in `history`. */
 const HISTORY_TRIPS = 20;
@@ -31,8 +32,13 @@ export function interlockHandlers(deps: InterlockRouteDeps): Pick<RouteHandlers,
   const { db, interlock, live, supervisor, records } = deps;
   return {
     'interlock.status': async (_req, res) => {
-      await records.flush();
-      const body: InterlockStatus = { ...interlockBody(interlock.state(), live.snapshot().controller), history: await recentTrips(db, HISTORY_TRIPS) };
+      // The live state comes from memory: it still answers while the database is unreachable.
+      const history = await unlessDatabaseDown(async () => {
+        await records.flush();
+        return recentTrips(db, HISTORY_TRIPS);
+      }, null);
+      const body: InterlockStatus = { ...interlockBody(interlock.state(), live.snapshot().controller), history: history ?? [] };
+      if (history === null) body.historyUnavailable = true;
       res.json(body);
     },
     'interlock.reset': async (req, res) => {

@@ -77,6 +77,7 @@ describe('PostgreSQL restart under load', () => {
       return status.state === 'tripped' ? status : undefined;
     }, 'the trip from memory');
     expect(trip.firstOut?.channel).toBe('stale');
+    expect(trip.historyUnavailable).toBe(true);
     await waitFor(async () => {
       const state = (await (await fetch(`${stack.simulator!.controlUrl}/state`)).json()) as { status: { softwareHold: boolean } };
       return state.status.softwareHold ? true : undefined;
