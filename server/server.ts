@@ -19,7 +19,8 @@ import { checkListenSlots, listenSlots } from './start-checks/listen-check.js';
 import { openDatabase } from './db/database.js';
 import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
 import { CalibrationCache } from './field/calibration-cache.js';
-import { healthHandlers, type HealthReport } from './health/health-route.js';
+import { EventLoopWatch } from './health/event-loop-watch.js';
+import { healthHandlers, healthProblems, type HealthReport } from './health/health-route.js';
 import { createApp } from './http/app.js';
 import { FrameGate, type AdmittedMessage } from './ingest/frame-gate.js';
 import { startSupervision } from './interlock/start-supervision.js';
@@ -38,7 +39,6 @@ import { seedDemoProfile } from './profiles/profile-repository.js';
 import { profileHandlers } from './profiles/profile-routes.js';
 import { projectRoot } from './project-root.js';
 import { seriesHandlers } from './series/series-routes.js';
-import { RetentionTask } from './storage/retention.js';
 import { RollupAccumulator } from './storage/rollup-accumulator.js';
 import { TelemetryWriter } from './storage/telemetry-writer.js';
 
@@ -119,11 +119,15 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const calibrations = new CalibrationCache(db);
     await calibrations.reload();
 
-    const retention = new RetentionTask(db, config.retention, (error) => log.error({ err: error }, 'pruning old telemetry failed'));
-    closers.push(() => retention.close());
     const rollups = new RollupAccumulator();
-    const writer = new TelemetryWriter(db, rollups, { onError: (error) => log.error({ err: error }, 'storing telemetry failed') });
+    // Telemetry lives in the storage worker thread (its own database connection, retention included).
+    const writer = new TelemetryWriter(config, rollups, {
+      onError: (error) => log.error({ err: error }, 'storing telemetry failed'),
+      onOutageChange: (outage, error) =>
+        outage ? log.error({ err: error }, 'the database does not take telemetry writes; queuing them') : log.info('the database takes telemetry writes again'),
+    });
     closers.push(() => writer.close());
+    await writer.ready();
 
     let broker: RunningBroker | null = null;
     let brokerCredentials: BrokerCredentials | null = null;
@@ -169,20 +173,34 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     supervision.supervisor.attach(ingest);
     supervision.supervisor.start();
 
+    const eventLoop = new EventLoopWatch();
+    closers.push(() => eventLoop.close());
     const report = (): HealthReport => {
       const fanoutCounters = fanout.counters();
+      const frames = { ...gate.counters(), deliveryErrors: ingest.deliveryErrors() };
+      const storage = writer.counters();
       const databaseHealth = database.health?.report() ?? null;
+      const problems = healthProblems({
+        nowMs: Date.now(),
+        frames,
+        lastRejectedAtMs: gate.lastRejectedAtMs(),
+        lastDeliveryErrorAtMs: ingest.lastDeliveryErrorAtMs(),
+        storage,
+        database: databaseHealth,
+      });
       return {
-        status: databaseHealth?.state === 'unreachable' ? 'degraded' : 'ok',
+        status: problems.length === 0 ? 'ok' : 'degraded',
+        problems,
         uptimeS: Math.round((performance.now() - startedAt) / 1000),
-        frames: gate.counters(),
+        frames,
         clients: fanoutCounters.clients,
         broker: broker?.counters() ?? null,
         db: database.kind,
         database: databaseHealth,
         mqttConnected: ingest.connected(),
         fanout: fanoutCounters,
-        storage: writer.counters(),
+        storage,
+        eventLoop: eventLoop.report(),
       };
     };
     const app = createApp({
@@ -190,7 +208,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...healthHandlers(report),
         ...authHandlers(new LoginUseCase(db, tokens), config.loginAttemptsPerMinute),
         ...liveHandlers(live),
-        ...seriesHandlers(db, calibrations, writer),
+        ...seriesHandlers(calibrations, writer),
         ...calibrationHandlers(db),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),

@@ -3,8 +3,11 @@
  * Migrations in drizzle/ are generated from this file with `npm run db:generate`.
  *
  * Telemetry is stored for kHz rates: one `fast_batches` row holds a contiguous run of frames
- * (about 0.5 s of 1 kHz samples per channel, as little-endian float32 in bytea), never a row
- * per sample; `rollups_1s` keeps per-second statistics for long windows.
+ * (about 0.5 s of 1 kHz samples per channel, as compressed converter codes in bytea: see
+ * server/storage/sample-codec.ts), never a row per sample; `rollups_1s` keeps per-second
+ * statistics for long windows. The telemetry tables are written by the storage worker
+ * thread; with PGlite they live in their own cluster (`telemetry/` in the data folder), so
+ * they carry no foreign keys into the other tables.
  */
 import { sql } from 'drizzle-orm';
 import {
@@ -19,6 +22,7 @@ import {
   pgTable,
   real,
   serial,
+  smallint,
   text,
   type AnyPgColumn,
   timestamp,
@@ -35,8 +39,8 @@ import type { AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
 import type { ConditionStatus } from '../interlock/trip-conditions.js';
 
-/** Packed little-endian float32 samples (see server/storage/sample-codec.ts). */
-const float32Samples = customType<{ data: Uint8Array; driverData: Uint8Array }>({
+/** Compressed converter codes of the six fast channels (see server/storage/sample-codec.ts). */
+const sampleBlob = customType<{ data: Uint8Array; driverData: Uint8Array }>({
   dataType: () => 'bytea',
 });
 
@@ -109,14 +113,12 @@ export const fastBatches = pgTable(
     seqLast: bigint('seq_last', { mode: 'number' }).notNull(),
     rateHz: doublePrecision('rate_hz').notNull(),
     sampleCount: integer('sample_count').notNull(),
-    /** Calibration in force when the batch arrived. */
-    calibrationId: integer('calibration_id').references(() => calibrations.id),
-    currentX: float32Samples('current_x').notNull(),
-    currentY: float32Samples('current_y').notNull(),
-    currentZ: float32Samples('current_z').notNull(),
-    voltageX: float32Samples('voltage_x').notNull(),
-    voltageY: float32Samples('voltage_y').notNull(),
-    voltageZ: float32Samples('voltage_z').notNull(),
+    /** Calibration in force when the batch arrived (`calibrations.id`; no foreign key, see above). */
+    calibrationId: integer('calibration_id'),
+    /** How `samples` is encoded (server/storage/sample-codec.ts `SAMPLE_CODEC`). */
+    codec: smallint('codec').notNull(),
+    /** Currents x, y, z (A) and voltages x, y, z (V), `sample_count` each. */
+    samples: sampleBlob('samples').notNull(),
     /** Setpoints of the batch's last frame, A. */
     setpointX: real('setpoint_x').notNull(),
     setpointY: real('setpoint_y').notNull(),

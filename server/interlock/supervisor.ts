@@ -162,21 +162,17 @@ export class Supervisor {
     };
   }
 
-  /** Sends the `alarms` message when the interlock state or the active alarm list changed. */
+  /**
+   * Sends the `alarms` message when the interlock state or the active alarm list changed. The
+   * check costs the same however many alarms and clients there are: the interlock and the
+   * alarm book count their changes, so the message is built only when there is news.
+   */
   announce(): void {
-    const message = this.alarmsMessage();
-    const { interlock, active } = message;
-    const key = JSON.stringify([
-      interlock.state,
-      interlock.firstOut?.at,
-      interlock.hardwareTripped,
-      interlock.hardwareTripCause,
-      interlock.conditions.filter((c) => c.active).map((c) => c.name),
-      active.map((a) => [a.id, a.state, a.firstOutOf]),
-    ]);
+    const { controller } = this.deps.live.snapshot();
+    const key = `${this.deps.interlock.revision()}/${this.deps.book.revision()}/${controller.hardwareTripped}/${controller.hardwareTripCause}`;
     if (key === this.announcedKey) return;
     this.announcedKey = key;
-    this.deps.sink.publishAlarms(message);
+    this.deps.sink.publishAlarms(this.alarmsMessage());
   }
 
   /** Stops the timer. */
