@@ -28,7 +28,7 @@ describe('PostgreSQL restart under load', () => {
     readers = Promise.all(
       ['/api/live', '/api/series?seconds=5', '/api/alarms?state=all', '/api/alarms/history?hours=1'].map(async (path) => {
         while (reading) {
-          const res = await fetch(`${stack.server.url}${path}`, { headers: { authorization: `Bearer ${viewer}` } }).catch(() => null);
+          const res = await fetch(`${stack.server.url}${path}`, { headers: { authorization: `Bearer ${viewer}` }, signal: AbortSignal.timeout(10_000) }).catch(() => null);
           if (res) {
             statuses.set(res.status, (statuses.get(res.status) ?? 0) + 1);
             await res.arrayBuffer();
