@@ -31,6 +31,7 @@ import { createLogger } from './logging/logger.js';
 import { logbookHandlers } from './logbook/logbook-routes.js';
 import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
 import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
+import { CriticalCache } from './prediction/critical-cache.js';
 import { PredictionEngine } from './prediction/prediction-engine.js';
 import { PredictionHistoryRing } from './prediction/prediction-history.js';
 import { predictionHandlers } from './prediction/prediction-routes.js';
@@ -40,6 +41,7 @@ import { profileHandlers } from './profiles/profile-routes.js';
 import { projectRoot } from './project-root.js';
 import { seriesHandlers } from './series/series-routes.js';
 import { RollupAccumulator } from './storage/rollup-accumulator.js';
+import { startSteering } from './steering/start-steering.js';
 import { TelemetryWriter } from './storage/telemetry-writer.js';
 
 export interface StartOptions {
@@ -153,7 +155,8 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout);
     closers.push(() => fanout.close());
     // Closed after ingest stops and before the fan-out it publishes to.
-    const engine = new PredictionEngine({ log });
+    const criticalCache = new CriticalCache();
+    const engine = new PredictionEngine({ log, criticalCache });
     closers.push(() => engine.close());
     const history = new PredictionHistoryRing();
     const prediction = new LivePredictionFeed({ engine, live, history, fanout });
@@ -161,8 +164,10 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     await profiles.reload();
     const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout, prediction });
     const gate = new FrameGate();
+    const steering = await startSteering({ db, live, calibrations, prediction, criticalCache, log });
+    closers.push(() => steering.close());
     // Alarms and the software interlock evaluate each message after the pipeline applied it.
-    const supervision = await startSupervision({ db, live, sink: fanout, config, log, databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined });
+    const supervision = await startSupervision({ db, live, sink: fanout, config, log, databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined, steering: steering.context });
     closers.push(() => supervision.close());
     const deliver = (message: AdmittedMessage) => {
       pipeline.handle(message);
@@ -172,6 +177,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     closers.push(() => ingest.close());
     supervision.supervisor.attach(ingest);
     supervision.supervisor.start();
+    steering.connect({ link: ingest, interlock: supervision.interlock, alarmLimits: () => supervision.book.limits(), levels: () => supervision.levels.inForce() });
 
     const eventLoop = new EventLoopWatch();
     closers.push(() => eventLoop.close());
@@ -213,6 +219,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),
         ...supervision.handlers,
+        ...steering.handlers,
         ...logbookHandlers({ db, targets: { db, alarmIds: () => supervision.book.limits().map((l) => l.id) } }),
       },
       access,

@@ -34,6 +34,7 @@ import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
+import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
 import type { AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
@@ -268,6 +269,51 @@ export const interlockTrips = pgTable('interlock_trips', {
   resetReason: text('reset_reason'),
 });
 
+/** Sequences of steering steps, versioned by name; a stored version never changes. */
+export const sequences = pgTable(
+  'sequences',
+  {
+    id: serial('id').primaryKey(),
+    name: text('name').notNull(),
+    version: integer('version').notNull(),
+    steps: jsonb('steps').$type<SequenceStep[]>().notNull(),
+    createdBy: text('created_by').notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    reason: text('reason').notNull(),
+  },
+  (t) => [uniqueIndex('sequences_name_version').on(t.name, t.version)],
+);
+
+/** Runs of a sequence version. */
+export const runs = pgTable('runs', {
+  id: serial('id').primaryKey(),
+  sequenceId: integer('sequence_id').notNull().references(() => sequences.id),
+  state: text('state').$type<RunState>().notNull(),
+  startedAt: timestamp('started_at', { withTimezone: true }).notNull(),
+  endedAt: timestamp('ended_at', { withTimezone: true }),
+  step: integer('step').notNull().default(0),
+  actor: text('actor').notNull(),
+  reason: text('reason').notNull(),
+  endReason: text('end_reason'),
+});
+
+/** Shots of runs: the measured field and the prediction at the moment an image was taken. */
+export const shots = pgTable(
+  'shots',
+  {
+    /** Unique across the lab; written by the imaging analysis next to its images. */
+    id: text('id').primaryKey(),
+    runId: integer('run_id').notNull().references(() => runs.id),
+    stepIndex: integer('step_index').notNull(),
+    label: text('label').notNull(),
+    at: timestamp('at', { withTimezone: true }).notNull(),
+    field: jsonb('field').$type<ShotRecord['field']>().notNull(),
+    prediction: jsonb('prediction').$type<ShotPrediction>(),
+    profileId: integer('profile_id'),
+  },
+  (t) => [index('shots_run').on(t.runId)],
+);
+
 /** PostgreSQL text-search document (written by the database, never by the application). */
 const tsvector = customType<{ data: string }>({ dataType: () => 'tsvector' });
 const bytea = customType<{ data: Uint8Array; driverData: Uint8Array }>({ dataType: () => 'bytea' });
@@ -330,6 +376,9 @@ export const schema = {
   levelSets,
   alarmEvents,
   interlockTrips,
+  sequences,
+  runs,
+  shots,
   logbookEntries,
   logbookAttachments,
 };
