@@ -3,6 +3,8 @@ import type { ActiveAlarm, InterlockStatus } from '../../shared/alarms/alarm-api
 import type { LiveState } from '../../shared/live/live-state.js';
 import type { HealthReport } from '../../server/health/health-route.js';
 import { startPostgres, type PostgresServer } from '../../server/testing/postgres-server.js';
+import { pino } from 'pino';
+import { makeDataDir, removeDataDir, startTestServer } from '../../server/testing/test-server.js';
 import { signIn, startStack, waitFor, type Stack } from '../support/stack.js';
 
 /**
@@ -106,5 +108,28 @@ describe('PostgreSQL restart under load', () => {
     await readers;
     expect(statuses.get(500) ?? 0).toBe(0);
     expect(statuses.get(200) ?? 0).toBeGreaterThan(0);
+  });
+
+  it('starts while PostgreSQL is down: waits, saying why, and comes up once the database does', { timeout: 180_000 }, async () => {
+    const url = await postgres.createDatabase();
+    await postgres.stop();
+    const dir = await makeDataDir();
+    const retries: string[] = [];
+    const log = pino({ level: 'warn' }, { write: (line: string) => void retries.push(JSON.parse(line).msg as string) });
+    const starting = startTestServer(dir, { log }, { DATABASE_URL: url });
+    try {
+      await waitFor(() => (retries.length >= 1 ? true : undefined), 'a retry at start', 30_000);
+      expect(retries[0]).toMatch(/^PostgreSQL at DATABASE_URL cannot be reached \(.*ECONNREFUSED.*\); trying again in 1 s$/);
+      await postgres.start();
+      const server = await starting;
+      try {
+        expect(server.counters().database).toMatchObject({ state: 'up', outages: 0 });
+      } finally {
+        await server.close();
+      }
+    } finally {
+      await postgres.start().catch(() => undefined); // already running unless the test failed early
+      removeDataDir(dir);
+    }
   });
 });
