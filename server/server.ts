@@ -25,6 +25,8 @@ import { LiveStore } from './live/live-store.js';
 import { liveHandlers } from './live/live-routes.js';
 import { createLogger } from './logging/logger.js';
 import { logbookHandlers } from './logbook/logbook-routes.js';
+import { handoverHandlers } from './handover/handover-routes.js';
+import { HandoverWorkflow } from './handover/handover-workflow.js';
 import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
 import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
 import { PredictionEngine } from './prediction/prediction-engine.js';
@@ -181,6 +183,11 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...predictionHandlers(history),
         ...supervision.handlers,
         ...logbookHandlers({ db, targets: { db, alarmIds: () => supervision.book.limits().map((l) => l.id) } }),
+        ...handoverHandlers({
+          workflow: new HandoverWorkflow({ db, live, book: supervision.book, interlock: supervision.interlock, flush: () => supervision.flushRecords() }),
+          mailer: supervision.mailer,
+          notice: supervision.notice,
+        }),
       },
       access,
       webRoot: WEB_ROOT,

@@ -14,7 +14,7 @@ import type { ServerConfig } from '../config.js';
 import type { Db } from '../db/database.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import type { LiveStore } from '../live/live-store.js';
-import { parseNoticeOptions } from '../notify/compose-notice.js';
+import { parseNoticeOptions, type NoticeOptions } from '../notify/compose-notice.js';
 import { LocalMailbox } from '../notify/local-mailbox.js';
 import { Mailer } from '../notify/mailer.js';
 import { OnCallNotifier } from '../notify/on-call-notifier.js';
@@ -42,8 +42,11 @@ export interface Supervision {
   book: AlarmBook;
   /** The software interlock (its state goes into the handover draft). */
   interlock: Interlock;
-  /** On-call mail (the handover summary goes out through it). */
+  /** On-call mail and its recipients (the handover summary goes out through it). */
   mailer: Mailer;
+  notice: NoticeOptions;
+  /** Writes queued alarm events and trips (before reading them back). */
+  flushRecords(): Promise<void>;
   handlers: Pick<RouteHandlers, SupervisionRoutes>;
   /** Stops evaluating, writes what is queued, closes the mailer and the local mailbox. */
   close(): Promise<void>;
@@ -89,6 +92,8 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
       book,
       interlock,
       mailer,
+      notice,
+      flushRecords: () => records.flush(),
       handlers: {
         ...alarmHandlers({ db, book, records, announce: () => supervisor.announce() }),
         ...alarmLimitHandlers(db, book),
