@@ -129,7 +129,7 @@ describe('AlarmBook', () => {
     const h = DEMO_ALARM_LIMITS.find((l) => l.id === 'temperature.x.H')!;
     const err = requestError(() => book.updateLimit({ ...h, limit: 61 }));
     expect(err.code).toBe('invalid');
-    expect(err.message).toMatch(/HH .* must lie above H/);
+    expect(err.message).toMatch(/the high alarm \(H\) at 61 °C must lie below the high-high alarm \(HH\) at 60 °C/);
   });
 
   it('refuses a limit change that moves an alarm to another channel', () => {

@@ -5,17 +5,23 @@
  * reason), and the alarm keeps its state while the next evaluation applies the new level.
  */
 import type { Db } from '../db/database.js';
+import { changeReason } from '../http/change-reason.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
+import { alarmLimitProblem } from '../levels/level-checks.js';
+import type { LevelStore } from '../levels/level-store.js';
 import type { AlarmBook } from './alarm-book.js';
-import { parseAlarmLimit, type AlarmLimit } from './alarm-limit.js';
+import { AlarmLimitError, parseAlarmLimit, type AlarmLimit } from './alarm-limit.js';
 import { saveAlarmLimit } from './alarm-limit-repository.js';
 import { actorOf, httpErrorOf } from './alarm-routes.js';
 
 const EDITABLE = ['level', 'limit', 'deadband', 'onDelayMs', 'offDelayMs', 'priority', 'latching', 'suppressDuringRamp', 'rationale'] as const;
-const MAX_REASON_CHARS = 500;
 
-export function alarmLimitHandlers(db: Db, book: AlarmBook): Pick<RouteHandlers, 'alarm-limits.list' | 'alarm-limits.update'> {
+/**
+ * @param levels the level set in force: an alarm limit beyond its trip level is refused.
+ * @param changed called with nothing once an edit is stored (the display bands changed).
+ */
+export function alarmLimitHandlers(db: Db, book: AlarmBook, levels: LevelStore, changed: () => void): Pick<RouteHandlers, 'alarm-limits.list' | 'alarm-limits.update'> {
   return {
     'alarm-limits.list': (_req, res) => {
       res.json({ limits: book.limits() });
@@ -26,6 +32,8 @@ export function alarmLimitHandlers(db: Db, book: AlarmBook): Pick<RouteHandlers,
       if (!previous) throw new HttpError(404, `no alarm limit with id "${id}"; GET /api/alarm-limits lists them`);
       const { reason, changes } = parseEdit(req.body);
       const next = applyEdit(previous, changes);
+      const problem = alarmLimitProblem(book.limits().map((l) => (l.id === id ? next : l)), next, levels.inForce().levels.trips);
+      if (problem) throw new HttpError(400, problem.message, problem.field);
       try {
         book.updateLimit(next);
       } catch (error) {
@@ -38,6 +46,7 @@ export function alarmLimitHandlers(db: Db, book: AlarmBook): Pick<RouteHandlers,
         book.updateLimit(previous);
         throw error;
       }
+      changed();
       res.json({ limit: next, previous });
     },
   };
@@ -49,9 +58,7 @@ function parseEdit(body: unknown): { reason: string; changes: Record<string, unk
     throw new HttpError(400, `send a JSON object with the fields to change (${EDITABLE.join(', ')}) and a reason`);
   }
   const { reason, ...changes } = body as Record<string, unknown>;
-  const text = typeof reason === 'string' ? reason.trim() : '';
-  if (text === '') throw new HttpError(400, 'reason is required: say why the limit changes (it goes into the audit trail)');
-  if (text.length > MAX_REASON_CHARS) throw new HttpError(400, `reason must be at most ${MAX_REASON_CHARS} characters`);
+  const text = changeReason(reason, 'the limit');
   const unknown = Object.keys(changes).filter((k) => !(EDITABLE as readonly string[]).includes(k));
   if (unknown.length > 0) {
     throw new HttpError(400, `cannot change ${unknown.join(', ')}: id and channel identify the alarm; editable fields are ${EDITABLE.join(', ')}`);
@@ -71,6 +78,6 @@ function applyEdit(previous: AlarmLimit, changes: Record<string, unknown>): Alar
   try {
     return parseAlarmLimit(merged);
   } catch (error) {
-    throw new HttpError(400, (error as Error).message);
+    throw error instanceof AlarmLimitError ? new HttpError(400, error.message, error.field) : error;
   }
 }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { parseAlarmLimit, parseAlarmLimits } from './alarm-limit.js';
 import { DEMO_ALARM_LIMITS } from './demo-alarm-limits.js';
-import { DEMO_CHANNEL_BANDS } from '../../shared/live/channels.js';
+import { DEMO_LEVEL_SET } from '../levels/demo-levels.js';
 import { AXES } from '../../shared/telemetry/messages.js';
 
 const valid = {
@@ -23,10 +23,10 @@ describe('parseAlarmLimit', () => {
   });
 
   it('names an unknown channel and lists the known ones', () => {
-    expect(() => parseAlarmLimit({ ...valid, channel: 'flow.w' })).toThrow(/channel: channel must be one of: current\.x/);
+    expect(() => parseAlarmLimit({ ...valid, channel: 'flow.w' })).toThrow(/channel must be one of: current\.x/);
   });
 
-  it('says what to fix for a negative deadband, a fractional delay and a missing rationale action', () => {
+  it('says what to fix for a negative deadband, a fractional delay and a missing rationale action, naming fields as the editor labels them', () => {
     const bad = { ...valid, deadband: -1, onDelayMs: 2.5, rationale: { ...valid.rationale, action: ' ' } };
     const message = (() => {
       try {
@@ -36,13 +36,14 @@ describe('parseAlarmLimit', () => {
         return (err as Error).message;
       }
     })();
-    expect(message).toContain('deadband: deadband must be 0 or more');
-    expect(message).toContain('onDelayMs: onDelayMs must be a whole number of milliseconds');
-    expect(message).toContain('rationale.action: rationale.action must not be empty');
+    expect(message).toContain('Deadband must be 0 or more');
+    expect(message).toContain('On-delay (ms) must be a whole number of milliseconds');
+    expect(message).toContain('What the operator does must not be empty');
+    expect(message).not.toMatch(/onDelayMs|rationale\./);
   });
 
   it('rejects a non-finite limit', () => {
-    expect(() => parseAlarmLimit({ ...valid, limit: Number.POSITIVE_INFINITY })).toThrow(/limit must be a finite number/);
+    expect(() => parseAlarmLimit({ ...valid, limit: Number.POSITIVE_INFINITY })).toThrow(/Limit must be a finite number/);
   });
 
   it('rejects unknown fields so a typo in a field name does not pass silently', () => {
@@ -56,31 +57,22 @@ describe('parseAlarmLimits', () => {
   });
 
   it('rejects an LL level above the L level of the same channel', () => {
-    expect(() => parseAlarmLimits([valid, { ...valid, id: 'flow.z.LL', level: 'LL', limit: 1.6 }])).toThrow(/LL .* must lie below L/);
+    expect(() => parseAlarmLimits([valid, { ...valid, id: 'flow.z.LL', level: 'LL', limit: 1.6 }])).toThrow(/on Coolant flow z, the low-low alarm \(LL\) at 1.6 L\/min must lie below the low alarm \(L\)/);
   });
 
   it('says which entry is wrong', () => {
-    expect(() => parseAlarmLimits([valid, { ...valid, id: 'x', priority: 'urgent' }])).toThrow(/limit #2: .*priority must be one of high, medium, low/);
+    expect(() => parseAlarmLimits([valid, { ...valid, id: 'x', priority: 'urgent' }])).toThrow(/limit #2: .*Priority must be one of high, medium, low/);
   });
 });
 
 describe('DEMO_ALARM_LIMITS', () => {
   const byId = new Map(DEMO_ALARM_LIMITS.map((l) => [l.id, l]));
 
-  it('uses the alarm levels of the demo display bands', () => {
-    for (const a of AXES) {
-      expect(byId.get(`current.${a}.H`)?.limit).toBe(DEMO_CHANNEL_BANDS.current.high);
-      expect(byId.get(`temperature.${a}.H`)?.limit).toBe(DEMO_CHANNEL_BANDS.temperature.high);
-      expect(byId.get(`flow.${a}.L`)?.limit).toBe(DEMO_CHANNEL_BANDS.flow.low);
-    }
-    expect(byId.get('waterSupply.H')?.limit).toBe(DEMO_CHANNEL_BANDS.waterSupply.high);
-  });
-
   it('warns before the software interlock trips', () => {
     for (const a of AXES) {
-      expect(byId.get(`temperature.${a}.HH`)!.limit).toBeLessThan(DEMO_CHANNEL_BANDS.temperature.tripHigh!);
-      expect(byId.get(`flow.${a}.LL`)!.limit).toBeGreaterThan(DEMO_CHANNEL_BANDS.flow.tripLow!);
-      expect(byId.get(`current.${a}.H`)!.limit).toBeLessThan(DEMO_CHANNEL_BANDS.current.tripHigh!);
+      expect(byId.get(`temperature.${a}.HH`)!.limit).toBeLessThan(DEMO_LEVEL_SET.trips.temperatureHighC);
+      expect(byId.get(`flow.${a}.LL`)!.limit).toBeGreaterThan(DEMO_LEVEL_SET.trips.flowLowLpm);
+      expect(byId.get(`current.${a}.H`)!.limit).toBeLessThan(DEMO_LEVEL_SET.trips.currentHighA);
     }
   });
 

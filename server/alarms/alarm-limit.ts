@@ -4,7 +4,8 @@
  * respond), following the alarm-rationalization step of ISA-18.2 / IEC 62682.
  */
 import { z } from 'zod';
-import { CHANNEL_IDS, isChannelId, type ChannelId } from './channels.js';
+import { limitOrderProblems, type ChannelLevels } from '../../shared/levels/limit-order.js';
+import { CHANNELS, CHANNEL_IDS, isChannelId, type ChannelId } from './channels.js';
 
 /** HH and H raise above the limit, L and LL below it. */
 export const ALARM_LEVELS = ['HH', 'H', 'L', 'LL'] as const;
@@ -23,21 +24,37 @@ const text = (field: string, max: number) =>
     .min(1, { error: `${field} must not be empty: write it for the operator on shift` })
     .max(max, { error: `${field} must be at most ${max} characters` });
 
-const delay = (field: string) =>
+const delay = (label: string) =>
   z
-    .number({ error: `${field} must be a number of milliseconds` })
-    .int({ error: `${field} must be a whole number of milliseconds` })
-    .min(0, { error: `${field} must be 0 ms or more` })
-    .max(MAX_ALARM_DELAY_MS, { error: `${field} must be at most ${MAX_ALARM_DELAY_MS} ms` });
+    .number({ error: `${label} must be a number of milliseconds` })
+    .int({ error: `${label} must be a whole number of milliseconds` })
+    .min(0, { error: `${label} must be 0 ms or more` })
+    .max(MAX_ALARM_DELAY_MS, { error: `${label} must be at most ${MAX_ALARM_DELAY_MS} ms` });
+
+/** How the limit editor labels each field; messages name fields by these labels. */
+export const ALARM_LIMIT_LABELS = {
+  limit: 'Limit',
+  deadband: 'Deadband',
+  onDelayMs: 'On-delay (ms)',
+  offDelayMs: 'Off-delay (ms)',
+  priority: 'Priority',
+  latching: 'Latching',
+  suppressDuringRamp: 'Suppressed during ramps',
+  'rationale.cause': 'Cause',
+  'rationale.consequence': 'Consequence of doing nothing',
+  'rationale.action': 'What the operator does',
+  'rationale.respondWithinMin': 'Respond within (min)',
+} as const;
+const L = ALARM_LIMIT_LABELS;
 
 export const AlarmRationaleSchema = z.strictObject({
-  cause: text('rationale.cause', 1000),
-  consequence: text('rationale.consequence', 1000),
-  action: text('rationale.action', 1000),
+  cause: text(L['rationale.cause'], 1000),
+  consequence: text(L['rationale.consequence'], 1000),
+  action: text(L['rationale.action'], 1000),
   respondWithinMin: z
-    .number({ error: 'rationale.respondWithinMin must be a number of minutes' })
-    .positive({ error: 'rationale.respondWithinMin must be more than 0 minutes' })
-    .max(24 * 60, { error: 'rationale.respondWithinMin must be at most 1440 minutes (one day)' }),
+    .number({ error: `${L['rationale.respondWithinMin']} must be a number of minutes` })
+    .positive({ error: `${L['rationale.respondWithinMin']} must be more than 0 minutes` })
+    .max(24 * 60, { error: `${L['rationale.respondWithinMin']} must be at most 1440 minutes (one day)` }),
 });
 export type AlarmRationale = z.infer<typeof AlarmRationaleSchema>;
 
@@ -51,16 +68,16 @@ export const AlarmLimitSchema = z.strictObject({
     error: `channel must be one of: ${CHANNEL_IDS.join(', ')}`,
   }),
   level: z.enum(ALARM_LEVELS, { error: `level must be one of ${ALARM_LEVELS.join(', ')}` }),
-  limit: z.number({ error: 'limit must be a finite number in the channel unit' }),
+  limit: z.number({ error: `${L.limit} must be a finite number in the channel unit` }),
   deadband: z
-    .number({ error: 'deadband must be a number in the channel unit' })
-    .min(0, { error: 'deadband must be 0 or more (in the channel unit)' }),
-  onDelayMs: delay('onDelayMs'),
-  offDelayMs: delay('offDelayMs'),
-  priority: z.enum(ALARM_PRIORITIES, { error: `priority must be one of ${ALARM_PRIORITIES.join(', ')}` }),
-  latching: z.boolean({ error: 'latching must be true or false' }),
+    .number({ error: `${L.deadband} must be a number in the channel unit` })
+    .min(0, { error: `${L.deadband} must be 0 or more (in the channel unit)` }),
+  onDelayMs: delay(L.onDelayMs),
+  offDelayMs: delay(L.offDelayMs),
+  priority: z.enum(ALARM_PRIORITIES, { error: `${L.priority} must be one of ${ALARM_PRIORITIES.join(', ')}` }),
+  latching: z.boolean({ error: `${L.latching} must be true or false` }),
   /** Suppressed by design while a ramp is programmed (e.g. current deviation during ramps). */
-  suppressDuringRamp: z.boolean({ error: 'suppressDuringRamp must be true or false' }).default(false),
+  suppressDuringRamp: z.boolean({ error: `${L.suppressDuringRamp} must be true or false` }).default(false),
   rationale: AlarmRationaleSchema,
 });
 
@@ -72,14 +89,38 @@ export function isHighLevel(level: AlarmLevel): boolean {
   return level === 'H' || level === 'HH';
 }
 
+/** A refused limit: the message names the field as the editor labels it; `field` is its path. */
+export class AlarmLimitError extends Error {
+  constructor(
+    message: string,
+    readonly field: string | null,
+  ) {
+    super(message);
+    this.name = 'AlarmLimitError';
+  }
+}
+
 /**
- * Validates one limit (e.g. a lead's edit). Throws an Error whose message lists every problem
- * with its field path, so the editor can say what to fix.
+ * Validates one limit (e.g. a lead's edit). Throws an AlarmLimitError whose message lists
+ * every problem by its label, and whose `field` is the first problem's path.
  */
 export function parseAlarmLimit(input: unknown): AlarmLimit {
   const parsed = AlarmLimitSchema.safeParse(input);
-  if (!parsed.success) throw new Error(`invalid alarm limit: ${describeIssues(parsed.error)}`);
+  if (!parsed.success) {
+    const first = parsed.error.issues[0];
+    throw new AlarmLimitError(`invalid alarm limit: ${describeIssues(parsed.error)}`, first.path.length ? first.path.join('.') : null);
+  }
   return parsed.data as AlarmLimit;
+}
+
+/**
+ * Problems with the order of the alarm levels on one channel, with the trip levels when the
+ * channel has them (the shared limit-order rule); `subject` names the level being edited.
+ */
+export function channelOrderProblems(limits: readonly AlarmLimit[], channel: ChannelId, trips: Pick<ChannelLevels, 'tripLow' | 'tripHigh'> = {}, subject?: AlarmLimit['level'] | 'tripLow' | 'tripHigh'): string[] {
+  const levels: ChannelLevels = { ...trips };
+  for (const l of limits) if (l.channel === channel) levels[l.level] = l.limit;
+  return limitOrderProblems(levels, CHANNELS[channel].unit, subject).map((p) => `on ${CHANNELS[channel].label}, ${p.message}`);
 }
 
 /**
@@ -101,26 +142,14 @@ export function parseAlarmLimits(input: unknown): AlarmLimit[] {
     if (seen.has(l.id)) throw new Error(`invalid alarm limits: id "${l.id}" appears twice; ids must be unique`);
     seen.add(l.id);
   }
-  for (const a of limits) {
-    for (const b of limits) {
-      if (a.channel === b.channel && outOfOrder(a, b)) {
-        throw new Error(
-          `invalid alarm limits: on ${a.channel}, ${a.level} (${a.id}, ${a.limit}) must lie ${isHighLevel(a.level) ? 'above' : 'below'} ${b.level} (${b.id}, ${b.limit})`,
-        );
-      }
-    }
+  for (const channel of new Set(limits.map((l) => l.channel))) {
+    const [problem] = channelOrderProblems(limits, channel);
+    if (problem) throw new Error(`invalid alarm limits: ${problem}`);
   }
   return limits;
 }
 
-/** True when `a` should be more extreme than `b` on the same channel but is not. */
-function outOfOrder(a: AlarmLimit, b: AlarmLimit): boolean {
-  if (a.level === 'HH' && b.level === 'H') return a.limit <= b.limit;
-  if (a.level === 'LL' && b.level === 'L') return a.limit >= b.limit;
-  if (isHighLevel(a.level) && !isHighLevel(b.level)) return a.limit <= b.limit;
-  return false;
-}
-
+/** The messages name their field by its label already. */
 function describeIssues(error: z.ZodError): string {
-  return error.issues.map((i) => (i.path.length ? `${i.path.join('.')}: ${i.message}` : i.message)).join('; ');
+  return error.issues.map((i) => i.message).join('; ');
 }

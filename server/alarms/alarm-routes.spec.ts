@@ -104,14 +104,17 @@ describe('alarm routes', () => {
     expect((await call('operator', 'PUT', path, { offDelayMs: 0, reason: 'faster test' })).status).toBe(403);
     const noReason = await call<{ error: string }>('lead', 'PUT', path, { offDelayMs: 0 });
     expect(noReason.status).toBe(400);
-    expect(noReason.body.error).toMatch(/reason is required/);
+    expect(noReason.body).toMatchObject({ field: 'reason', error: expect.stringMatching(/^Reason for this change is required/) });
     const rename = await call<{ error: string }>('lead', 'PUT', path, { channel: 'flow.y', reason: 'move it' });
     expect(rename.body.error).toMatch(/cannot change channel/);
     const inverted = await call<{ error: string }>('lead', 'PUT', path, { limit: 2, reason: 'above L' });
     expect(inverted.status).toBe(400);
-    expect(inverted.body.error).toMatch(/LL \(flow.x.LL, 2\) must lie below L/);
-    const badDelay = await call<{ error: string }>('lead', 'PUT', path, { onDelayMs: -1, reason: 'x' });
-    expect(badDelay.body.error).toMatch(/onDelayMs: onDelayMs must be 0 ms or more/);
+    expect(inverted.body).toEqual({ field: 'limit', error: 'Limit: on Coolant flow x, the low-low alarm (LL) at 2 L/min must lie below the low alarm (L) at 1.5 L/min' });
+    const beyondTrip = await call<{ error: string; field: string }>('lead', 'PUT', path, { limit: 0.8, reason: 'below the trip' });
+    expect(beyondTrip.status).toBe(400);
+    expect(beyondTrip.body).toEqual({ field: 'limit', error: 'Limit: on Coolant flow x, the low-low alarm (LL) at 0.8 L/min must lie above the low trip level at 1 L/min' });
+    const badDelay = await call<{ error: string; field: string }>('lead', 'PUT', path, { onDelayMs: -1, reason: 'x' });
+    expect(badDelay.body).toMatchObject({ field: 'onDelayMs', error: expect.stringMatching(/On-delay \(ms\) must be 0 ms or more/) });
     const edited = await call<{ limit: AlarmLimit; previous: AlarmLimit }>('lead', 'PUT', path, {
       offDelayMs: 0,
       rationale: { respondWithinMin: 1 },

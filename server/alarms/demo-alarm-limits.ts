@@ -1,15 +1,15 @@
 /**
  * Seeded alarm limits of the fictional Lindqvist Hall dipolar lab (invented values, demo only;
- * a real lab rationalizes its own). Levels sit inside the trip levels of
- * `shared/live/channels.ts` so that an alarm warns before the software interlock acts.
+ * a real lab rationalizes its own). Levels sit inside the trip levels of the demo level set
+ * (server/levels/demo-levels.ts) so that an alarm warns before the software interlock acts.
  */
-import { DEMO_CHANNEL_BANDS } from '../../shared/live/channels.js';
+import { DEMO_LEVEL_SET } from '../levels/demo-levels.js';
 import { AXES, type Axis } from '../../shared/telemetry/messages.js';
 import { parseAlarmLimits, type AlarmLimit } from './alarm-limit.js';
 
 type LimitInput = Omit<AlarmLimit, 'id' | 'suppressDuringRamp'> & { suppressDuringRamp?: boolean };
 
-const bands = DEMO_CHANNEL_BANDS;
+const trips = DEMO_LEVEL_SET.trips;
 
 function perAxis(make: (axis: Axis) => LimitInput): LimitInput[] {
   return AXES.map(make);
@@ -19,7 +19,7 @@ const inputs: LimitInput[] = [
   ...perAxis((a) => ({
     channel: `current.${a}`,
     level: 'H',
-    limit: bands.current.high ?? 18,
+    limit: 18,
     deadband: 0.5,
     onDelayMs: 200,
     offDelayMs: 1000,
@@ -27,7 +27,7 @@ const inputs: LimitInput[] = [
     latching: false,
     rationale: {
       cause: `Coil pair ${a} carries more than its continuous rating: the target or sequence asks for a stronger field than this pair should give, or its supply regulates badly.`,
-      consequence: `At ${bands.current.tripHigh} A the software interlock trips and ramps every coil to zero, which ends the run; meanwhile the winding heats quickly.`,
+      consequence: `At ${trips.currentHighA} A the software interlock trips and ramps every coil to zero, which ends the run; meanwhile the winding heats quickly.`,
       action: 'Open Steer and lower the requested field. If the setpoint is already below the alarm level, the supply is running away: ramp down and call the lab engineer.',
       respondWithinMin: 2,
     },
@@ -52,7 +52,7 @@ const inputs: LimitInput[] = [
   ...perAxis((a) => ({
     channel: `temperature.${a}`,
     level: 'H',
-    limit: bands.temperature.high ?? 55,
+    limit: 55,
     deadband: 2,
     onDelayMs: 1000,
     offDelayMs: 5000,
@@ -60,7 +60,7 @@ const inputs: LimitInput[] = [
     latching: false,
     rationale: {
       cause: `Coil pair ${a} runs warmer than usual: a long high-current sequence, reduced coolant flow or warm supply water.`,
-      consequence: `If the rise continues the coil reaches the HH level and, at ${bands.temperature.tripHigh} °C, the interlock trips; hot windings age their insulation.`,
+      consequence: `If the rise continues the coil reaches the HH level and, at ${trips.temperatureHighC} °C, the interlock trips; hot windings age their insulation.`,
       action: 'Check the flow and water temperatures of this pair; shorten the duty cycle or lower the field until the temperature falls.',
       respondWithinMin: 10,
     },
@@ -76,7 +76,7 @@ const inputs: LimitInput[] = [
     latching: true,
     rationale: {
       cause: `Coil pair ${a} is close to its trip temperature, almost always because cooling failed or the pair ran far above its rating.`,
-      consequence: `The interlock trips at ${bands.temperature.tripHigh} °C; past that the hardware chain cuts the supply and the epoxy of the winding can be damaged.`,
+      consequence: `The interlock trips at ${trips.temperatureHighC} °C; past that the hardware chain cuts the supply and the epoxy of the winding can be damaged.`,
       action: 'Ramp the field down now, then find the cooling fault. Reset this alarm only once the cause is understood and noted in the logbook.',
       respondWithinMin: 1,
     },
@@ -84,7 +84,7 @@ const inputs: LimitInput[] = [
   ...perAxis((a) => ({
     channel: `flow.${a}`,
     level: 'L',
-    limit: bands.flow.low ?? 1.5,
+    limit: 1.5,
     deadband: 0.2,
     onDelayMs: 1000,
     offDelayMs: 3000,
@@ -108,7 +108,7 @@ const inputs: LimitInput[] = [
     latching: true,
     rationale: {
       cause: `Coolant flow of pair ${a} has nearly stopped: a closed valve, a burst hose or a chiller failure.`,
-      consequence: `Below ${bands.flow.tripLow} L/min the interlock trips; with no flow the coil overheats within minutes at full current.`,
+      consequence: `Below ${trips.flowLowLpm} L/min the interlock trips; with no flow the coil overheats within minutes at full current.`,
       action: 'Ramp the field down now, look for leaks near the coils, and call the lab engineer. Reset only after flow is back and the cause is noted.',
       respondWithinMin: 1,
     },
@@ -132,7 +132,7 @@ const inputs: LimitInput[] = [
   {
     channel: 'waterSupply',
     level: 'H',
-    limit: bands.waterSupply.high ?? 25,
+    limit: 25,
     deadband: 0.5,
     onDelayMs: 10_000,
     offDelayMs: 10_000,
@@ -148,7 +148,7 @@ const inputs: LimitInput[] = [
   {
     channel: 'waterSupply',
     level: 'L',
-    limit: bands.waterSupply.low ?? 10,
+    limit: 10,
     deadband: 0.5,
     onDelayMs: 10_000,
     offDelayMs: 10_000,

@@ -4,6 +4,7 @@ import jwt from 'jsonwebtoken';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES, hasRole, type Role } from '../../shared/auth/roles.js';
 import { DEMO_PROFILE } from '../../shared/profiles/demo-profile.js';
+import { DEMO_LEVEL_SET } from '../levels/demo-levels.js';
 import { API_ROUTES, type RouteId } from '../http/route-table.js';
 import type { RunningServer } from '../server.js';
 import { makeDataDir, removeDataDir, signIn, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
@@ -27,6 +28,9 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   live: {},
   series: { query: '?seconds=60' },
   channels: {},
+  'levels.get': {},
+  'levels.history': {},
+  'levels.update': { body: { levels: DEMO_LEVEL_SET, reason: 'route access check' } },
   'calibrations.list': {},
   'calibrations.active': {},
   'profiles.list': {},

@@ -29,6 +29,7 @@ import type { LogbookLinkKind } from '../../shared/logbook/logbook-api.js';
 import type { HandoverItem, HandoverNotes, HandoverRecord, HandoverStatus } from '../../shared/handover/handover-api.js';
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
+import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
 import type { AlarmState } from '../alarms/alarm-state.js';
@@ -215,6 +216,19 @@ export const alarmLimits = pgTable('alarm_limits', {
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });
 
+/**
+ * Versions of the lead-set level set (display bands, trip levels, operating settings): every
+ * edit adds a version with its reason, never changes a stored one; the newest is in force.
+ */
+export const levelSets = pgTable('level_sets', {
+  id: serial('id').primaryKey(),
+  version: integer('version').notNull().unique(),
+  body: jsonb('body').$type<LevelSet>().notNull(),
+  createdBy: text('created_by').notNull(),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  reason: text('reason').notNull(),
+});
+
 /** Every alarm transition (raise, clear, acknowledge, shelve, …): the alarm history. */
 export const alarmEvents = pgTable(
   'alarm_events',
@@ -355,6 +369,7 @@ export const schema = {
   rollups1s,
   auditLog,
   alarmLimits,
+  levelSets,
   alarmEvents,
   interlockTrips,
   logbookEntries,

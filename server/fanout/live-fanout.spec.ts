@@ -57,7 +57,7 @@ describe('WebSocket fan-out', () => {
     const { ws, received } = await openSocket(server);
     ws.send(JSON.stringify({ type: 'auth', token }));
     const start = performance.now();
-    while (received.length < 2 && performance.now() - start < 10_000) await sleep(10);
+    while (received.length < 3 && performance.now() - start < 10_000) await sleep(10);
     for (let i = 0; i < 5; i++) publishFrame();
     const deadline = performance.now() + 10_000;
     const points = () => received.reduce((n, r) => n + (r.message.type === 'live' ? r.message.series.t.length : 0), 0);
@@ -65,9 +65,11 @@ describe('WebSocket fan-out', () => {
     ws.close();
 
     expect(received[0].message).toMatchObject({ type: 'hello', user: { email: 'viewer@tiltwatch.example', role: 'viewer' }, decimatedRateHz: 100 });
-    // Right after hello comes the interlock state and the active alarms; then only live updates.
+    // Right after hello come the interlock state and the active alarms, and the display bands
+    // in force; then only live updates.
     expect(received[1].message).toMatchObject({ type: 'alarms', interlock: { state: 'ok' }, active: [] });
-    const live = received.slice(2).map((r) => r.message);
+    expect(received[2].message).toMatchObject({ type: 'channels', version: 1, bands: { 'current.x': { tripHigh: 20 } } });
+    const live = received.slice(3).map((r) => r.message);
     expect(live.every((m) => m.type === 'live')).toBe(true);
     expect(points()).toBe(10); // 5 frames × 20 samples at 1 kHz = 10 blocks of 10 ms
     const last = live.at(-1);

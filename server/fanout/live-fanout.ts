@@ -5,7 +5,8 @@ import { WebSocket, WebSocketServer } from 'ws';
 import { z } from 'zod';
 import { hasRole, type Role } from '../../shared/auth/roles.js';
 import type { AlarmsMessage } from '../../shared/alarms/alarm-api.js';
-import type { SeriesChunk, ServerMessage, SlowChunk } from '../../shared/live/live-state.js';
+import type { ChannelBands } from '../../shared/live/channels.js';
+import type { ChannelsMessage, SeriesChunk, ServerMessage, SlowChunk } from '../../shared/live/live-state.js';
 import type { AccessControl, SignedInUser } from '../auth/access-control.js';
 import type { LiveStore } from '../live/live-store.js';
 import { appendSeriesChunk, appendSlowChunk, DECIMATED_RATE_HZ, emptySeriesChunk, emptySlowChunk } from '../live/series-chunk.js';
@@ -74,6 +75,8 @@ export class LiveFanout implements ChunkSink {
   private closing: Promise<void> | undefined;
   /** The newest `alarms` message, sent to each client right after `hello`. */
   private alarms: AlarmsMessage | null = null;
+  /** The newest `channels` message, sent to each client right after `hello`. */
+  private channels: ChannelsMessage | null = null;
   private readonly onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer) => this.upgrade(req, socket, head);
 
   constructor(
@@ -101,6 +104,19 @@ export class LiveFanout implements ChunkSink {
    */
   publishAlarms(message: AlarmsMessage): void {
     this.alarms = message;
+    this.broadcast(message);
+  }
+
+  /**
+   * Sends the display bands in force to every client at once when a lead changes a level or
+   * an alarm limit, so the gauges redraw without a reload; kept for new clients.
+   */
+  publishChannels(bands: ChannelBands): void {
+    this.channels = { type: 'channels', ...bands };
+    this.broadcast(this.channels);
+  }
+
+  private broadcast(message: ServerMessage): void {
     for (const viewer of this.viewers) {
       if (viewer.ws.readyState === WebSocket.OPEN) this.sendMessage(viewer.ws, message);
     }
@@ -181,6 +197,7 @@ export class LiveFanout implements ChunkSink {
       decimatedRateHz: DECIMATED_RATE_HZ,
     });
     if (this.alarms) this.sendMessage(ws, this.alarms);
+    if (this.channels) this.sendMessage(ws, this.channels);
     this.send(viewer);
   }
 

@@ -14,12 +14,13 @@ export const apiNotFound: RequestHandler = (req) => {
 export function errorHandler(log: Logger): ErrorRequestHandler {
   return (error: unknown, req, res, _next) => {
     const { status, message } = describe(error);
+    const field = error instanceof HttpError ? error.field : null;
     if (status >= 500) log.error({ err: error, method: req.method, url: req.originalUrl }, 'request failed');
     if (res.headersSent) {
       res.destroy();
       return;
     }
-    res.status(status).json({ error: message });
+    res.status(status).json(field === null ? { error: message } : { error: message, field });
   };
 }
 

@@ -1,13 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { DEMO_INTERLOCK_CONFIG, parseInterlockConfig } from './interlock-config.js';
-import { DEMO_CHANNEL_BANDS } from '../../shared/live/channels.js';
+import { DEMO_LEVEL_SET } from '../levels/demo-levels.js';
 
 describe('interlock configuration', () => {
-  it('takes its demo trip levels from the demo display bands', () => {
+  it('takes its demo trip levels from the demo level set', () => {
     expect(DEMO_INTERLOCK_CONFIG).toMatchObject({
-      currentTripA: DEMO_CHANNEL_BANDS.current.tripHigh,
-      temperatureTripC: DEMO_CHANNEL_BANDS.temperature.tripHigh,
-      flowTripLpm: DEMO_CHANNEL_BANDS.flow.tripLow,
+      currentTripA: DEMO_LEVEL_SET.trips.currentHighA,
+      temperatureTripC: DEMO_LEVEL_SET.trips.temperatureHighC,
+      flowTripLpm: DEMO_LEVEL_SET.trips.flowLowLpm,
       staleMs: 250,
     });
   });

@@ -1,10 +1,11 @@
 /**
- * Trip levels of the software interlock. The demo defaults come from the trip levels of the
- * demo display bands (`shared/live/channels.ts`), so the Live page draws the same lines the
- * interlock acts on.
+ * Trip levels of the software interlock. The current, temperature and flow levels come from
+ * the stored level set in force (server/levels/), the one source the Live gauges draw too; the
+ * demo defaults are the seeded demo level set.
  */
 import { z } from 'zod';
-import { DEMO_CHANNEL_BANDS } from '../../shared/live/channels.js';
+import type { TripLevels } from '../../shared/levels/level-set.js';
+import { DEMO_LEVEL_SET } from '../levels/demo-levels.js';
 
 const positive = (field: string, unit: string) =>
   z
@@ -29,13 +30,14 @@ export const InterlockConfigSchema = z.strictObject({
 });
 export type InterlockConfig = z.infer<typeof InterlockConfigSchema>;
 
-const bands = DEMO_CHANNEL_BANDS;
+/** The interlock's trip levels from a stored level set's trip levels. */
+export function interlockTrips(trips: TripLevels): Pick<InterlockConfig, 'currentTripA' | 'temperatureTripC' | 'flowTripLpm'> {
+  return { currentTripA: trips.currentHighA, temperatureTripC: trips.temperatureHighC, flowTripLpm: trips.flowLowLpm };
+}
 
 /** Demo trip levels of the fictional Lindqvist Hall apparatus. */
 export const DEMO_INTERLOCK_CONFIG: Readonly<InterlockConfig> = {
-  currentTripA: bands.current.tripHigh ?? 20,
-  temperatureTripC: bands.temperature.tripHigh ?? 65,
-  flowTripLpm: bands.flow.tripLow ?? 1,
+  ...interlockTrips(DEMO_LEVEL_SET.trips),
   staleMs: 250,
   maxLostFrames: 5,
   lostFrameWindowMs: 1000,

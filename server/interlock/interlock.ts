@@ -64,7 +64,7 @@ const MAX_TRIP_REASON_CHARS = 500;
 const MAX_RESET_REASON_CHARS = 500;
 
 export class Interlock {
-  private readonly defs: TripCondition[];
+  private defs: TripCondition[];
   /** Present value of each condition, parallel to `defs`; updated in place on every evaluation. */
   private readonly values: (number | null)[];
   private readonly frameLoss: FrameLossWindow;
@@ -72,10 +72,23 @@ export class Interlock {
   private trip: TripRecord | null = null;
   private lastReset: ResetRecord | null = null;
 
-  constructor(readonly config: InterlockConfig = DEMO_INTERLOCK_CONFIG) {
-    this.defs = tripConditions(config);
+  constructor(private settings: InterlockConfig = DEMO_INTERLOCK_CONFIG) {
+    this.defs = tripConditions(settings);
     this.values = this.defs.map(() => null);
-    this.frameLoss = new FrameLossWindow(config.lostFrameWindowMs);
+    this.frameLoss = new FrameLossWindow(settings.lostFrameWindowMs);
+  }
+
+  get config(): Readonly<InterlockConfig> {
+    return this.settings;
+  }
+
+  /**
+   * Applies the trip levels of a new level set; the next evaluation compares against them. A
+   * latched trip stays latched (it resets only with a reason once no condition holds).
+   */
+  retune(trips: Pick<InterlockConfig, 'currentTripA' | 'temperatureTripC' | 'flowTripLpm'>): void {
+    this.settings = { ...this.settings, ...trips };
+    this.defs = tripConditions(this.settings);
   }
 
   /** Records a fast frame's sequence number, seen at server time `atMs` (Unix epoch ms). */

@@ -14,13 +14,17 @@ import type { ServerConfig } from '../config.js';
 import type { Db } from '../db/database.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import type { LiveStore } from '../live/live-store.js';
+import { composeChannelBands } from '../../shared/levels/channel-bands.js';
+import type { ChannelBands } from '../../shared/live/channels.js';
+import { levelHandlers, type LevelRoutes } from '../levels/level-routes.js';
+import { LevelStore } from '../levels/level-store.js';
 import { parseNoticeOptions, type NoticeOptions } from '../notify/compose-notice.js';
 import { LocalMailbox } from '../notify/local-mailbox.js';
 import { Mailer } from '../notify/mailer.js';
 import { OnCallNotifier } from '../notify/on-call-notifier.js';
 import { outboxHandlers } from '../notify/outbox-routes.js';
 import { Interlock } from './interlock.js';
-import { parseInterlockConfig } from './interlock-config.js';
+import { interlockTrips, parseInterlockConfig } from './interlock-config.js';
 import { interlockHandlers } from './interlock-routes.js';
 import { Supervisor, type AlarmsSink } from './supervisor.js';
 import { openTrip } from './trip-repository.js';
@@ -34,7 +38,8 @@ type SupervisionRoutes =
   | 'alarm-limits.update'
   | 'interlock.status'
   | 'interlock.reset'
-  | 'admin.outbox';
+  | 'admin.outbox'
+  | LevelRoutes;
 
 export interface Supervision {
   supervisor: Supervisor;
@@ -52,10 +57,23 @@ export interface Supervision {
   close(): Promise<void>;
 }
 
-export async function startSupervision(deps: { db: Db; live: LiveStore; sink: AlarmsSink; config: ServerConfig; log: Logger }): Promise<Supervision> {
+/** Where the alarm state and the display bands in force go (the WebSocket fan-out). */
+export interface SupervisionSink extends AlarmsSink {
+  publishChannels(bands: ChannelBands): void;
+}
+
+export async function startSupervision(deps: { db: Db; live: LiveStore; sink: SupervisionSink; config: ServerConfig; log: Logger }): Promise<Supervision> {
   const { db, live, sink, config, log } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
-  const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs }));
+  const levels = await LevelStore.load(db);
+  const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs, ...interlockTrips(levels.inForce().levels.trips) }));
+  // One source: the level set in force feeds the interlock's trip levels and the gauges' bands.
+  const publishBands = () => sink.publishChannels(composeChannelBands(levels.inForce(), book.limits()));
+  levels.onChange((set) => {
+    interlock.retune(interlockTrips(set.levels.trips));
+    publishBands();
+  });
+  publishBands();
   const latched = await openTrip(db);
   if (latched) {
     interlock.restore(latched);
@@ -96,7 +114,8 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Al
       flushRecords: () => records.flush(),
       handlers: {
         ...alarmHandlers({ db, book, records, announce: () => supervisor.announce() }),
-        ...alarmLimitHandlers(db, book),
+        ...alarmLimitHandlers(db, book, levels, publishBands),
+        ...levelHandlers(levels, book),
         ...interlockHandlers({ db, interlock, live, supervisor, records }),
         ...outboxHandlers(mailbox),
       },

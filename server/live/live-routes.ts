@@ -1,15 +1,11 @@
-import { DEMO_CHANNEL_BANDS } from '../../shared/live/channels.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import type { LiveStore } from './live-store.js';
 
-/** `GET /api/live` (LiveState) and `GET /api/channels` (display bands). */
-export function liveHandlers(live: LiveStore): Pick<RouteHandlers, 'live' | 'channels'> {
+/** `GET /api/live` (LiveState); the display bands are served by server/levels/. */
+export function liveHandlers(live: LiveStore): Pick<RouteHandlers, 'live'> {
   return {
     live: (_req, res) => {
       res.json(live.snapshot());
-    },
-    channels: (_req, res) => {
-      res.json(DEMO_CHANNEL_BANDS);
     },
   };
 }

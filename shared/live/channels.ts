@@ -1,10 +1,12 @@
 /**
- * Display bands of the live channels for the demo apparatus (invented values for the
- * fictional Lindqvist Hall machine; a real lab sets its own). The Live page draws every bar
- * against `scale`, shades `normal`, and marks the alarm and trip levels. Current levels apply
- * to |I|. The simulator's own hardware trip levels sit beyond the software trip levels, as a
- * hardware interlock should (see simulator/coil-model.ts).
+ * Display bands of the live channels as the Live page and Coil detail draw them: every bar
+ * against `scale`, `normal` shaded, the alarm and trip levels marked. Composed on the server
+ * (`shared/levels/channel-bands.ts`) from the stored level set (scale, normal band, trip
+ * levels) and the alarm limits in force, so a gauge shows the levels the alarms and the
+ * interlock act on. Current and voltage levels apply to |value|.
  */
+import type { Axis } from '../telemetry/messages.js';
+
 export interface ChannelBand {
   id: string;
   label: string;
@@ -23,10 +25,12 @@ export interface ChannelBand {
   absolute: boolean;
 }
 
-export const DEMO_CHANNEL_BANDS: Record<'current' | 'voltage' | 'temperature' | 'flow' | 'waterSupply', ChannelBand> = {
-  current: { id: 'current', label: 'Current', unit: 'A', scale: [-25, 25], normal: [-15, 15], high: 18, low: null, tripHigh: 20, tripLow: null, absolute: true },
-  voltage: { id: 'voltage', label: 'Voltage', unit: 'V', scale: [-15, 15], normal: [-12, 12], high: 13, low: null, tripHigh: null, tripLow: null, absolute: true },
-  temperature: { id: 'temperature', label: 'Coil temperature', unit: '°C', scale: [10, 90], normal: [15, 45], high: 55, low: null, tripHigh: 65, tripLow: null, absolute: false },
-  flow: { id: 'flow', label: 'Coolant flow', unit: 'L/min', scale: [0, 6], normal: [2, 5], high: null, low: 1.5, tripHigh: null, tripLow: 1, absolute: false },
-  waterSupply: { id: 'waterSupply', label: 'Water supply', unit: '°C', scale: [5, 35], normal: [14, 22], high: 25, low: 10, tripHigh: null, tripLow: null, absolute: false },
-};
+/** Band ids: one per coil pair for the per-pair channels, and the shared water supply. */
+export type BandId = `${'current' | 'voltage' | 'temperature' | 'flow'}.${Axis}` | 'waterSupply';
+
+/** Body of `GET /api/channels` and of the WebSocket `channels` message. */
+export interface ChannelBands {
+  /** Version of the stored level set the bands come from. */
+  version: number;
+  bands: Record<BandId, ChannelBand>;
+}

@@ -1,6 +1,7 @@
 import type { Vec3, FieldState } from '../field/field-vector.js';
 import type { Role } from '../auth/roles.js';
 import type { AlarmsMessage } from '../alarms/alarm-api.js';
+import type { ChannelBands } from './channels.js';
 
 /** Per-axis numbers keyed by coil pair. */
 export type PerAxis<T> = { x: T; y: T; z: T };
@@ -89,11 +90,15 @@ export interface SlowChunk {
   flowLpm: PerAxis<number[]>;
 }
 
+/** The display bands in force, sent after `hello` and whenever a lead changes a level. */
+export type ChannelsMessage = { type: 'channels' } & ChannelBands;
+
 /** Messages the server sends on the WebSocket `/ws`. */
 export type ServerMessage =
   | { type: 'hello'; user: { email: string; role: Role }; serverTime: string; decimatedRateHz: number }
   | { type: 'live'; live: LiveState; series: SeriesChunk; slow: SlowChunk }
   | AlarmsMessage
+  | ChannelsMessage
   | { type: 'error'; message: string };
 
 export type { Vec3 };

@@ -8,6 +8,7 @@ import { errorText } from '../api/error-text';
 import { PRIORITY_LOOK, levelWords } from './alarm-look';
 import type { AlarmLimitRecord } from './alarm-records';
 import { channelLabel, channelQuantity } from './channel-text';
+import { LevelSetPanel } from '../levels/level-set-panel';
 import { LimitDialog } from './limit-dialog';
 
 /**
@@ -16,7 +17,7 @@ import { LimitDialog } from './limit-dialog';
  */
 @Component({
   selector: 'tw-alarm-limits',
-  imports: [MatButtonModule, MatIconModule],
+  imports: [LevelSetPanel, MatButtonModule, MatIconModule],
   templateUrl: './alarm-limits.html',
   styleUrl: './alarm-tables.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -8,7 +8,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import type { AlarmPriority } from '../../../shared/alarms/alarm-api';
-import { errorText } from '../api/error-text';
+import { fieldMessage, markField, placeServerError } from '../api/field-errors';
 import { PRIORITY_LOOK } from './alarm-look';
 import type { AlarmLimitChanges, AlarmLimitRecord } from './alarm-records';
 import { AlarmRequests } from './alarm-requests';
@@ -54,17 +54,32 @@ export class LimitDialog {
   });
   protected readonly problem = signal<string | null>(null);
   protected readonly sending = signal(false);
+  protected readonly fieldMessage = fieldMessage;
+
+  /** Server field paths → the controls that show their refusals. */
+  private readonly fieldControls = {
+    limit: this.form.controls.limit,
+    deadband: this.form.controls.deadband,
+    onDelayMs: this.form.controls.onDelayMs,
+    offDelayMs: this.form.controls.offDelayMs,
+    priority: this.form.controls.priority,
+    latching: this.form.controls.latching,
+    'rationale.cause': this.form.controls.cause,
+    'rationale.consequence': this.form.controls.consequence,
+    'rationale.action': this.form.controls.action,
+    'rationale.respondWithinMin': this.form.controls.respondWithinMin,
+    reason: this.form.controls.reason,
+  };
 
   protected async save(): Promise<void> {
     const v = this.form.getRawValue();
-    const numbers = { limit: v.limit, deadband: v.deadband, onDelayMs: v.onDelayMs, offDelayMs: v.offDelayMs, respondWithinMin: v.respondWithinMin };
-    const missing = Object.entries(numbers).filter(([, n]) => n === null || !Number.isFinite(n)).map(([k]) => k);
-    if (missing.length) {
-      this.problem.set(`Enter a number for: ${missing.join(', ')}.`);
-      return;
-    }
-    if (v.reason.trim() === '') {
-      this.problem.set('Write a reason for the change: it goes to the audit trail with the old and new values.');
+    const c = this.form.controls;
+    const numbers = [c.limit, c.deadband, c.onDelayMs, c.offDelayMs, c.respondWithinMin];
+    const missing = numbers.filter((control) => control.value === null || !Number.isFinite(control.value));
+    for (const control of missing) markField(control, 'Enter a number');
+    if (v.reason.trim() === '') markField(c.reason, 'Write a reason: it goes to the audit trail with the old and new values.');
+    if (missing.length || v.reason.trim() === '') {
+      this.problem.set(null);
       return;
     }
     const changes: AlarmLimitChanges = {
@@ -84,7 +99,7 @@ export class LimitDialog {
       await this.requests.updateLimit(this.limit.id, changes, v.reason.trim());
       this.ref.close(true);
     } catch (err) {
-      this.problem.set(errorText(err));
+      this.problem.set(placeServerError(err, this.fieldControls));
     } finally {
       this.sending.set(false);
     }

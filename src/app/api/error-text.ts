@@ -18,3 +18,11 @@ export function errorText(err: unknown): string {
   if (err.status >= 500) return `The server failed (HTTP ${err.status}). Try again; if it persists, tell the lab engineer.`;
   return `The server refused the request (HTTP ${err.status}).`;
 }
+
+/** The form field a refusal concerns (`field` of the server's 400 body), or null. */
+export function errorField(err: unknown): string | null {
+  if (!(err instanceof HttpErrorResponse)) return null;
+  const body: unknown = err.error;
+  const field = body && typeof body === 'object' ? (body as { field?: unknown }).field : undefined;
+  return typeof field === 'string' && field !== '' ? field : null;
+}

@@ -2,6 +2,7 @@ import { HttpClient } from '@angular/common/http';
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import type { AlarmsMessage } from '../../../shared/alarms/alarm-api';
+import type { ChannelBands } from '../../../shared/live/channels';
 import type { LiveState, ServerMessage, SeriesChunk, SlowChunk } from '../../../shared/live/live-state';
 import { Session } from '../auth/session';
 import { judgeConnection } from './connection-state';
@@ -53,6 +54,7 @@ export class LiveFeed {
   private readonly latest = signal<LiveState | null>(null);
   private readonly retryAt = signal<number | null>(null);
   private readonly latestAlarms = signal<AlarmsMessage | null>(null);
+  private readonly latestChannels = signal<ChannelBands | null>(null);
 
   /** Latest state of the apparatus, updated a few times per second. */
   readonly live = this.latest.asReadonly();
@@ -61,6 +63,8 @@ export class LiveFeed {
    * change; rare, so published at once rather than with the summary). Null until the first.
    */
   readonly alarms = this.latestAlarms.asReadonly();
+  /** Display bands in force as the server last pushed them (after hello and on every change). */
+  readonly channels = this.latestChannels.asReadonly();
   /** Browser-clock time of the next reconnect attempt while offline. */
   readonly reconnectAt = this.retryAt.asReadonly();
   /** Current browser time, advanced with each summary; for "n s ago" texts. */
@@ -170,6 +174,8 @@ export class LiveFeed {
       for (const listener of this.listeners) listener(message.series, message.slow);
     } else if (message.type === 'alarms') {
       this.latestAlarms.set(message);
+    } else if (message.type === 'channels') {
+      this.latestChannels.set({ version: message.version, bands: message.bands });
     } else if (message.type === 'error') {
       console.warn(`Live feed: ${message.message}`);
     }

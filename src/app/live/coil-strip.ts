@@ -1,11 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import type { ChannelBand } from '../../../shared/live/channels';
+import type { BandId, ChannelBand } from '../../../shared/live/channels';
 import type { LiveState, PerAxis } from '../../../shared/live/live-state';
 import { GaugeBar } from '../gauges/gauge-bar';
 import { formatQuantity } from '../readout/format-quantity';
-
-/** Bands of the live channels, as served by `GET /api/channels`. */
-export type ChannelBands = Record<'current' | 'voltage' | 'temperature' | 'flow' | 'waterSupply', ChannelBand>;
 
 type Axis = keyof PerAxis<number>;
 const AXES: readonly Axis[] = ['x', 'y', 'z'];
@@ -25,7 +22,7 @@ const AXES: readonly Axis[] = ['x', 'y', 'z'];
 })
 export class CoilStrip {
   readonly live = input<LiveState | null>(null);
-  readonly bands = input.required<ChannelBands>();
+  readonly bands = input.required<Record<BandId, ChannelBand>>();
   readonly stale = input(false);
 
   protected readonly axes = computed(() => {
@@ -37,6 +34,12 @@ export class CoilStrip {
       return {
         axis,
         name: axis.toUpperCase(),
+        band: {
+          current: this.bands()[`current.${axis}`],
+          voltage: this.bands()[`voltage.${axis}`],
+          temperature: this.bands()[`temperature.${axis}`],
+          flow: this.bands()[`flow.${axis}`],
+        },
         current: pick(live?.currents, axis),
         setpoint: pick(live?.setpoints, axis),
         voltage: pick(live?.voltageV, axis),

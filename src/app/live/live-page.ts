@@ -1,9 +1,7 @@
-import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
-import { errorText } from '../api/error-text';
 import { ChartPanel, type ChartAxis, type ChartLine } from '../charts/chart-panel';
 import { FAST, SLOW, TelemetryHistory } from '../charts/telemetry-history';
 import { DEFAULT_WINDOW_SECONDS, TIME_WINDOWS } from '../charts/time-window';
@@ -13,7 +11,8 @@ import { PredictionPanel } from '../prediction/prediction-panel';
 import { PREDICTED, PredictionSeries } from '../prediction/prediction-series';
 import { ActiveProfile } from '../profiles/active-profile';
 import { formatLocalTime } from '../readout/format-quantity';
-import { CoilStrip, type ChannelBands } from './coil-strip';
+import { ChannelBandsSource } from '../gauges/channel-bands';
+import { CoilStrip } from './coil-strip';
 import { ControllerStatus } from './controller-status';
 import { FieldPanel } from './field-panel';
 
@@ -39,12 +38,8 @@ export class LivePage {
   protected readonly activeProfile = inject(ActiveProfile).record;
 
   protected readonly live = this.feed.live;
-  /**
-   * Bands and limits from the server. Nothing is drawn against limits the server did not send:
-   * bars against someone else's limits would look right and be wrong.
-   */
-  protected readonly bands = httpResource<ChannelBands>(() => '/api/channels');
-  protected readonly bandsError = computed(() => (this.bands.error() ? errorText(this.bands.error()) : null));
+  /** Bands and limits in force, as the server sends them (pushed again when a lead changes one). */
+  protected readonly bands = inject(ChannelBandsSource);
 
   protected readonly stale = computed(() => isStale(this.feed.connection().state));
   /** "Stale since hh:mm:ss" (local time of the newest data), or null while data is current. */

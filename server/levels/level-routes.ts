@@ -1,0 +1,51 @@
+/**
+ * `GET /api/levels` (viewer): the level set in force; `GET /api/levels/history` (viewer): its
+ * stored versions; `PUT /api/levels` (lead): `{ levels, reason }` stores the next version,
+ * audited, once it validates and no alarm limit lies beyond a trip level; `GET /api/channels`
+ * (viewer): the display bands composed from the level set and the alarm limits in force.
+ */
+import { composeChannelBands } from '../../shared/levels/channel-bands.js';
+import type { AlarmBook } from '../alarms/alarm-book.js';
+import { actorOf } from '../alarms/alarm-routes.js';
+import { changeReason } from '../http/change-reason.js';
+import { HttpError } from '../http/http-error.js';
+import type { RouteHandlers } from '../http/route-table.js';
+import { tripLevelProblem } from './level-checks.js';
+import { LevelSetError, parseLevelSet } from './level-set-schema.js';
+import type { LevelStore } from './level-store.js';
+
+export type LevelRoutes = 'levels.get' | 'levels.history' | 'levels.update' | 'channels';
+
+export function levelHandlers(levels: LevelStore, book: AlarmBook): Pick<RouteHandlers, LevelRoutes> {
+  return {
+    'levels.get': (_req, res) => {
+      res.json(levels.inForce());
+    },
+    'levels.history': async (_req, res) => {
+      res.json({ versions: await levels.history() });
+    },
+    'levels.update': async (req, res) => {
+      const body: unknown = req.body;
+      if (typeof body !== 'object' || body === null || Array.isArray(body)) {
+        throw new HttpError(400, 'send a JSON object { levels, reason } with the whole level set and why it changes');
+      }
+      const { levels: input, reason: reasonInput, ...rest } = body as Record<string, unknown>;
+      const extra = Object.keys(rest);
+      if (extra.length > 0) throw new HttpError(400, `unknown fields ${extra.join(', ')}: send { levels, reason }`);
+      const reason = changeReason(reasonInput, 'the level set');
+      let next;
+      try {
+        next = parseLevelSet(input);
+      } catch (error) {
+        if (error instanceof LevelSetError) throw new HttpError(400, error.message, error.field === '' ? null : `levels.${error.field}`);
+        throw error;
+      }
+      const problem = tripLevelProblem(book.limits(), next.trips);
+      if (problem) throw new HttpError(400, problem.message, `levels.${problem.field}`);
+      res.json(await levels.save(next, actorOf(req), reason));
+    },
+    channels: (_req, res) => {
+      res.json(composeChannelBands(levels.inForce(), book.limits()));
+    },
+  };
+}
