@@ -133,7 +133,7 @@ describe('logbook API', () => {
     const res = await fetch(`${server.url}/api/logbook/entries`, { method: 'POST', headers: { authorization: `Bearer ${tokens.get('operator')}` }, body: form });
     expect(res.status).toBe(400);
     expect(((await res.json()) as { error: string }).error).toMatch(/form field "file"/);
-  });
+  }, 180_000);
 
   it('keeps a corrected entry and shows the correction beside it (append-only)', async () => {
     const original = await write({ text: 'Trap depth set to 12 kHz for the evening runs.', tags: ['trap'] });
