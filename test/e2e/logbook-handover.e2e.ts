@@ -24,7 +24,11 @@ describe('Logbook and Handover in Chromium', () => {
   });
 
   async function signIn(page: Page, email: string): Promise<void> {
+    // The pages share one browser profile: forget the previous person's session first.
     await page.goto(stack.server.url);
+    await page.evaluate('localStorage.clear()');
+    await page.goto(stack.server.url);
+    await page.getByLabel('Email').waitFor({ timeout: 60_000 });
     await page.getByLabel('Email').fill(email);
     await page.getByLabel('Password').fill(DEMO_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
@@ -43,16 +47,13 @@ describe('Logbook and Handover in Chromium', () => {
     await composer.getByLabel('Tags').fill('cooling, facilities');
     await composer.getByLabel('Files to attach').setInputFiles({ name: 'chiller-panel.png', mimeType: 'image/png', buffer: pngBytes(24) });
     // A screenshot pasted from the clipboard becomes an attachment as well.
-    // (Source text: this runs in the page, whose DOM types the Node compilation does not know.)
-    await composer.getByLabel('Entry').evaluate(
-      `(box, b64) => {
-        const bytes = Uint8Array.from(atob(b64), (c) => c.charCodeAt(0));
-        const data = new DataTransfer();
-        data.items.add(new File([bytes], 'image.png', { type: 'image/png' }));
-        box.dispatchEvent(new ClipboardEvent('paste', { clipboardData: data, bubbles: true, cancelable: true }));
-      }`,
-      pngBytes(12).toString('base64'),
-    );
+    await composer.getByLabel('Entry').evaluate((box, b64) => {
+      // Runs in the page: its DOM classes, typed here because the Node compilation has no DOM library.
+      const dom = globalThis as unknown as { DataTransfer: new () => { items: { add(file: File): void } }; ClipboardEvent: new (type: string, init: object) => Event };
+      const data = new dom.DataTransfer();
+      data.items.add(new File([Uint8Array.from(atob(b64), (c) => c.charCodeAt(0))], 'image.png', { type: 'image/png' }));
+      box.dispatchEvent(new dom.ClipboardEvent('paste', { clipboardData: data, bubbles: true, cancelable: true }));
+    }, pngBytes(12).toString('base64'));
     const files = composer.getByRole('list', { name: 'Files to attach' });
     await expect.poll(() => files.getByRole('listitem').count()).toBe(2);
     expect(await files.innerText()).toMatch(/chiller-panel\.png[\s\S]*pasted-.*\.png/);
@@ -115,8 +116,6 @@ describe('Logbook and Handover in Chromium', () => {
     await outgoing.close();
 
     const incoming = await chrome.browser.newPage();
-    await incoming.goto(stack.server.url);
-    await incoming.evaluate('localStorage.clear()');
     await signIn(incoming, 'lead@tiltwatch.example');
     await goTo(incoming, 'Handover');
     const same = incoming.getByRole('article', { name: 'Handover 1' });

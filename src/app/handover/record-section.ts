@@ -110,7 +110,7 @@ import { formatLocalDateTime } from '../readout/format-quantity';
       color: var(--mat-sys-on-surface-variant);
       margin: 0;
     }
-    .none {
+    li.none {
       list-style: none;
       margin-left: -20px;
     }
@@ -134,7 +134,8 @@ export class RecordSection {
   }
 
   protected firstLine(text: string): string {
-    const line = text.split('\n').find((l) => l.trim() !== '') ?? '';
+    // The first line as plain words: Markdown marks left out.
+    const line = (text.split('\n').find((l) => l.trim() !== '') ?? '').replace(/[*_`#>]+/g, '').trim();
     return line.length > 160 ? `${line.slice(0, 157)}…` : line;
   }
 }

@@ -64,7 +64,8 @@ export class EntryComposer {
 
   /** Images pasted into the text box become attachments (a screenshot from the clipboard). */
   protected onPaste(event: ClipboardEvent): void {
-    const images = [...(event.clipboardData?.files ?? [])].filter((f) => f.type.startsWith('image/'));
+    const items = [...(event.clipboardData?.items ?? [])].filter((i) => i.kind === 'file' && i.type.startsWith('image/'));
+    const images = items.map((i) => i.getAsFile()).filter((f): f is File => f !== null);
     if (images.length === 0) return;
     event.preventDefault();
     const stamp = new Date().toISOString().slice(0, 19).replace(/[:T]/g, '-');
