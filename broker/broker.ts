@@ -1,6 +1,7 @@
 import { Aedes, type AuthenticateError, type Client } from 'aedes';
 import { createHash, timingSafeEqual } from 'node:crypto';
 import { createServer, type Socket } from 'node:net';
+import { listenProblem } from '../shared/net/listen-problem.js';
 import type { BrokerCredentials } from './credentials.js';
 import { mayPublish, maySubscribe, type MqttRole } from './topic-access.js';
 
@@ -107,7 +108,7 @@ export async function startBroker(opts: BrokerOptions): Promise<RunningBroker> {
     await listen(server, opts.port, host);
   } catch (error) {
     await new Promise<void>((resolve) => aedes.close(() => resolve()));
-    throw new Error(`MQTT broker cannot listen on ${host}:${opts.port}: ${(error as Error).message}`);
+    throw new Error(listenProblem('The embedded MQTT broker', { port: 'MQTT_PORT', host: 'MQTT_HOST' }, host, opts.port, error as NodeJS.ErrnoException));
   }
   server.on('error', (error) => log('mqtt listener error', { error: error.message }));
 

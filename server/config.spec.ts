@@ -44,8 +44,15 @@ describe('loadConfig', () => {
       MQTT_PASSWORD: 'secret',
       DATABASE_URL: 'postgres://tiltwatch@db.example/tiltwatch',
     });
-    expect(config.mqtt).toEqual({ mode: 'external', url: 'mqtt://broker.example:1883', username: 'server', password: 'secret' });
+    expect(config.mqtt).toEqual({ mode: 'external', url: 'mqtt://broker.example:1883', username: 'server', password: 'secret', protocolVersion: 4 });
     expect(config.databaseUrl).toBe('postgres://tiltwatch@db.example/tiltwatch');
+  });
+
+  it('speaks MQTT 5 to an external broker only when asked, and never to the embedded one (3.1.1 only)', () => {
+    expect(loadConfig({ MQTT_URL: 'mqtt://broker.example:1883', MQTT_PROTOCOL_VERSION: '5' }).mqtt).toMatchObject({ protocolVersion: 5 });
+    expect(loadConfig({ MQTT_URL: 'mqtt://broker.example:1883', MQTT_PROTOCOL_VERSION: '3.1.1' }).mqtt).toMatchObject({ protocolVersion: 4 });
+    expect(problemsOf({ MQTT_PROTOCOL_VERSION: '5' })).toEqual([expect.stringMatching(/^MQTT_PROTOCOL_VERSION=5 needs an external broker \(MQTT_URL\): the embedded broker speaks MQTT 3\.1\.1 only/)]);
+    expect(problemsOf({ MQTT_URL: 'mqtt://b.example', MQTT_PROTOCOL_VERSION: '4' })).toEqual([expect.stringMatching(/^MQTT_PROTOCOL_VERSION="4" must be 3\.1\.1 or 5/)]);
   });
 
   it('reads the mail server, the on-call list and the stale trip time', () => {

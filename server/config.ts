@@ -1,10 +1,11 @@
 import path from 'node:path';
 import { z } from 'zod';
+import { mqttProtocolLevel, type MqttProtocolLevel } from '../shared/telemetry/mqtt-protocol.js';
 
 /** Where the server finds its MQTT broker: embedded (started by the server) or external. */
 export type MqttConfig =
   | { mode: 'embedded'; host: string; port: number }
-  | { mode: 'external'; url: string; username: string | null; password: string | null };
+  | { mode: 'external'; url: string; username: string | null; password: string | null; protocolVersion: MqttProtocolLevel };
 
 export type LogLevel = 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'trace' | 'silent';
 
@@ -92,6 +93,7 @@ const EnvSchema = z.object({
   MQTT_PORT: optional(portNumber),
   MQTT_USERNAME: optional(z.string()),
   MQTT_PASSWORD: optional(z.string()),
+  MQTT_PROTOCOL_VERSION: optional(z.string().trim().refine((s) => mqttProtocolLevel(s) !== null, 'must be 3.1.1 or 5')),
   TILTWATCH_DEMO_PASSWORD: optional(z.string().min(8, 'must be at least 8 characters')),
   LOG_LEVEL: optional(z.enum(LOG_LEVELS, { error: `must be one of ${LOG_LEVELS.join(', ')}` })),
   TILTWATCH_RAW_RETENTION_HOURS: optional(positive(24 * 365, 'a number of hours above 0 (at most one year)')),
@@ -151,6 +153,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
   if (e.MQTT_URL !== undefined && (e.MQTT_HOST !== undefined || e.MQTT_PORT !== undefined)) {
     problems.push('MQTT_HOST/MQTT_PORT configure the embedded broker and conflict with MQTT_URL; remove one of them');
   }
+  if (e.MQTT_URL === undefined && e.MQTT_PROTOCOL_VERSION !== undefined && e.MQTT_PROTOCOL_VERSION !== '3.1.1') {
+    problems.push('MQTT_PROTOCOL_VERSION=5 needs an external broker (MQTT_URL): the embedded broker speaks MQTT 3.1.1 only');
+  }
   if (e.SMTP_URL !== undefined && e.SMTP_MAILBOX_PORT !== undefined) {
     problems.push('SMTP_MAILBOX_PORT configures the local mailbox, which does not run when SMTP_URL names a real mail server; remove one of them');
   }
@@ -158,7 +163,13 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): ServerConfig {
 
   const mqtt: MqttConfig =
     e.MQTT_URL !== undefined
-      ? { mode: 'external', url: e.MQTT_URL, username: e.MQTT_USERNAME ?? null, password: e.MQTT_PASSWORD ?? null }
+      ? {
+          mode: 'external',
+          url: e.MQTT_URL,
+          username: e.MQTT_USERNAME ?? null,
+          password: e.MQTT_PASSWORD ?? null,
+          protocolVersion: mqttProtocolLevel(e.MQTT_PROTOCOL_VERSION) ?? 4,
+        }
       : { mode: 'embedded', host: e.MQTT_HOST ?? CONFIG_DEFAULTS.mqttHost, port: e.MQTT_PORT ?? CONFIG_DEFAULTS.mqttPort };
 
   return {

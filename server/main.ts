@@ -10,6 +10,7 @@ import { DataFolderLockedError } from './data-folder/data-folder-lock.js';
 import { projectRoot } from './project-root.js';
 import { startServer, type RunningServer } from './server.js';
 import { DEMO_ACCOUNTS } from './auth/users-repository.js';
+import { demoConflicts } from './start-checks/demo-options.js';
 
 const USAGE = 'usage: node --import tsx server/main.ts [--demo]';
 
@@ -26,9 +27,7 @@ let server: RunningServer;
 let simulator: ChildProcess | null = null;
 try {
   const config = loadConfig();
-  if (demo && config.mqtt.mode === 'external') {
-    throw new ConfigError(['--demo runs the simulator against the embedded broker; unset MQTT_URL, or run the simulator yourself (npm run simulator)']);
-  }
+  demoConflicts(config, demo);
   server = await startServer(config);
   if (demo && server.brokerCredentials) {
     simulator = spawn(process.execPath, ['--import', 'tsx', path.join('simulator', 'main.ts')], {
@@ -40,6 +39,9 @@ try {
         MQTT_USERNAME: server.brokerCredentials.controller.username,
         MQTT_PASSWORD: server.brokerCredentials.controller.password,
         SIM_DEMO: 'on',
+        // The simulator stops when this process is gone, even after kill -9, instead of living
+        // on as an orphan that holds SIM_CONTROL_PORT (simulator/main.ts).
+        SIM_PARENT_PID: String(process.pid),
       },
     });
     simulator.on('exit', (code, signal) => {

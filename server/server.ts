@@ -2,6 +2,8 @@ import { createServer, type Server } from 'node:http';
 import path from 'node:path';
 import type { Logger } from 'pino';
 import { startBroker, type RunningBroker } from '../broker/broker.js';
+import { listenProblem } from '../shared/net/listen-problem.js';
+import type { MqttProtocolLevel } from '../shared/telemetry/mqtt-protocol.js';
 import { loadOrCreateCredentials, type BrokerCredentials } from '../broker/credentials.js';
 import { AccessControl } from './auth/access-control.js';
 import { authHandlers } from './auth/auth-routes.js';
@@ -13,6 +15,7 @@ import { calibrationHandlers } from './calibration/calibration-routes.js';
 import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
 import { lockDataFolder } from './data-folder/data-folder-lock.js';
+import { checkListenSlots, listenSlots } from './start-checks/listen-check.js';
 import { openDatabase } from './db/database.js';
 import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
 import { CalibrationCache } from './field/calibration-cache.js';
@@ -95,11 +98,21 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
   };
 
   try {
+    // A bad HOST or MQTT_HOST is refused before anything starts.
+    await checkListenSlots(listenSlots(config), { portsToo: false });
     const lock = lockDataFolder(config.dataDir);
     closers.push(() => lock.release());
     const tokens = new TokenIssuer(loadOrCreateJwtSecret(config.dataDir));
 
-    const database = await openDatabase({ dataDir: config.dataDir, databaseUrl: config.databaseUrl });
+    const database = await openDatabase({
+      dataDir: config.dataDir,
+      databaseUrl: config.databaseUrl,
+      onRetry: (reason, delayMs) => log.warn(`PostgreSQL at DATABASE_URL cannot be reached (${reason}); trying again in ${delayMs / 1000} s`),
+      onHealthChange: (db) =>
+        db.state === 'up'
+          ? log.info({ outageSince: db.since }, 'PostgreSQL reachable again; storage resumes')
+          : log.error(`PostgreSQL at DATABASE_URL cannot be reached (${db.lastError}); supervision goes on from memory`),
+    });
     closers.push(() => database.close());
     const { db } = database;
     await seedDemoCalibration(db);
@@ -116,7 +129,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
 
     let broker: RunningBroker | null = null;
     let brokerCredentials: BrokerCredentials | null = null;
-    let mqtt: { url: string; username: string | null; password: string | null };
+    let mqtt: { url: string; username: string | null; password: string | null; protocolVersion: MqttProtocolLevel };
     if (config.mqtt.mode === 'embedded') {
       brokerCredentials = await loadOrCreateCredentials(config.dataDir);
       const started = await startBroker({
@@ -127,7 +140,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
       });
       broker = started;
       closers.push(() => started.close());
-      mqtt = { url: started.url, ...brokerCredentials.server };
+      mqtt = { url: started.url, ...brokerCredentials.server, protocolVersion: 4 };
     } else {
       mqtt = config.mqtt;
     }
@@ -147,7 +160,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout, prediction });
     const gate = new FrameGate();
     // Alarms and the software interlock evaluate each message after the pipeline applied it.
-    const supervision = await startSupervision({ db, live, sink: fanout, config, log });
+    const supervision = await startSupervision({ db, live, sink: fanout, config, log, databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined });
     closers.push(() => supervision.close());
     const deliver = (message: AdmittedMessage) => {
       pipeline.handle(message);
@@ -160,13 +173,15 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
 
     const report = (): HealthReport => {
       const fanoutCounters = fanout.counters();
+      const databaseHealth = database.health?.report() ?? null;
       return {
-        status: 'ok',
+        status: databaseHealth?.state === 'unreachable' ? 'degraded' : 'ok',
         uptimeS: Math.round((performance.now() - startedAt) / 1000),
         frames: gate.counters(),
         clients: fanoutCounters.clients,
         broker: broker?.counters() ?? null,
         db: database.kind,
+        database: databaseHealth,
         mqttConnected: ingest.connected(),
         fanout: fanoutCounters,
         storage: writer.counters(),
@@ -210,7 +225,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
 
 function listen(server: Server, port: number, host: string): Promise<void> {
   return new Promise((resolve, reject) => {
-    server.once('error', (error) => reject(new Error(`Cannot listen on ${host}:${port} (PORT/HOST): ${error.message}`)));
+    server.once('error', (error) => reject(new Error(listenProblem('The web server', { port: 'PORT', host: 'HOST' }, host, port, error))));
     server.listen(port, host, () => resolve());
   });
 }

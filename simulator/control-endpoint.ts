@@ -3,6 +3,7 @@ import type { AddressInfo } from 'node:net';
 import type { z } from 'zod';
 import { FaultSpec } from './faults.js';
 import type { ResetOutcome } from './trip-chain.js';
+import { listenProblem } from '../shared/net/listen-problem.js';
 
 /** What the control endpoint can ask of the controller. */
 export interface ControlActions {
@@ -49,7 +50,7 @@ export async function startControlEndpoint(actions: ControlActions, port: number
       });
   });
   await new Promise<void>((resolve, reject) => {
-    server.once('error', (error) => reject(new Error(`control endpoint cannot listen on ${host}:${port}: ${error.message}`)));
+    server.once('error', (error) => reject(new Error(listenProblem('The simulator\'s control endpoint', { port: 'SIM_CONTROL_PORT' }, host, port, error))));
     server.listen(port, host, () => resolve());
   });
   const bound = (server.address() as AddressInfo).port;

@@ -7,6 +7,7 @@ import {
   TripCommand,
   type ControllerStatus,
 } from '../shared/telemetry/messages.js';
+import type { MqttProtocolLevel } from '../shared/telemetry/mqtt-protocol.js';
 import { TOPICS } from '../shared/telemetry/topics.js';
 import { startControlEndpoint } from './control-endpoint.js';
 import { DEMO_PARAMETERS } from './parameters.js';
@@ -17,6 +18,8 @@ export interface SimulatorOptions {
   mqttUrl: string;
   username: string;
   password: string;
+  /** MQTT protocol level: 4 (3.1.1, the default; all the embedded broker speaks) or 5. */
+  protocolVersion?: MqttProtocolLevel;
   /** Port of the local control endpoint; 0 picks a free one. */
   controlPort: number;
   /** Interface of the control endpoint; default 127.0.0.1 (this machine only). */
@@ -70,7 +73,7 @@ export async function startSimulator(opts: SimulatorOptions): Promise<RunningSim
   const statusAt = (online: boolean): ControllerStatus => sim.status(online, Math.max(Date.now(), sim.nowMs));
   const will = () => ({ topic: TOPICS.status, payload: Buffer.from(JSON.stringify(statusAt(false))), qos: 1 as const, retain: true });
   const client = mqtt.connect(opts.mqttUrl, {
-    protocolVersion: 4, // aedes speaks MQTT 3.1.1 only
+    protocolVersion: opts.protocolVersion ?? 4, // the embedded aedes broker speaks MQTT 3.1.1 only
     clientId: `tiltwatch-controller-${randomBytes(4).toString('hex')}`,
     username: opts.username,
     password: opts.password,

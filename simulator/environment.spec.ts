@@ -20,9 +20,15 @@ describe('simulator environment', () => {
       mqttUrl: 'mqtt://127.0.0.1:1883',
       username: 'controller',
       password: 'secret-controller-pw',
+      protocolVersion: 4,
       controlPort: 4281,
       demo: true,
     });
+  });
+
+  it('speaks MQTT 5 when MQTT_PROTOCOL_VERSION says so, and refuses other versions', async () => {
+    expect(await simulatorOptionsFromEnv({ TILTWATCH_DATA_DIR: dataDir, MQTT_PROTOCOL_VERSION: '5' })).toMatchObject({ protocolVersion: 5 });
+    await expect(simulatorOptionsFromEnv({ TILTWATCH_DATA_DIR: dataDir, MQTT_PROTOCOL_VERSION: '3' })).rejects.toThrow(/MQTT_PROTOCOL_VERSION must be 3\.1\.1 or 5/);
   });
 
   it('takes explicit credentials, port and demo switch', async () => {

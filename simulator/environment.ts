@@ -1,6 +1,7 @@
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { z } from 'zod';
+import { mqttProtocolLevel } from '../shared/telemetry/mqtt-protocol.js';
 import type { SimulatorOptions } from './controller.js';
 
 const flag = (name: string) =>
@@ -15,6 +16,11 @@ const Environment = z.object({
     .refine((v) => /^(mqtts?|wss?):\/\/[^/]+/.test(v), 'MQTT_URL must look like mqtt://host:port (or mqtts://, ws://, wss://)'),
   MQTT_USERNAME: z.string().min(1, 'MQTT_USERNAME must not be empty').optional(),
   MQTT_PASSWORD: z.string().min(1, 'MQTT_PASSWORD must not be empty').optional(),
+  MQTT_PROTOCOL_VERSION: z
+    .string()
+    .optional()
+    .refine((v) => mqttProtocolLevel(v) !== null, 'MQTT_PROTOCOL_VERSION must be 3.1.1 or 5')
+    .transform((v) => mqttProtocolLevel(v) ?? 4),
   SIM_CONTROL_PORT: z
     .string()
     .default('4281')
@@ -44,7 +50,7 @@ export async function simulatorOptionsFromEnv(env: NodeJS.ProcessEnv): Promise<S
   const account = e.MQTT_USERNAME !== undefined && e.MQTT_PASSWORD !== undefined
     ? { username: e.MQTT_USERNAME, password: e.MQTT_PASSWORD }
     : await controllerAccount(join(e.TILTWATCH_DATA_DIR, 'mqtt-credentials.json'));
-  return { mqttUrl: e.MQTT_URL, ...account, controlPort: e.SIM_CONTROL_PORT, demo: e.SIM_DEMO };
+  return { mqttUrl: e.MQTT_URL, ...account, protocolVersion: e.MQTT_PROTOCOL_VERSION, controlPort: e.SIM_CONTROL_PORT, demo: e.SIM_DEMO };
 }
 
 async function controllerAccount(path: string): Promise<{ username: string; password: string }> {

@@ -20,6 +20,11 @@ const stop = (signal: string) => {
   if (stopping) return;
   stopping = true;
   log('stopping', { signal });
+  // Closing waits for the broker when it can; never for longer than this (the broker may be gone).
+  setTimeout(() => {
+    log('stopped without a clean MQTT goodbye', { signal });
+    process.exit(1);
+  }, 5000).unref();
   simulator.close().then(
     () => process.exit(0),
     (error: Error) => {
@@ -29,4 +34,11 @@ const stop = (signal: string) => {
   );
 };
 process.on('SIGINT', () => stop('SIGINT'));
+// Started by the server (`--demo`): stop when the server is gone, however it ended.
+const parentPid = Number(process.env.SIM_PARENT_PID);
+if (Number.isInteger(parentPid) && parentPid > 0) {
+  setInterval(() => {
+    if (process.ppid !== parentPid) stop('server exited');
+  }, 500).unref();
+}
 process.on('SIGTERM', () => stop('SIGTERM'));

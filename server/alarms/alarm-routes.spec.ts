@@ -10,6 +10,7 @@ import type { RunningServer } from '../server.js';
 import { startControllerFeed, type ControllerFeed } from '../testing/controller-feed.js';
 import { callApi, connectController, makeDataDir, removeDataDir, signIn, startTestServer } from '../testing/test-server.js';
 import type { AlarmLimit } from './alarm-limit.js';
+import { databaseUrlFor } from '../testing/external-services.js';
 
 /** Alarm routes against a real server, broker and database, with a scripted controller feeding telemetry. */
 describe('alarm routes', () => {
@@ -172,7 +173,7 @@ describe('alarm routes', () => {
   it('writes every operator action and limit change to the audit trail with old value, new value and reason', async () => {
     feed.stop();
     await server.close();
-    const database = await openDatabase({ dataDir: dir, databaseUrl: null });
+    const database = await openDatabase({ dataDir: dir, databaseUrl: databaseUrlFor(dir) });
     try {
       const rows = await database.db.select().from(auditLog).where(like(auditLog.action, 'alarm%')).orderBy(asc(auditLog.id));
       const pick = (action: string) => rows.filter((r) => r.action === action).map(({ actor, subject, oldValue, newValue, reason }) => ({ actor, subject, oldValue, newValue, reason }));

@@ -7,6 +7,8 @@ import type { ChannelValues } from './channels.js';
 export interface ChannelExtras {
   /** Target field direction in the trap frame (any length) while one is set; null otherwise. */
   targetDirection?: Vec3 | null;
+  /** Seconds the PostgreSQL server has been unreachable (0 while reachable); absent with PGlite. */
+  databaseOutageS?: number;
 }
 
 const DEG = 180 / Math.PI;
@@ -40,6 +42,7 @@ export function channelValues(live: LiveState, nowMs: number, extras: ChannelExt
   setIfFinite(out, 'collapseRatio', live.prediction?.collapseRatio);
   const lastFrameMs = live.controller.lastFrameAt === null ? NaN : Date.parse(live.controller.lastFrameAt);
   if (Number.isFinite(lastFrameMs)) out.stale = Math.max(0, nowMs - lastFrameMs);
+  setIfFinite(out, 'databaseOutage', extras.databaseOutageS);
   return out;
 }
 

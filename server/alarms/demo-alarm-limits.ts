@@ -226,6 +226,22 @@ const inputs: LimitInput[] = [
       respondWithinMin: 1,
     },
   },
+  {
+    channel: 'databaseOutage',
+    level: 'H',
+    limit: 2,
+    deadband: 1,
+    onDelayMs: 0,
+    offDelayMs: 0,
+    priority: 'medium',
+    latching: false,
+    rationale: {
+      cause: 'The server cannot reach its PostgreSQL database (restart, network or disk trouble on the database host).',
+      consequence: 'Alarms and the software interlock keep working from memory, but telemetry, alarm history and trips of the outage may not be recorded, and operator actions that must be recorded are refused.',
+      action: 'Check the database server and its host; /api/health shows the connection error. Avoid resets and limit changes until it is back.',
+      respondWithinMin: 15,
+    },
+  },
 ];
 
 /** The seeded demo set, validated at load so a typo fails the first test run. */

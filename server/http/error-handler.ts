@@ -1,5 +1,6 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import type { Logger } from 'pino';
+import { isConnectionFailure } from '../db/database-health.js';
 import { HttpError } from './http-error.js';
 
 /** JSON 404 for any `/api` path no route claimed. */
@@ -9,7 +10,8 @@ export const apiNotFound: RequestHandler = (req) => {
 
 /**
  * The one error funnel: HttpError → its status and message; body-parser failures → 400/413
- * with a message saying what to fix; anything else → 500, logged, without internals.
+ * with a message saying what to fix; a lost database connection → 503; anything else → 500,
+ * logged, without internals.
  */
 export function errorHandler(log: Logger): ErrorRequestHandler {
   return (error: unknown, req, res, _next) => {
@@ -31,6 +33,9 @@ function describe(error: unknown): { status: number; message: string } {
   if (bodyError.type === 'entity.too.large') return { status: 413, message: `The request body is larger than ${bodyError.limit} bytes` };
   if (typeof bodyError.status === 'number' && bodyError.status >= 400 && bodyError.status < 500) {
     return { status: bodyError.status, message: (error as Error).message };
+  }
+  if (isConnectionFailure(error)) {
+    return { status: 503, message: 'The database cannot be reached right now; nothing was changed. Supervision goes on; try again once /api/health reports the database up.' };
   }
   return { status: 500, message: 'Internal server error (logged on the server)' };
 }

@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import mqtt from 'mqtt';
 import type { Logger } from 'pino';
+import { isCredentialsRefusal, type MqttProtocolLevel } from '../../shared/telemetry/mqtt-protocol.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import type { AdmittedMessage, FrameGate } from './frame-gate.js';
 
@@ -8,6 +9,8 @@ export interface IngestOptions {
   url: string;
   username: string | null;
   password: string | null;
+  /** MQTT protocol level: 4 (3.1.1, the default; the embedded broker) or 5. */
+  protocolVersion?: MqttProtocolLevel;
   gate: FrameGate;
   /** Receives every admitted message, synchronously, in arrival order. */
   deliver: (message: AdmittedMessage) => void;
@@ -29,13 +32,13 @@ export interface RunningIngest {
 }
 
 /**
- * The server's MQTT subscription to the controller's telemetry and status (MQTT 3.1.1, the
- * server account). Every message goes through the frame gate before anything else sees it.
+ * The server's MQTT subscription to the controller's telemetry and status (MQTT 3.1.1, or 5
+ * with an external broker that speaks it; the server account). Every message goes through the frame gate before anything else sees it.
  * Resolves once subscribed; after a lost connection the client keeps reconnecting.
  */
 export async function startIngest(opts: IngestOptions): Promise<RunningIngest> {
   const client = mqtt.connect(opts.url, {
-    protocolVersion: 4,
+    protocolVersion: opts.protocolVersion ?? 4,
     clientId: `tiltwatch-server-${randomUUID().slice(0, 8)}`,
     username: opts.username ?? undefined,
     password: opts.password ?? undefined,
@@ -93,8 +96,8 @@ function firstConnection(client: mqtt.MqttClient, url: string, timeoutMs: number
       resolve();
     };
     const onError = (error: Error & { code?: number }) => {
-      // CONNACK 4/5: bad user name or password / not authorised. Retrying will not help.
-      if (error.code === 4 || error.code === 5) {
+      // Bad user name or password / not authorised (either protocol version): retrying will not help.
+      if (isCredentialsRefusal(error.code)) {
         finish();
         reject(new Error(`The MQTT broker at ${url} refused the server's credentials: check MQTT_USERNAME and MQTT_PASSWORD`));
       }

@@ -62,7 +62,15 @@ export interface SupervisionSink extends AlarmsSink {
   publishChannels(bands: ChannelBands): void;
 }
 
-export async function startSupervision(deps: { db: Db; live: LiveStore; sink: SupervisionSink; config: ServerConfig; log: Logger }): Promise<Supervision> {
+export async function startSupervision(deps: {
+  db: Db;
+  live: LiveStore;
+  sink: SupervisionSink;
+  config: ServerConfig;
+  log: Logger;
+  /** Seconds the PostgreSQL server has been unreachable (the `databaseOutage` alarm); absent with PGlite. */
+  databaseOutageS?: () => number;
+}): Promise<Supervision> {
   const { db, live, sink, config, log } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
   const levels = await LevelStore.load(db);
@@ -102,7 +110,8 @@ export async function startSupervision(deps: { db: Db; live: LiveStore; sink: Su
     closers.push(() => mailer.close());
     const notice = parseNoticeOptions({ onCall: config.mail.onCall, site: SITE });
     const notifier = new OnCallNotifier(mailer, notice, (id) => book.limits().find((l) => l.id === id));
-    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log });
+    const outage = deps.databaseOutageS;
+    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log, extras: outage ? () => ({ databaseOutageS: outage() }) : undefined });
     closers.push(() => supervisor.close());
 
     return {

@@ -13,7 +13,7 @@ import { AXES, type FastFrame, type ReleaseCommand, type TripCommand } from '../
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import { activeAlarms } from '../alarms/alarm-body.js';
 import type { AlarmBook } from '../alarms/alarm-book.js';
-import { channelValues } from '../alarms/channel-values.js';
+import { channelValues, type ChannelExtras } from '../alarms/channel-values.js';
 import type { SupervisionLog } from '../alarms/supervision-log.js';
 import type { AdmittedMessage } from '../ingest/frame-gate.js';
 import type { LiveStore } from '../live/live-store.js';
@@ -40,6 +40,8 @@ export interface SupervisorDeps {
   notifier: Pick<OnCallNotifier, 'trip' | 'alarmEvents'>;
   sink: AlarmsSink;
   log: Logger;
+  /** Channel inputs from outside the live state (the database outage), read at each evaluation. */
+  extras?: () => ChannelExtras;
   /** Server clock, Unix epoch ms (default `Date.now`). */
   now?: () => number;
   /** Period of the timer evaluation, ms (default 20: silence is seen within the stale limit + 20 ms). */
@@ -106,7 +108,7 @@ export class Supervisor {
     const { live, interlock, book, records, notifier, log } = this.deps;
     try {
       const state = live.snapshot();
-      const values = channelValues(state, nowMs);
+      const values = channelValues(state, nowMs, this.deps.extras?.());
       if (this.peakCurrent && state.currents) {
         for (const axis of AXES) values[`current.${axis}`] = this.peakCurrent[axis];
       }

@@ -73,10 +73,17 @@ describe('live prediction in the server', () => {
     const res = await fetch(`${server.url}/api/profiles`, {
       method: 'POST',
       headers: { authorization: `Bearer ${lead}`, 'content-type': 'application/json' },
-      body: JSON.stringify({ profile, reason, activate: true }),
+      body: JSON.stringify({ profile, reason }),
     });
     expect(res.status).toBe(201);
-    return (await res.json()) as ProfileRecord;
+    const saved = (await res.json()) as ProfileRecord;
+    const activated = await fetch(`${server.url}/api/profiles/${saved.id}/activate`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${lead}`, 'content-type': 'application/json' },
+      body: JSON.stringify({ reason }),
+    });
+    expect(activated.status).toBe(200);
+    return (await activated.json()) as ProfileRecord;
   };
 
   it('publishes in /api/live the prediction a direct model call gives for the measured direction, and keeps it in the history', async () => {

@@ -39,25 +39,21 @@ export async function findActiveProfile(db: Db): Promise<ProfileRecord | null> {
 
 /**
  * Stores `profile` (already validated) as the next version under its name, or version 1 of a
- * new name, and makes it active when asked. The save, the activation and their audit entries
- * (who, when, old and new value, reason) commit together.
+ * new name, never active: activation is a separate, deliberate step (`activateProfile`). The
+ * save and its audit entry (who, when, old and new value, reason) commit together.
  */
-export async function saveProfile(
-  db: Db,
-  request: { profile: SampleProfile; reason: string; activate: boolean; actor: string },
-): Promise<ProfileRecord> {
+export async function saveProfile(db: Db, request: { profile: SampleProfile; reason: string; actor: string }): Promise<ProfileRecord> {
   return db.transaction(async (tx) => {
-    const { profile, reason, activate, actor } = request;
+    const { profile, reason, actor } = request;
     const [previous] = await tx
       .select()
       .from(sampleProfiles)
       .where(eq(sampleProfiles.name, profile.name))
       .orderBy(desc(sampleProfiles.version))
       .limit(1);
-    const deactivated = activate ? await deactivateCurrent(tx) : null;
     const [row] = await tx
       .insert(sampleProfiles)
-      .values({ name: profile.name, version: (previous?.version ?? 0) + 1, body: profile, active: activate, createdBy: actor, reason })
+      .values({ name: profile.name, version: (previous?.version ?? 0) + 1, body: profile, active: false, createdBy: actor, reason })
       .returning();
     await appendAudit(tx, {
       actor,
@@ -67,7 +63,6 @@ export async function saveProfile(
       newValue: { ...auditRef(row), profile: row.body },
       reason,
     });
-    if (activate) await auditActivation(tx, actor, deactivated, row, reason);
     return toRecord(row);
   });
 }

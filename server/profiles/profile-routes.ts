@@ -14,10 +14,9 @@ const reason = z
   .max(500, 'must be at most 500 characters');
 
 const SaveRequest = z.strictObject({
-  // Checked by parseSampleProfile, whose messages name the profile key to fix.
+  // Checked by parseSampleProfile, whose messages name each input as the form labels it.
   profile: z.unknown(),
   reason,
-  activate: z.boolean({ error: 'must be true or false' }).optional(),
 });
 
 const ActivateRequest = z.strictObject({ reason });
@@ -28,7 +27,7 @@ const ProfileId = z.object({
 
 /**
  * Sample-profile routes: `GET /api/profiles` → `{ profiles }` (by name, oldest version
- * first), `GET /api/profiles/active`, `POST /api/profiles` (lead) → 201 with the new version,
+ * first), `GET /api/profiles/active`, `POST /api/profiles` (lead) → 201 with the new version (never active: activation is its own step),
  * `POST /api/profiles/:id/activate` (lead). `activated` is awaited after a change of the
  * active version, so the live prediction follows before the answer goes out.
  */
@@ -46,9 +45,11 @@ export function profileHandlers(
       res.json(active);
     },
     'profiles.save': async (req, res) => {
+      if (typeof req.body === 'object' && req.body !== null && 'activate' in req.body) {
+        throw new HttpError(400, 'Saving never activates a profile: save the version, then activate it with POST /api/profiles/:id/activate and a reason');
+      }
       const body = parseInput(SaveRequest, req.body, 'body');
-      const record = await saveProfile(db, { profile: checkedProfile(body.profile), reason: body.reason, activate: body.activate ?? false, actor: actor(req) });
-      if (record.active) await activated();
+      const record = await saveProfile(db, { profile: checkedProfile(body.profile), reason: body.reason, actor: actor(req) });
       res.status(201).json(record);
     },
     'profiles.activate': async (req, res) => {
@@ -66,7 +67,7 @@ function checkedProfile(value: unknown) {
   try {
     return parseSampleProfile(value);
   } catch (err) {
-    if (err instanceof SampleProfileError) throw new HttpError(400, `Invalid request body: ${err.message}`);
+    if (err instanceof SampleProfileError) throw new HttpError(400, `The profile was not saved: ${err.message.replace(/^sample profile: /, '')}`, err.field ? `profile.${err.field}` : 'profile');
     throw err;
   }
 }

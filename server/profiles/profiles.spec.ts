@@ -7,6 +7,7 @@ import { openDatabase } from '../db/database.js';
 import { auditLog, sampleProfiles } from '../db/schema.js';
 import type { RunningServer } from '../server.js';
 import { makeDataDir, removeDataDir, signIn, startTestServer } from '../testing/test-server.js';
+import { databaseUrlFor } from '../testing/external-services.js';
 
 /** A JSON API client signed in as the demo account of each role. */
 async function clientsFor(server: RunningServer, roles: Role[]) {
@@ -59,14 +60,42 @@ describe('sample profiles over the API', () => {
     expect(versions.map((p) => [p.version, p.profile.atomNumber])).toEqual([[1, 5e4], [2, 6e4]]);
   });
 
-  it('starts a new name at version 1, and activates it at once when asked', async () => {
+  it('starts a new name at version 1 as a draft, and makes it active only in the separate activation step', async () => {
     const dy = { ...DEMO_PROFILE, name: 'Lindqvist Hall 161Dy, crossed trap', species: '161Dy' };
-    const res = await call<ProfileRecord>('lead', 'POST', '/api/profiles', { profile: dy, reason: 'dysprosium run', activate: true });
-
+    const before = await active();
+    const asked = await call<{ error: string }>('lead', 'POST', '/api/profiles', { profile: dy, reason: 'dysprosium run', activate: true });
+    expect(asked.status).toBe(400);
+    expect(asked.body.error).toMatch(/^Saving never activates a profile/);
+    const res = await call<ProfileRecord>('lead', 'POST', '/api/profiles', { profile: dy, reason: 'dysprosium run' });
     expect(res.status).toBe(201);
-    expect(res.body).toMatchObject({ name: dy.name, version: 1, active: true });
-    expect(await active()).toEqual(res.body);
+    expect(res.body).toMatchObject({ name: dy.name, version: 1, active: false });
+    expect(await active()).toEqual(before);
+    const activated = await call<ProfileRecord>('lead', 'POST', `/api/profiles/${res.body.id}/activate`, { reason: 'dysprosium run starts' });
+    expect(activated.body).toMatchObject({ id: res.body.id, active: true });
     expect((await list()).filter((p) => p.active).map((p) => p.id)).toEqual([res.body.id]);
+  });
+
+  it.each([
+    ['2.5 atoms', { atomNumber: 2.5 }, 'profile.atomNumber', /Atom number must lie between 100 and 100000000/],
+    ['10¹² atoms', { atomNumber: 1e12 }, 'profile.atomNumber', /Atom number must lie between 100 and 100000000/],
+    ['a fractional atom number in range', { atomNumber: 5000.5 }, 'profile.atomNumber', /Atom number must be a whole number/],
+    ['a 100 000° Euler angle', { trapToCoilEulerDeg: [100_000, 0, 0] }, 'profile.trapToCoilEulerDeg.0', /1st turn, about coil z must lie between -360 and 360°/],
+    ['a 50 kHz trap', { trapHz: [350, 50_000, 400] }, 'profile.trapHz.1', /Frequency along y must lie between 1 and 10000 Hz/],
+    ['a 5 s TOF', { tofMs: [5000] }, 'profile.tofMs.0', /Each of the TOF times must lie between 0 and 200 ms/],
+  ])('refuses nonsense (%s) with 400 naming the field as the form labels it', async (_what, change, field, message) => {
+    const count = (await list()).length;
+    const res = await call<{ error: string; field: string }>('lead', 'POST', '/api/profiles', { profile: { ...DEMO_PROFILE, ...change }, reason: 'r' });
+    expect(res.status).toBe(400);
+    expect(res.body.field).toBe(field);
+    expect(res.body.error).toMatch(message);
+    expect(res.body.error).not.toMatch(/atomNumber|trapHz|trapToCoilEulerDeg|tofMs/);
+    expect((await list()).length).toBe(count);
+  });
+
+  it('stores Euler angles normalised, the same rotation', async () => {
+    const res = await call<ProfileRecord>('lead', 'POST', '/api/profiles', { profile: { ...DEMO_PROFILE, name: 'Tilted trap', trapToCoilEulerDeg: [350, -20, 190] }, reason: 'tilted' });
+    expect(res.status).toBe(201);
+    expect(res.body.profile.trapToCoilEulerDeg).toEqual([170, 20, 10].map((x) => expect.closeTo(x, 9)));
   });
 
   it('activates a stored version by id and answers 404 for an unknown one', async () => {
@@ -91,10 +120,10 @@ describe('sample profiles over the API', () => {
   });
 
   it.each([
-    ['a negative trap frequency', { profile: { ...DEMO_PROFILE, trapHz: [350, -80, 400] }, reason: 'r' }, /trapHz/],
+    ['a negative trap frequency', { profile: { ...DEMO_PROFILE, trapHz: [350, -80, 400] }, reason: 'r' }, /Frequency along y must lie between/],
     ['an unknown species', { profile: { ...DEMO_PROFILE, species: '999Xx' }, reason: 'r' }, /species/],
     ['an unknown profile key', { profile: { ...DEMO_PROFILE, trapFrequency: 1 }, reason: 'r' }, /unknown key\(s\) trapFrequency/],
-    ['no TOF time', { profile: { ...DEMO_PROFILE, tofMs: [] }, reason: 'r' }, /tofMs: tofMs must list at least one time/],
+    ['no TOF time', { profile: { ...DEMO_PROFILE, tofMs: [] }, reason: 'r' }, /TOF times must list at least one time/],
     ['no reason', { profile: DEMO_PROFILE }, /reason: must be text saying why/],
     ['an empty reason', { profile: DEMO_PROFILE, reason: '  ' }, /reason: must say why/],
   ])('answers 400 naming what to fix for %s, and stores nothing', async (_what, body, message) => {
@@ -134,7 +163,7 @@ describe('sample profiles in the database', () => {
       await server.close();
     }
 
-    const database = await openDatabase({ dataDir: dir, databaseUrl: null });
+    const database = await openDatabase({ dataDir: dir, databaseUrl: databaseUrlFor(dir) });
     try {
       const { db } = database;
       const rows = await db.select().from(auditLog).where(like(auditLog.action, 'profile.%')).orderBy(asc(auditLog.id));

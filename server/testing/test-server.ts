@@ -4,6 +4,7 @@ import path from 'node:path';
 import mqtt from 'mqtt';
 import type { Role } from '../../shared/auth/roles.js';
 import { loadConfig, type ServerConfig } from '../config.js';
+import { externalServices, testMqttProtocol, withServices } from './external-services.js';
 import { seedPglite } from './pglite-template.js';
 import { startServer, type RunningServer, type StartOptions } from '../server.js';
 
@@ -33,7 +34,8 @@ export function removeDataDir(dir: string): void {
 export function testConfig(dataDir: string, env: NodeJS.ProcessEnv = {}): ServerConfig {
   return loadConfig({
     PORT: '0',
-    MQTT_PORT: '0',
+    // An external broker (MQTT_URL) conflicts with the embedded broker's port.
+    MQTT_PORT: env.MQTT_URL ? '' : '0',
     TILTWATCH_DATA_DIR: dataDir,
     TILTWATCH_DEMO_PASSWORD: TEST_PASSWORD,
     LOG_LEVEL: 'silent',
@@ -41,9 +43,18 @@ export function testConfig(dataDir: string, env: NodeJS.ProcessEnv = {}): Server
   });
 }
 
-/** Starts a real server (embedded broker, PGlite) on free ports in `dataDir`. */
-export function startTestServer(dataDir: string, opts?: StartOptions, env?: NodeJS.ProcessEnv): Promise<RunningServer> {
-  return startServer(testConfig(dataDir, env), opts);
+/**
+ * Starts a real server (embedded broker, PGlite) on free ports in `dataDir`; in the external
+ * pass with a fresh PostgreSQL database and its own mosquitto (see external-services.ts).
+ */
+export async function startTestServer(dataDir: string, opts?: StartOptions, env?: NodeJS.ProcessEnv): Promise<RunningServer> {
+  const services = await externalServices(dataDir);
+  try {
+    return withServices(await startServer(testConfig(dataDir, { ...services.env, ...env }), opts), services);
+  } catch (error) {
+    await services.close();
+    throw error;
+  }
 }
 
 /** Signs in as the demo account of `role` and returns its token. */
@@ -71,5 +82,5 @@ export async function callApi<T>(server: RunningServer, token: string | undefine
 export async function connectController(server: RunningServer): Promise<mqtt.MqttClient> {
   const account = server.brokerCredentials?.controller;
   if (!account) throw new Error('the test server has no embedded broker');
-  return mqtt.connectAsync(server.mqttUrl, { protocolVersion: 4, ...account, reconnectPeriod: 0 });
+  return mqtt.connectAsync(server.mqttUrl, { protocolVersion: testMqttProtocol(), ...account, reconnectPeriod: 0 });
 }

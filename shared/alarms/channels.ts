@@ -13,6 +13,7 @@ export type ChannelId =
   | 'fieldMagnitude'
   | 'fieldAngleDeviation'
   | 'stale'
+  | 'databaseOutage'
   | 'collapseRatio';
 
 /** What a channel measures, for labels in lists, e-mails and error messages. */
@@ -48,6 +49,7 @@ export const CHANNELS: Readonly<Record<ChannelId, ChannelInfo>> = {
   fieldMagnitude: { label: 'Field magnitude', unit: 'G' },
   fieldAngleDeviation: { label: 'Field direction off target', unit: '°' },
   stale: { label: 'Time since the last telemetry frame', unit: 'ms' },
+  databaseOutage: { label: 'Time the database has been unreachable', unit: 's' },
   collapseRatio: { label: 'Collapse ratio ε_dd/ε_dd,crit', unit: '' },
 };
 

@@ -17,12 +17,13 @@ export interface ProfileRecord {
   reason: string;
 }
 
-/** Body of `POST /api/profiles` (lead): a new version, or the first of a new name. */
+/**
+ * Body of `POST /api/profiles` (lead): a new version, or the first of a new name. Saving never
+ * activates it; `POST /api/profiles/:id/activate` with a reason does.
+ */
 export interface ProfileSaveRequest {
   profile: SampleProfile;
   reason: string;
-  /** Make the new version the active one at once. */
-  activate?: boolean;
 }
 
 /** Body of `GET /api/prediction/history?seconds=N`: the live prediction over time. */

@@ -29,26 +29,32 @@ describe('SampleProfile', () => {
     expect(SampleProfile.safeParse({ ...DEMO_PROFILE, species: '40K87Rb', polarization: 0.5 }).success).toBe(true);
   });
 
-  it('names the key to fix for each bad shape', () => {
-    expect(problem({ ...DEMO_PROFILE, name: ' ' })).toMatch(/name: name must not be empty/);
-    expect(problem({ ...DEMO_PROFILE, trapHz: [350, 80] })).toMatch(/trapHz: .*three finite numbers/);
-    expect(problem({ ...DEMO_PROFILE, tofMs: [] })).toMatch(/tofMs: tofMs must list at least one time/);
+  it('names each input to fix as the form labels it', () => {
+    expect(problem({ ...DEMO_PROFILE, name: ' ' })).toMatch(/Name must not be empty/);
+    expect(problem({ ...DEMO_PROFILE, trapHz: [350, 80] })).toMatch(/The trap frequencies must be three numbers/);
+    expect(problem({ ...DEMO_PROFILE, tofMs: [] })).toMatch(/TOF times must list at least one time/);
     expect(problem({ ...DEMO_PROFILE, tofMs: [1, 2, 3, 4, 5] })).toMatch(/at most 4 times/);
-    expect(problem({ ...DEMO_PROFILE, tofMs: [20, -1] })).toMatch(/tofMs\.1: each tofMs entry must be a time ≥ 0/);
-    expect(problem({ ...DEMO_PROFILE, imaging: 'w' })).toMatch(/imaging: imaging must be "x", "y", "z" or/);
-    expect(problem({ ...DEMO_PROFILE, species: { massU: 167 } })).toMatch(/species: species must be one of 167Er/);
+    expect(problem({ ...DEMO_PROFILE, tofMs: [20, -1] })).toMatch(/Each of the TOF times must lie between 0 and 200 ms/);
+    expect(problem({ ...DEMO_PROFILE, imaging: 'w' })).toMatch(/Camera line of sight must be along x, y or z/);
+    expect(problem({ ...DEMO_PROFILE, species: { massU: 167 } })).toMatch(/Species must be one of 167Er/);
     expect(problem({ ...DEMO_PROFILE, colour: 'red' })).toMatch(/unknown key\(s\) colour/);
-    expect(problem({ ...DEMO_PROFILE, trapToCoilEulerDeg: [0, Number.NaN, 0] })).toMatch(/trapToCoilEulerDeg\.1: .*three finite numbers/);
+    expect(problem({ ...DEMO_PROFILE, trapToCoilEulerDeg: [0, Number.NaN, 0] })).toMatch(/2nd turn, about the new y must be a number/);
     expect(problem('167Er')).toMatch(/must be an object with name, species/);
   });
 
-  it('passes on the model’s message for non-physical values', () => {
-    expect(problem({ ...DEMO_PROFILE, atomNumber: 0 })).toMatch(/atomNumber must be a positive finite number/);
-    expect(problem({ ...DEMO_PROFILE, trapHz: [350, 0, 400] })).toMatch(/trapHz\[1\] \(trap frequency along y\) must be a positive/);
+  it('refuses values outside the physically sensible ranges the form states', () => {
+    expect(problem({ ...DEMO_PROFILE, atomNumber: 0 })).toBe('sample profile: Atom number must lie between 100 and 100000000');
+    expect(problem({ ...DEMO_PROFILE, atomNumber: 2.5 })).toMatch(/Atom number must lie between 100 and 100000000/);
+    expect(problem({ ...DEMO_PROFILE, atomNumber: 1e12 })).toMatch(/Atom number must lie between 100 and 100000000/);
+    expect(problem({ ...DEMO_PROFILE, trapHz: [350, 0, 400] })).toBe('sample profile: Frequency along y must lie between 1 and 10000 Hz');
+    expect(problem({ ...DEMO_PROFILE, trapToCoilEulerDeg: [100_000, 0, 0] })).toMatch(/1st turn, about coil z must lie between -360 and 360°/);
+  });
+
+  it('passes on the model’s message for non-physical values the ranges do not cover', () => {
     expect(problem({ ...DEMO_PROFILE, species: 'Er168' })).toMatch(/unknown species "Er168"/);
-    expect(problem({ ...DEMO_PROFILE, species: { massU: -3, dipoleDebye: 1 } })).toMatch(/species\.massU must be a positive/);
-    expect(problem({ ...DEMO_PROFILE, polarization: 0.5 })).toMatch(/polarization applies only to electric-dipole species/);
-    expect(problem({ ...DEMO_PROFILE, species: '23Na40K', polarization: 1.2 })).toMatch(/polarization must lie between 0 and 1/);
-    expect(problem({ ...DEMO_PROFILE, imaging: { u: [1, 0, 0], v: [1, 1, 0] } })).toMatch(/imaging\.u and imaging\.v must be perpendicular/);
+    expect(problem({ ...DEMO_PROFILE, species: { massU: -3, dipoleDebye: 1 } })).toMatch(/Species must be one of/);
+    expect(problem({ ...DEMO_PROFILE, polarization: 0.5 })).toMatch(/Polarisation applies only to electric-dipole species/);
+    expect(problem({ ...DEMO_PROFILE, species: '23Na40K', polarization: 1.2 })).toMatch(/Polarisation must lie between 0 and 1/);
+    expect(problem({ ...DEMO_PROFILE, imaging: { u: [1, 0, 0], v: [1, 1, 0] } })).toMatch(/The camera u and v vectors must be perpendicular/);
   });
 });

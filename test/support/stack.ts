@@ -8,6 +8,7 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { loadConfig } from '../../server/config.js';
+import { externalServices, testMqttProtocol, withServices } from '../../server/testing/external-services.js';
 import { startServer, type RunningServer } from '../../server/server.js';
 import { startSimulator, type RunningSimulator, type SimulatorOptions } from '../../simulator/index.js';
 
@@ -29,14 +30,16 @@ export interface StackOptions {
 
 export async function startStack(options: StackOptions = {}): Promise<Stack> {
   const dataDir = await mkdtemp(join(tmpdir(), 'tiltwatch-test-'));
+  const services = await externalServices(dataDir);
   const config = loadConfig({
     PORT: '0',
-    MQTT_PORT: '0',
+    MQTT_PORT: services.brokerCredentials ? '' : '0',
     TILTWATCH_DATA_DIR: dataDir,
     LOG_LEVEL: 'warn',
+    ...services.env,
     ...options.env,
   });
-  const server = await startServer(config);
+  const server = withServices(await startServer(config), services);
   let simulator: RunningSimulator | null = null;
   if (options.simulator !== false) {
     const account = server.brokerCredentials?.controller;
@@ -45,6 +48,7 @@ export async function startStack(options: StackOptions = {}): Promise<Stack> {
       mqttUrl: server.mqttUrl,
       username: account.username,
       password: account.password,
+      protocolVersion: testMqttProtocol(),
       controlPort: 0,
       demo: true,
       seed: 7,

@@ -25,12 +25,14 @@ describe('profile draft', () => {
   });
 
   it('puts the shared schema’s and the model’s messages beside the field they are about', () => {
-    expect(problems({ name: '  ' }).fields.name).toBe('name must not be empty.');
-    expect(problems({ atomNumber: '0' }).fields.atomNumber).toMatch(/^atomNumber must be a positive finite number/);
-    expect(problems({ trapZ: '-400' }).fields.trapZ).toMatch(/^trapHz\[2\] \(trap frequency along z\) must be a positive/);
-    expect(problems({ tofMs: '5, 10, 15, 20, 25' }).fields.tofMs).toBe('tofMs must list at most 4 times.');
-    expect(problems({ imaging: 'custom', imagingU: '1, 0, 0', imagingV: '1, 1, 0' }).fields.imagingV).toBe('imaging.u and imaging.v must be perpendicular.');
-    expect(problems({ species: '23Na40K', polarization: '1.5' }).fields.polarization).toMatch(/^polarization must lie between 0 and 1/);
+    expect(problems({ name: '  ' }).fields.name).toBe('Name must not be empty.');
+    expect(problems({ atomNumber: '0' }).fields.atomNumber).toBe('Atom number must lie between 100 and 100000000.');
+    expect(problems({ atomNumber: '2.5' }).fields.atomNumber).toBe('Atom number must lie between 100 and 100000000.');
+    expect(problems({ trapZ: '-400' }).fields.trapZ).toBe('Frequency along z must lie between 1 and 10000 Hz.');
+    expect(problems({ eulerAlpha: '100000', eulerBeta: '0', eulerGamma: '0' }).fields.eulerAlpha).toBe('1st turn, about coil z must lie between -360 and 360°.');
+    expect(problems({ tofMs: '5, 10, 15, 20, 25' }).fields.tofMs).toBe('TOF times must list at most 4 times.');
+    expect(problems({ imaging: 'custom', imagingU: '1, 0, 0', imagingV: '1, 1, 0' }).fields.imagingV).toBe('The camera u and v vectors must be perpendicular.');
+    expect(problems({ species: '23Na40K', polarization: '1.5' }).fields.polarization).toMatch(/^Polarisation must lie between 0 and 1/);
   });
 
   it('needs all three Euler angles once one is given, and none otherwise', () => {

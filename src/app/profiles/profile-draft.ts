@@ -155,7 +155,7 @@ const TRAP_FIELDS: DraftField[] = ['trapX', 'trapY', 'trapZ'];
 const EULER_FIELDS: DraftField[] = ['eulerAlpha', 'eulerBeta', 'eulerGamma'];
 
 /** The form field of a schema issue path, e.g. ["trapHz", "1"] → trapY. */
-function fieldOfPath(path: string[]): DraftField | null {
+export function fieldOfPath(path: string[]): DraftField | null {
   const [key, sub] = path;
   switch (key) {
     case 'name':

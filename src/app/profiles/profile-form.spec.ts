@@ -60,11 +60,25 @@ describe('ProfileForm', () => {
     expect(request.request.body).toEqual({
       profile: { ...DEMO_PROFILE, atomNumber: 40000 },
       reason: 'fewer atoms after the new loading sequence',
-      activate: true,
     });
     request.flush({ error: 'profile name already used by another lab group' }, { status: 400, statusText: 'Bad Request' });
     await new Promise((resolve) => setTimeout(resolve, 0)); // the save's promise settles
     await fixture.whenStable();
     expect(host.querySelector('[role="alert"]')!.textContent).toContain('profile name already used by another lab group');
+  });
+
+  it('offers no way to activate on save, and shows a refusal naming an input next to that input', async () => {
+    expect(host.textContent).not.toMatch(/active profile when saved/i);
+    expect(host.querySelector('mat-checkbox')).toBeNull();
+    type('Reason for this version', 'check');
+    await submit();
+    http.expectOne('/api/profiles').flush(
+      { error: 'The profile was not saved: Frequency along y must lie between 1 and 10000 Hz', field: 'profile.trapHz.1' },
+      { status: 400, statusText: 'Bad Request' },
+    );
+    await new Promise((resolve) => setTimeout(resolve, 0));
+    await fixture.whenStable();
+    const field = [...host.querySelectorAll('mat-form-field')].find((f) => f.textContent?.includes('Frequency along y'))!;
+    expect(field.querySelector('mat-error')!.textContent).toContain('Frequency along y must lie between 1 and 10000 Hz');
   });
 });

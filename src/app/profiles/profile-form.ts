@@ -3,7 +3,6 @@ import { ChangeDetectionStrategy, Component, computed, inject, input, output, si
 import { toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -11,9 +10,9 @@ import { MatSelectModule } from '@angular/material/select';
 import { firstValueFrom } from 'rxjs';
 import { SPECIES } from '../../../shared/physics/species';
 import type { ProfileRecord, ProfileSaveRequest } from '../../../shared/profiles/profile-record';
-import type { SampleProfile } from '../../../shared/profiles/sample-profile';
-import { errorText } from '../api/error-text';
-import { CUSTOM_ELECTRIC, CUSTOM_MAGNETIC, DRAFT_FIELDS, draftFromProfile, isElectricSpecies, profileFromDraft, type DraftField, type ProfileDraft } from './profile-draft';
+import { PROFILE_RANGES, type SampleProfile } from '../../../shared/profiles/sample-profile';
+import { errorField, errorText } from '../api/error-text';
+import { CUSTOM_ELECTRIC, CUSTOM_MAGNETIC, DRAFT_FIELDS, draftFromProfile, fieldOfPath, isElectricSpecies, profileFromDraft, type DraftField, type ProfileDraft } from './profile-draft';
 
 type DraftControls = { [K in DraftField]: FormControl<string> };
 
@@ -33,7 +32,7 @@ const SPECIES_OPTIONS = [
  */
 @Component({
   selector: 'tw-profile-form',
-  imports: [MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
+  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
   templateUrl: './profile-form.html',
   styleUrl: './profile-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -52,8 +51,8 @@ export class ProfileForm implements OnInit {
   protected readonly form = new FormGroup({
     ...(Object.fromEntries(DRAFT_FIELDS.map((key) => [key, new FormControl('', { nonNullable: true })])) as DraftControls),
     reason: new FormControl('', { nonNullable: true }),
-    activate: new FormControl(true, { nonNullable: true }),
   });
+  protected readonly ranges = PROFILE_RANGES;
 
   private readonly species = toSignal(this.form.controls.species.valueChanges, { initialValue: '' });
   private readonly imaging = toSignal(this.form.controls.imaging.valueChanges, { initialValue: '' });
@@ -78,7 +77,7 @@ export class ProfileForm implements OnInit {
 
   protected async save(): Promise<void> {
     this.serverError.set(null);
-    const { reason, activate, ...draft } = this.form.getRawValue();
+    const { reason, ...draft } = this.form.getRawValue();
     const result = profileFromDraft(draft as ProfileDraft);
     const problems = result.problems ?? { fields: {}, general: [] };
     if (!reason.trim()) (problems.fields as Record<string, string>)['reason'] = 'Give a reason for this version; it goes into the audit trail.';
@@ -89,12 +88,20 @@ export class ProfileForm implements OnInit {
     this.generalProblems.set(problems.general);
     if (!result.profile || !reason.trim()) return;
 
-    const body: ProfileSaveRequest = { profile: result.profile, reason: reason.trim(), activate };
+    const body: ProfileSaveRequest = { profile: result.profile, reason: reason.trim() };
     this.saving.set(true);
     try {
       this.saved.emit(await firstValueFrom(this.http.post<ProfileRecord>('/api/profiles', body)));
     } catch (err) {
-      this.serverError.set(errorText(err));
+      // A refusal that names an input goes next to it; anything else under the form.
+      const path = errorField(err)?.replace(/^profile\./, '').split('.') ?? [];
+      const field = path[0] === 'reason' ? 'reason' : fieldOfPath(path);
+      if (field) {
+        this.form.controls[field].setErrors({ problem: errorText(err) });
+        this.form.controls[field].markAsTouched();
+      } else {
+        this.serverError.set(errorText(err));
+      }
     } finally {
       this.saving.set(false);
     }

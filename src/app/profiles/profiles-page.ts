@@ -108,9 +108,8 @@ export class ProfilesPage {
   protected afterSave(record: ProfileRecord): void {
     this.editing.set(null);
     this.chosenId.set(record.id);
-    this.notice.set(`Saved ${record.name} v${record.version}${record.active ? ' and made it the active profile' : ''}.`);
+    this.notice.set(`Saved ${record.name} v${record.version} as a draft: it is not active. Activate it when the running gas matches it.`);
     this.list.reload();
-    if (record.active) this.activeProfile.reload();
   }
 
   protected startActivation(): void {
