@@ -90,6 +90,9 @@ export class HandoverWorkflow {
 
   /** Changes the person's additions while a draft; only its author or a lead. */
   async edit(id: number, person: Person, edit: DraftEdit): Promise<Handover> {
+    if (edit.summary === undefined && edit.notes === undefined && edit.openItems === undefined) {
+      throw new HttpError(400, 'Nothing to change: send summary, notes or openItems');
+    }
     await this.db.transaction(async (tx) => {
       const row = await this.row(tx, id, true);
       this.mayChange(row, person);

@@ -104,6 +104,7 @@ describe('shift handover', () => {
     expect((await handover('operator', 'PUT', `/${first.id}`, { openItems: [{ text: '' }] })).status).toBe(400);
     expect((await handover('operator', 'PUT', `/${first.id}`, { notes: { weather: 'fine' } })).status).toBe(400);
     expect((await handover('operator', 'PUT', `/${first.id}`, { summary: 'a\u0000b' })).status).toBe(400);
+    expect(await handover('operator', 'PUT', `/${first.id}`, {})).toMatchObject({ status: 400, body: { error: expect.stringMatching(/Nothing to change/) } });
     expect(await handover('lead', 'POST', `/${first.id}/accept`, {})).toMatchObject({ status: 409, body: { error: expect.stringMatching(/still a draft/) } });
   });
 
