@@ -19,7 +19,8 @@ import { checkListenSlots, listenSlots } from './start-checks/listen-check.js';
 import { openDatabase } from './db/database.js';
 import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
 import { CalibrationCache } from './field/calibration-cache.js';
-import { healthHandlers, type HealthReport } from './health/health-route.js';
+import { EventLoopWatch } from './health/event-loop-watch.js';
+import { healthHandlers, healthProblems, type HealthReport } from './health/health-route.js';
 import { createApp } from './http/app.js';
 import { FrameGate, type AdmittedMessage } from './ingest/frame-gate.js';
 import { startSupervision } from './interlock/start-supervision.js';
@@ -32,6 +33,7 @@ import { handoverHandlers } from './handover/handover-routes.js';
 import { HandoverWorkflow } from './handover/handover-workflow.js';
 import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
 import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
+import { CriticalCache } from './prediction/critical-cache.js';
 import { PredictionEngine } from './prediction/prediction-engine.js';
 import { PredictionHistoryRing } from './prediction/prediction-history.js';
 import { predictionHandlers } from './prediction/prediction-routes.js';
@@ -40,8 +42,8 @@ import { seedDemoProfile } from './profiles/profile-repository.js';
 import { profileHandlers } from './profiles/profile-routes.js';
 import { projectRoot } from './project-root.js';
 import { seriesHandlers } from './series/series-routes.js';
-import { RetentionTask } from './storage/retention.js';
 import { RollupAccumulator } from './storage/rollup-accumulator.js';
+import { startSteering } from './steering/start-steering.js';
 import { TelemetryWriter } from './storage/telemetry-writer.js';
 
 export interface StartOptions {
@@ -121,11 +123,15 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const calibrations = new CalibrationCache(db);
     await calibrations.reload();
 
-    const retention = new RetentionTask(db, config.retention, (error) => log.error({ err: error }, 'pruning old telemetry failed'));
-    closers.push(() => retention.close());
     const rollups = new RollupAccumulator();
-    const writer = new TelemetryWriter(db, rollups, { onError: (error) => log.error({ err: error }, 'storing telemetry failed') });
+    // Telemetry lives in the storage worker thread (its own database connection, retention included).
+    const writer = new TelemetryWriter(config, rollups, {
+      onError: (error) => log.error({ err: error }, 'storing telemetry failed'),
+      onOutageChange: (outage, error) =>
+        outage ? log.error({ err: error }, 'the database does not take telemetry writes; queuing them') : log.info('the database takes telemetry writes again'),
+    });
     closers.push(() => writer.close());
+    await writer.ready();
 
     let broker: RunningBroker | null = null;
     let brokerCredentials: BrokerCredentials | null = null;
@@ -151,7 +157,8 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout);
     closers.push(() => fanout.close());
     // Closed after ingest stops and before the fan-out it publishes to.
-    const engine = new PredictionEngine({ log });
+    const criticalCache = new CriticalCache();
+    const engine = new PredictionEngine({ log, criticalCache });
     closers.push(() => engine.close());
     const history = new PredictionHistoryRing();
     const prediction = new LivePredictionFeed({ engine, live, history, fanout });
@@ -159,8 +166,10 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     await profiles.reload();
     const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout, prediction });
     const gate = new FrameGate();
+    const steering = await startSteering({ db, live, calibrations, prediction, criticalCache, log });
+    closers.push(() => steering.close());
     // Alarms and the software interlock evaluate each message after the pipeline applied it.
-    const supervision = await startSupervision({ db, live, sink: fanout, config, log, databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined });
+    const supervision = await startSupervision({ db, live, sink: fanout, config, log, databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined, steering: steering.context });
     closers.push(() => supervision.close());
     const deliver = (message: AdmittedMessage) => {
       pipeline.handle(message);
@@ -170,21 +179,36 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     closers.push(() => ingest.close());
     supervision.supervisor.attach(ingest);
     supervision.supervisor.start();
+    steering.connect({ link: ingest, interlock: supervision.interlock, alarmLimits: () => supervision.book.limits(), levels: () => supervision.levels.inForce() });
 
+    const eventLoop = new EventLoopWatch();
+    closers.push(() => eventLoop.close());
     const report = (): HealthReport => {
       const fanoutCounters = fanout.counters();
+      const frames = { ...gate.counters(), deliveryErrors: ingest.deliveryErrors() };
+      const storage = writer.counters();
       const databaseHealth = database.health?.report() ?? null;
+      const problems = healthProblems({
+        nowMs: Date.now(),
+        frames,
+        lastRejectedAtMs: gate.lastRejectedAtMs(),
+        lastDeliveryErrorAtMs: ingest.lastDeliveryErrorAtMs(),
+        storage,
+        database: databaseHealth,
+      });
       return {
-        status: databaseHealth?.state === 'unreachable' ? 'degraded' : 'ok',
+        status: problems.length === 0 ? 'ok' : 'degraded',
+        problems,
         uptimeS: Math.round((performance.now() - startedAt) / 1000),
-        frames: gate.counters(),
+        frames,
         clients: fanoutCounters.clients,
         broker: broker?.counters() ?? null,
         db: database.kind,
         database: databaseHealth,
         mqttConnected: ingest.connected(),
         fanout: fanoutCounters,
-        storage: writer.counters(),
+        storage,
+        eventLoop: eventLoop.report(),
       };
     };
     const app = createApp({
@@ -192,11 +216,12 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...healthHandlers(report),
         ...authHandlers(new LoginUseCase(db, tokens), config.loginAttemptsPerMinute),
         ...liveHandlers(live),
-        ...seriesHandlers(db, calibrations, writer),
+        ...seriesHandlers(calibrations, writer),
         ...calibrationHandlers(db),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),
         ...supervision.handlers,
+        ...steering.handlers,
         ...logbookHandlers({ db, targets: { db, alarmIds: () => supervision.book.limits().map((l) => l.id) } }),
         ...handoverHandlers({
           workflow: new HandoverWorkflow({ db, live, book: supervision.book, interlock: supervision.interlock, flush: () => supervision.flushRecords() }),

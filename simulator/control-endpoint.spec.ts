@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { startControlEndpoint, type ControlEndpoint } from './control-endpoint.js';
-import { DEMO_PARAMETERS } from './parameters.js';
+import { DEMO_PARAMETERS } from '../shared/apparatus/coil-data.js';
 import { Simulation } from './simulation.js';
 
 let sim: Simulation;

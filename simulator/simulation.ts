@@ -1,5 +1,6 @@
+import { adcReading } from '../shared/telemetry/adc.js';
 import type { ControllerStatus, FastFrame, SlowFrame } from '../shared/telemetry/messages.js';
-import type { ControllerParameters } from './parameters.js';
+import type { ControllerParameters } from '../shared/apparatus/coil-data.js';
 import { Plant } from './plant.js';
 import { SetpointSource } from './setpoint-source.js';
 
@@ -77,12 +78,13 @@ export class Simulation {
         this.nextSlowMs += SLOW_PERIOD_MS;
       }
       const reading = this.plant.measureFast();
-      fast.currentA.x[i] = reading.currentA.x;
-      fast.currentA.y[i] = reading.currentA.y;
-      fast.currentA.z[i] = reading.currentA.z;
-      fast.voltageV.x[i] = reading.voltageV.x;
-      fast.voltageV.y[i] = reading.voltageV.y;
-      fast.voltageV.z[i] = reading.voltageV.z;
+      const { currentA, voltageV } = this.opts.params.adc;
+      fast.currentA.x[i] = adcReading(currentA, reading.currentA.x);
+      fast.currentA.y[i] = adcReading(currentA, reading.currentA.y);
+      fast.currentA.z[i] = adcReading(currentA, reading.currentA.z);
+      fast.voltageV.x[i] = adcReading(voltageV, reading.voltageV.x);
+      fast.voltageV.y[i] = adcReading(voltageV, reading.voltageV.y);
+      fast.voltageV.z[i] = adcReading(voltageV, reading.voltageV.z);
       this.plant.advance(setpointA);
     }
     return { fast, slow };

@@ -31,6 +31,22 @@ function requestError(fn: () => unknown): AlarmRequestError {
 }
 
 describe('AlarmBook', () => {
+  it('changes its revision on transitions and operator actions, not on new values alone', () => {
+    const { book, at } = demoBook();
+    at(0, calm);
+    const quiet = book.revision();
+    at(100, { ...calm, 'current.x': 8.5 });
+    expect(book.revision()).toBe(quiet);
+    at(300, { ...calm, 'current.x': 18.5 });
+    at(500, { ...calm, 'current.x': 18.6 });
+    const raised = book.revision();
+    expect(raised).not.toBe(quiet);
+    at(600, { ...calm, 'current.x': 18.7 });
+    expect(book.revision()).toBe(raised);
+    book.acknowledge('current.x.H', OPERATOR);
+    expect(book.revision()).not.toBe(raised);
+  });
+
   it('evaluates each alarm against the value of its own channel', () => {
     const { at } = demoBook();
     at(0, calm);

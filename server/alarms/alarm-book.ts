@@ -62,6 +62,7 @@ export class AlarmBook {
   private readonly alarms = new Map<string, AlarmStateMachine>();
   private readonly grouper: FirstOutGrouper;
   private readonly clock: () => number;
+  private changes = 0;
   readonly maxShelveMinutes: number;
 
   /** @param limits validated limits (see `parseAlarmLimits`); ids must be unique. */
@@ -94,12 +95,22 @@ export class AlarmBook {
         events.push(event);
       }
     }
+    this.changes += events.length;
     return events;
+  }
+
+  /**
+   * A number that changes whenever an alarm changes state, grouping or definition (every
+   * transition is an event), not on mere value changes: lets a caller tell in constant time
+   * whether the active list has news.
+   */
+  revision(): number {
+    return this.changes;
   }
 
   /** Acknowledges an alarm; null when it had nothing to acknowledge. */
   acknowledge(id: string, actor: string): AlarmEvent | null {
-    return this.get(id).acknowledge(checkActor(actor), this.clock());
+    return this.counted(this.get(id).acknowledge(checkActor(actor), this.clock()));
   }
 
   /** Shelves an alarm for `minutes` (0 < minutes ≤ `maxShelveMinutes`) with a required reason. */
@@ -111,26 +122,28 @@ export class AlarmBook {
         `minutes must be a number of minutes above 0 and at most ${this.maxShelveMinutes}; got ${JSON.stringify(minutes) ?? String(minutes)}`,
       );
     }
-    return alarm.shelve(checkActor(actor), minutes, checkReason(reason, 'shelving'), this.clock());
+    return this.counted(alarm.shelve(checkActor(actor), minutes, checkReason(reason, 'shelving'), this.clock()));
   }
 
   /** Ends shelving before its time. */
   unshelve(id: string, actor: string, reason?: unknown): AlarmEvent | null {
     const alarm = this.get(id);
     const why = typeof reason === 'string' && reason.trim() !== '' ? checkReason(reason, 'unshelving') : undefined;
-    return alarm.unshelve(checkActor(actor), this.clock(), why);
+    return this.counted(alarm.unshelve(checkActor(actor), this.clock(), why));
   }
 
   /** Takes an alarm out of service (`on`) or returns it to service; a reason is required. */
   setOutOfService(id: string, actor: string, reason: unknown, on: boolean): AlarmEvent | null {
     const alarm = this.get(id);
-    return alarm.setOutOfService(checkActor(actor), checkReason(reason, on ? 'taking an alarm out of service' : 'returning an alarm to service'), on, this.clock());
+    return this.counted(
+      alarm.setOutOfService(checkActor(actor), checkReason(reason, on ? 'taking an alarm out of service' : 'returning an alarm to service'), on, this.clock()),
+    );
   }
 
   /** Resets a latched alarm whose condition has cleared; a reason is required. */
   resetLatched(id: string, actor: string, reason: unknown): AlarmEvent | null {
     const alarm = this.get(id);
-    return alarm.resetLatched(checkActor(actor), checkReason(reason, 'a reset'), this.clock());
+    return this.counted(alarm.resetLatched(checkActor(actor), checkReason(reason, 'a reset'), this.clock()));
   }
 
   /**
@@ -151,6 +164,7 @@ export class AlarmBook {
       throw new AlarmRequestError('invalid', (err as Error).message);
     }
     alarm.redefine(next);
+    this.changes++;
     return previous;
   }
 
@@ -202,6 +216,11 @@ export class AlarmBook {
       out.push(item);
     }
     return out.sort((a, b) => PRIORITY_RANK[a.priority] - PRIORITY_RANK[b.priority] || a.raisedAt - b.raisedAt);
+  }
+
+  private counted(event: AlarmEvent | null): AlarmEvent | null {
+    if (event) this.changes++;
+    return event;
   }
 
   private get(id: string): AlarmStateMachine {

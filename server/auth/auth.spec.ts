@@ -65,6 +65,20 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   'handovers.accept': { path: '/api/handovers/999999/accept', body: {}, allowedStatus: 404 },
   'handover-items.close': { path: '/api/handover-items/999999/close', body: { note: 'route access check' }, allowedStatus: 404 },
   'admin.outbox': {},
+  'steering.status': {},
+  // No controller runs here: the pre-flight answers with failed checks, a target is refused with them.
+  'steering.preflight': { body: { magnitudeG: 5, thetaDeg: 30, phiDeg: 0, rampMs: 2000, reason: 'route access check' } },
+  'steering.target': { body: { magnitudeG: 5, thetaDeg: 30, phiDeg: 0, rampMs: 2000, reason: 'route access check' }, allowedStatus: 422 },
+  'steering.abort': { body: { reason: 'route access check' }, allowedStatus: 409 },
+  'steering.release': { body: { reason: 'route access check' }, allowedStatus: 409 },
+  'sequences.list': {},
+  'sequences.save': { body: { name: 'Access check', steps: [{ kind: 'hold', durationMs: 1000 }, { kind: 'shot', label: 'one' }], reason: 'route access check' } },
+  'sequences.preview': { body: { steps: [{ kind: 'ramp', magnitudeG: 5, thetaDeg: 30, phiDeg: 0, durationMs: 3000 }] } },
+  // No controller runs here: the pre-flight of the demo sequence fails.
+  'sequences.run': { path: '/api/sequences/1/run', body: { reason: 'route access check' }, allowedStatus: 422 },
+  'runs.list': {},
+  'runs.get': { path: '/api/runs/999', allowedStatus: 404 },
+  'runs.abort': { path: '/api/runs/999/abort', body: { reason: 'route access check' }, allowedStatus: 404 },
 };
 
 describe('sign-in and roles', () => {

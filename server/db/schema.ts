@@ -3,8 +3,11 @@
  * Migrations in drizzle/ are generated from this file with `npm run db:generate`.
  *
  * Telemetry is stored for kHz rates: one `fast_batches` row holds a contiguous run of frames
- * (about 0.5 s of 1 kHz samples per channel, as little-endian float32 in bytea), never a row
- * per sample; `rollups_1s` keeps per-second statistics for long windows.
+ * (about 0.5 s of 1 kHz samples per channel, as compressed converter codes in bytea: see
+ * server/storage/sample-codec.ts), never a row per sample; `rollups_1s` keeps per-second
+ * statistics for long windows. The telemetry tables are written by the storage worker
+ * thread; with PGlite they live in their own cluster (`telemetry/` in the data folder), so
+ * they carry no foreign keys into the other tables.
  */
 import { sql } from 'drizzle-orm';
 import {
@@ -19,6 +22,7 @@ import {
   pgTable,
   real,
   serial,
+  smallint,
   text,
   type AnyPgColumn,
   timestamp,
@@ -31,13 +35,14 @@ import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
+import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
 import type { AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
 import type { ConditionStatus } from '../interlock/trip-conditions.js';
 
-/** Packed little-endian float32 samples (see server/storage/sample-codec.ts). */
-const float32Samples = customType<{ data: Uint8Array; driverData: Uint8Array }>({
+/** Compressed converter codes of the six fast channels (see server/storage/sample-codec.ts). */
+const sampleBlob = customType<{ data: Uint8Array; driverData: Uint8Array }>({
   dataType: () => 'bytea',
 });
 
@@ -110,14 +115,12 @@ export const fastBatches = pgTable(
     seqLast: bigint('seq_last', { mode: 'number' }).notNull(),
     rateHz: doublePrecision('rate_hz').notNull(),
     sampleCount: integer('sample_count').notNull(),
-    /** Calibration in force when the batch arrived. */
-    calibrationId: integer('calibration_id').references(() => calibrations.id),
-    currentX: float32Samples('current_x').notNull(),
-    currentY: float32Samples('current_y').notNull(),
-    currentZ: float32Samples('current_z').notNull(),
-    voltageX: float32Samples('voltage_x').notNull(),
-    voltageY: float32Samples('voltage_y').notNull(),
-    voltageZ: float32Samples('voltage_z').notNull(),
+    /** Calibration in force when the batch arrived (`calibrations.id`; no foreign key, see above). */
+    calibrationId: integer('calibration_id'),
+    /** How `samples` is encoded (server/storage/sample-codec.ts `SAMPLE_CODEC`). */
+    codec: smallint('codec').notNull(),
+    /** Currents x, y, z (A) and voltages x, y, z (V), `sample_count` each. */
+    samples: sampleBlob('samples').notNull(),
     /** Setpoints of the batch's last frame, A. */
     setpointX: real('setpoint_x').notNull(),
     setpointY: real('setpoint_y').notNull(),
@@ -267,6 +270,51 @@ export const interlockTrips = pgTable('interlock_trips', {
   resetReason: text('reset_reason'),
 });
 
+/** Sequences of steering steps, versioned by name; a stored version never changes. */
+export const sequences = pgTable(
+  'sequences',
+  {
+    id: serial('id').primaryKey(),
+    name: text('name').notNull(),
+    version: integer('version').notNull(),
+    steps: jsonb('steps').$type<SequenceStep[]>().notNull(),
+    createdBy: text('created_by').notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    reason: text('reason').notNull(),
+  },
+  (t) => [uniqueIndex('sequences_name_version').on(t.name, t.version)],
+);
+
+/** Runs of a sequence version. */
+export const runs = pgTable('runs', {
+  id: serial('id').primaryKey(),
+  sequenceId: integer('sequence_id').notNull().references(() => sequences.id),
+  state: text('state').$type<RunState>().notNull(),
+  startedAt: timestamp('started_at', { withTimezone: true }).notNull(),
+  endedAt: timestamp('ended_at', { withTimezone: true }),
+  step: integer('step').notNull().default(0),
+  actor: text('actor').notNull(),
+  reason: text('reason').notNull(),
+  endReason: text('end_reason'),
+});
+
+/** Shots of runs: the measured field and the prediction at the moment an image was taken. */
+export const shots = pgTable(
+  'shots',
+  {
+    /** Unique across the lab; written by the imaging analysis next to its images. */
+    id: text('id').primaryKey(),
+    runId: integer('run_id').notNull().references(() => runs.id),
+    stepIndex: integer('step_index').notNull(),
+    label: text('label').notNull(),
+    at: timestamp('at', { withTimezone: true }).notNull(),
+    field: jsonb('field').$type<ShotRecord['field']>().notNull(),
+    prediction: jsonb('prediction').$type<ShotPrediction>(),
+    profileId: integer('profile_id'),
+  },
+  (t) => [index('shots_run').on(t.runId)],
+);
+
 /** PostgreSQL text-search document (written by the database, never by the application). */
 const tsvector = customType<{ data: string }>({ dataType: () => 'tsvector' });
 const bytea = customType<{ data: Uint8Array; driverData: Uint8Array }>({ dataType: () => 'bytea' });
@@ -372,6 +420,9 @@ export const schema = {
   levelSets,
   alarmEvents,
   interlockTrips,
+  sequences,
+  runs,
+  shots,
   logbookEntries,
   logbookAttachments,
   handovers,

@@ -5,13 +5,27 @@ import type { FanoutCounters } from '../fanout/live-fanout.js';
 import type { IngestCounters } from '../ingest/frame-gate.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import type { WriterCounters } from '../storage/telemetry-writer.js';
+import type { EventLoopReport } from './event-loop-watch.js';
+
+/** Frames refused or failing within this window (ms) make the status `degraded`. */
+export const FAILING_WINDOW_MS = 10_000;
+
+/** Telemetry counters of `/api/health`: the frame gate's, plus the pipeline's delivery errors. */
+export interface FrameHealth extends IngestCounters {
+  /** Admitted messages on which the pipeline threw (each logged; ingest goes on). */
+  deliveryErrors: number;
+}
 
 /** Body of `GET /api/health`. */
 export interface HealthReport {
-  /** `degraded` while a part the server needs is failing (the PostgreSQL server unreachable). */
+  /**
+   * `degraded` while a part the server needs is failing: the PostgreSQL server unreachable, the
+   * database not taking telemetry, frames refused or failing; `problems` says what.
+   */
   status: 'ok' | 'degraded';
+  problems: string[];
   uptimeS: number;
-  frames: IngestCounters;
+  frames: FrameHealth;
   clients: number;
   broker: BrokerCounters | null;
   db: DbKind;
@@ -20,6 +34,36 @@ export interface HealthReport {
   mqttConnected: boolean;
   fanout: FanoutCounters;
   storage: WriterCounters;
+  eventLoop: EventLoopReport;
+}
+
+/** What the status is judged on; times are server epoch ms. */
+export interface HealthInputs {
+  nowMs: number;
+  frames: FrameHealth;
+  lastRejectedAtMs: number | null;
+  lastDeliveryErrorAtMs: number | null;
+  storage: WriterCounters;
+  database: DatabaseHealthReport | null;
+}
+
+/** Why the server is not fully well, in words for an operator; empty when it is. */
+export function healthProblems(h: HealthInputs): string[] {
+  const problems: string[] = [];
+  const recent = (at: number | null) => at !== null && h.nowMs - at <= FAILING_WINDOW_MS;
+  if (h.database?.state === 'unreachable') {
+    problems.push(`the PostgreSQL server is unreachable since ${h.database.since}: ${h.database.lastError}`);
+  }
+  if (recent(h.lastRejectedAtMs)) {
+    problems.push(`telemetry refused at the edge within the last ${FAILING_WINDOW_MS / 1000} s (newest reason: ${h.frames.lastRejectReason})`);
+  }
+  if (recent(h.lastDeliveryErrorAtMs)) {
+    problems.push(`the pipeline failed on admitted telemetry within the last ${FAILING_WINDOW_MS / 1000} s (${h.frames.deliveryErrors} in all)`);
+  }
+  if (h.storage.outage) {
+    problems.push(`the database has not taken telemetry writes since ${h.storage.failingSince} (${h.storage.pendingFrames} frames queued): ${h.storage.lastError}`);
+  }
+  return problems;
 }
 
 /** `GET /api/health` (public): liveness plus the pipeline's counters. */

@@ -2,6 +2,7 @@ import type { MqttClient } from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { LiveState, SeriesChunk } from '../../shared/live/live-state.js';
 import { MAX_PAYLOAD_BYTES } from '../../shared/telemetry/messages.js';
+import { adcStep, CURRENT_ADC } from '../../shared/telemetry/adc.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import type { RunningServer } from '../server.js';
 import { fastFrame } from '../testing/frames.js';
@@ -48,7 +49,7 @@ describe('ingest over MQTT', () => {
 
   it('refuses and counts each kind of malformed frame, and stores none of them', async () => {
     const before = server.counters().frames;
-    const bad = { x: 99, y: 99, z: 99 };
+    const bad = { x: 9, y: 9, z: 9 };
     const now = Date.now();
     await publishAll([good()]);
     await publishAll([
@@ -60,6 +61,7 @@ describe('ingest over MQTT', () => {
       JSON.stringify(fastFrame(seq, now, bad)),
       JSON.stringify(fastFrame(seq - 1, now, bad)),
       JSON.stringify(fastFrame(seq + 1, now + 2 * 3600_000, bad)),
+      JSON.stringify(fastFrame(seq + 1, now, { x: 99, y: 9, z: 9 })),
     ]);
     await publishAll([good()]);
 
@@ -74,11 +76,16 @@ describe('ingest over MQTT', () => {
       'length-mismatch': delta('length-mismatch'),
       'out-of-order': delta('out-of-order'),
       'clock-skew': delta('clock-skew'),
-    }).toEqual({ oversized: 1, 'malformed-json': 1, 'non-finite': 1, schema: 1, 'length-mismatch': 1, 'out-of-order': 2, 'clock-skew': 1 });
+      'out-of-range': delta('out-of-range'),
+    }).toEqual({ oversized: 1, 'malformed-json': 1, 'non-finite': 1, schema: 1, 'length-mismatch': 1, 'out-of-order': 2, 'clock-skew': 1, 'out-of-range': 1 });
+    const health = (await (await fetch(`${server.url}/api/health`)).json()) as { status: string; problems: string[] };
+    expect(health.status).toBe('degraded');
+    expect(health.problems[0]).toMatch(/refused at the edge/);
 
     const { series } = await get<{ series: SeriesChunk }>('/api/series?seconds=120');
     expect(series.t.length).toBeGreaterThan(0);
-    expect(new Set(series.currentA.x)).toEqual(new Set([GOOD.x]));
+    // Stored at the converter's resolution: every value within half a step of what was sent.
+    expect(Math.max(...series.currentA.x.map((v) => Math.abs(v - GOOD.x)))).toBeLessThanOrEqual(adcStep(CURRENT_ADC) / 2);
   });
 
   it('survives a burst of thousands of malformed frames mixed with good ones and counts them right', async () => {

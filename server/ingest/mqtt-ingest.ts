@@ -23,6 +23,8 @@ export interface RunningIngest {
   connected(): boolean;
   /** Exceptions thrown by `deliver` (each logged; the message is dropped, ingest goes on). */
   deliveryErrors(): number;
+  /** Server time of the newest delivery error, epoch ms; null before the first. */
+  lastDeliveryErrorAtMs(): number | null;
   /**
    * Publishes a command (trip, release, setpoints) with the server account. Returns at once:
    * the client writes it now when connected, or queues it until it reconnects.
@@ -47,6 +49,7 @@ export async function startIngest(opts: IngestOptions): Promise<RunningIngest> {
     connectTimeout: 5000,
   });
   let deliveryErrors = 0;
+  let lastDeliveryErrorAtMs: number | null = null;
   // Commands (a trip above all) must leave at once, not wait behind Nagle's algorithm for the
   // acknowledgement of the previous segment (tens of milliseconds on loopback).
   client.on('connect', () => (client.stream as { setNoDelay?: (noDelay: boolean) => void }).setNoDelay?.(true));
@@ -58,6 +61,7 @@ export async function startIngest(opts: IngestOptions): Promise<RunningIngest> {
       opts.deliver(message);
     } catch (error) {
       deliveryErrors++;
+      lastDeliveryErrorAtMs = Date.now();
       opts.log.error({ err: error, topic }, 'telemetry pipeline failed on an admitted message');
     }
   });
@@ -76,6 +80,7 @@ export async function startIngest(opts: IngestOptions): Promise<RunningIngest> {
   return {
     connected: () => client.connected,
     deliveryErrors: () => deliveryErrors,
+    lastDeliveryErrorAtMs: () => lastDeliveryErrorAtMs,
     publish: (topic, payload, qos) => {
       client.publish(topic, payload, { qos }, (error) => {
         if (error) opts.log.error({ err: error, topic }, 'publishing a command failed');

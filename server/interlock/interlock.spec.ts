@@ -32,6 +32,22 @@ function armed(): Interlock {
   return interlock;
 }
 
+describe('Interlock: revision', () => {
+  it('changes when a condition starts or stops holding and on the trip, not on new values alone', () => {
+    const interlock = armed();
+    const quiet = interlock.revision();
+    interlock.evaluate(inputs(T0 + 20, { 'current.x': 9 }), T0 + 20);
+    expect(interlock.revision()).toBe(quiet);
+    interlock.evaluate(inputs(T0 + 40, { 'current.x': 20.5 }), T0 + 40);
+    const tripped = interlock.revision();
+    expect(tripped).not.toBe(quiet);
+    interlock.evaluate(inputs(T0 + 60, { 'current.x': 20.7 }), T0 + 60);
+    expect(interlock.revision()).toBe(tripped);
+    interlock.evaluate(inputs(T0 + 80), T0 + 80);
+    expect(interlock.revision()).not.toBe(tripped);
+  });
+});
+
 describe('Interlock: trip conditions', () => {
   const channelCases: [string, ChannelValues][] = [
     ['over-current-x', { 'current.x': 20.5 }],

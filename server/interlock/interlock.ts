@@ -71,10 +71,14 @@ export class Interlock {
   private inputs: InterlockInputs | null = null;
   private trip: TripRecord | null = null;
   private lastReset: ResetRecord | null = null;
+  /** Which conditions held at the last evaluation, one flag per condition. */
+  private readonly holding: boolean[];
+  private changes = 0;
 
   constructor(private settings: InterlockConfig = DEMO_INTERLOCK_CONFIG) {
     this.defs = tripConditions(settings);
     this.values = this.defs.map(() => null);
+    this.holding = this.defs.map(() => false);
     this.frameLoss = new FrameLossWindow(settings.lostFrameWindowMs);
   }
 
@@ -89,6 +93,7 @@ export class Interlock {
   retune(trips: Pick<InterlockConfig, 'currentTripA' | 'temperatureTripC' | 'flowTripLpm'>): void {
     this.settings = { ...this.settings, ...trips };
     this.defs = tripConditions(this.settings);
+    this.changes++;
   }
 
   /** Records a fast frame's sequence number, seen at server time `atMs` (Unix epoch ms). */
@@ -109,7 +114,12 @@ export class Interlock {
     for (let i = 0; i < this.defs.length; i++) {
       const value = this.defs[i].measure(inputs, nowMs, lost);
       this.values[i] = value;
-      if (first < 0 && violates(this.defs[i], value)) first = i;
+      const holds = violates(this.defs[i], value);
+      if (holds !== this.holding[i]) {
+        this.holding[i] = holds;
+        this.changes++;
+      }
+      if (first < 0 && holds) first = i;
     }
     if (this.trip || first < 0) return null;
     const valuesAtTrip = this.conditions();
@@ -120,6 +130,7 @@ export class Interlock {
       valuesAtTrip,
       reason: `Software interlock tripped by ${cause.name}: ${describeCondition(cause)}`.slice(0, MAX_TRIP_REASON_CHARS),
     };
+    this.changes++;
     return this.trip;
   }
 
@@ -131,6 +142,15 @@ export class Interlock {
   restore(trip: TripRecord): void {
     if (this.trip) throw new Error(`the interlock is already tripped (since ${new Date(this.trip.at).toISOString()})`);
     this.trip = trip;
+    this.changes++;
+  }
+
+  /**
+   * A number that changes whenever the latch or the set of holding conditions changes (not on
+   * mere value changes), so a caller can tell in constant time whether there is news to announce.
+   */
+  revision(): number {
+    return this.changes;
   }
 
   /** Every condition as of the last evaluation. */
@@ -176,6 +196,7 @@ export class Interlock {
     const record: ResetRecord = { at: nowMs, actor, reason: why, trip: this.trip };
     this.trip = null;
     this.lastReset = record;
+    this.changes++;
     return { ok: true, reset: record };
   }
 }

@@ -8,6 +8,7 @@
  */
 import type { Logger } from 'pino';
 import type { AlarmsMessage } from '../../shared/alarms/alarm-api.js';
+import type { Vec3 } from '../../shared/field/field-vector.js';
 import type { PerAxis } from '../../shared/live/live-state.js';
 import { AXES, type FastFrame, type ReleaseCommand, type TripCommand } from '../../shared/telemetry/messages.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
@@ -27,6 +28,11 @@ export interface CommandLink {
   publish(topic: string, payload: string, qos: 0 | 1): void;
 }
 
+/** What steering tells the alarms at a moment: the target direction (trap frame) and whether a ramp is programmed. */
+export interface SteeringContext {
+  alarmContext(nowMs: number): { targetDirection: Vec3 | null; rampProgrammed: boolean };
+}
+
 /** Where changes of the interlock state and the active alarm list go (the WebSocket fan-out). */
 export interface AlarmsSink {
   publishAlarms(message: AlarmsMessage): void;
@@ -44,6 +50,8 @@ export interface SupervisorDeps {
   extras?: () => ChannelExtras;
   /** Server clock, Unix epoch ms (default `Date.now`). */
   now?: () => number;
+  /** The target in force and whether a ramp is programmed (steering); none when absent. */
+  steering?: SteeringContext;
   /** Period of the timer evaluation, ms (default 20: silence is seen within the stale limit + 20 ms). */
   tickMs?: number;
 }
@@ -108,7 +116,8 @@ export class Supervisor {
     const { live, interlock, book, records, notifier, log } = this.deps;
     try {
       const state = live.snapshot();
-      const values = channelValues(state, nowMs, this.deps.extras?.());
+      const steering = this.deps.steering?.alarmContext(nowMs) ?? { targetDirection: null, rampProgrammed: false };
+      const values = channelValues(state, nowMs, { ...this.deps.extras?.(), targetDirection: steering.targetDirection });
       if (this.peakCurrent && state.currents) {
         for (const axis of AXES) values[`current.${axis}`] = this.peakCurrent[axis];
       }
@@ -118,8 +127,7 @@ export class Supervisor {
       if (values.stale !== undefined) values.stale = Math.max(0, values.stale - this.pausedMs);
       const trip = interlock.evaluate(inputs, nowMs);
       if (trip) this.sendTrip(trip.reason, nowMs);
-      // Steering (programmed ramps) arrives later; until then no ramp suppresses an alarm.
-      const events = book.evaluate(values, nowMs, { rampProgrammed: false });
+      const events = book.evaluate(values, nowMs, { rampProgrammed: steering.rampProgrammed });
       if (trip) {
         log.warn({ firstOut: trip.firstOut }, 'software interlock tripped');
         records.addTrip(trip);
@@ -162,21 +170,17 @@ export class Supervisor {
     };
   }
 
-  /** Sends the `alarms` message when the interlock state or the active alarm list changed. */
+  /**
+   * Sends the `alarms` message when the interlock state or the active alarm list changed. The
+   * check costs the same however many alarms and clients there are: the interlock and the
+   * alarm book count their changes, so the message is built only when there is news.
+   */
   announce(): void {
-    const message = this.alarmsMessage();
-    const { interlock, active } = message;
-    const key = JSON.stringify([
-      interlock.state,
-      interlock.firstOut?.at,
-      interlock.hardwareTripped,
-      interlock.hardwareTripCause,
-      interlock.conditions.filter((c) => c.active).map((c) => c.name),
-      active.map((a) => [a.id, a.state, a.firstOutOf]),
-    ]);
+    const { controller } = this.deps.live.snapshot();
+    const key = `${this.deps.interlock.revision()}/${this.deps.book.revision()}/${controller.hardwareTripped}/${controller.hardwareTripCause}`;
     if (key === this.announcedKey) return;
     this.announcedKey = key;
-    this.deps.sink.publishAlarms(message);
+    this.deps.sink.publishAlarms(this.alarmsMessage());
   }
 
   /** Stops the timer. */

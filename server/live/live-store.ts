@@ -31,7 +31,6 @@ export class LiveStore {
     prediction: null,
   };
   private newestSampleMs = -Infinity;
-  private cached: LiveState | null = null;
 
   /**
    * Takes a fast frame: mean currents (A) and voltages (V) of the frame, the field of the mean
@@ -81,15 +80,17 @@ export class LiveStore {
     this.update({ prediction });
   }
 
-  /** The current state; the same object until the next update, so callers must not change it. */
+  /**
+   * The current state, never copied: every update replaces the top-level object and the parts
+   * it changes with new objects, so a snapshot taken earlier stays as it was. Callers must not
+   * change it.
+   */
   snapshot(): LiveState {
-    this.cached ??= structuredClone(this.state);
-    return this.cached;
+    return this.state;
   }
 
   private update(patch: Partial<LiveState>): void {
     this.state = { ...this.state, ...patch };
-    this.cached = null;
   }
 }
 

@@ -1,7 +1,7 @@
 import { z } from 'zod';
-import type { Db } from '../db/database.js';
 import type { CalibrationCache } from '../field/calibration-cache.js';
 import type { RouteHandlers } from '../http/route-table.js';
+import { HttpError } from '../http/http-error.js';
 import { parseInput } from '../http/validate.js';
 import type { TelemetryWriter } from '../storage/telemetry-writer.js';
 import { querySeries } from './series-query.js';
@@ -15,14 +15,18 @@ const SeriesRequest = z.object({
 });
 
 /** `GET /api/series?seconds=N` → `{ series, slow }` for the last N seconds (1…86400). */
-export function seriesHandlers(db: Db, calibrations: CalibrationCache, writer: TelemetryWriter): Pick<RouteHandlers, 'series'> {
+export function seriesHandlers(calibrations: CalibrationCache, writer: TelemetryWriter): Pick<RouteHandlers, 'series'> {
   return {
     series: async (req, res) => {
       const { seconds } = parseInput(SeriesRequest, req.query, 'query');
       // Frames still queued for the next flush belong in the answer too.
       await writer.flush();
       const toMs = Date.now();
-      res.json(await querySeries(db, calibrations, toMs - seconds * 1000, toMs));
+      try {
+        res.json(await querySeries(writer, calibrations, toMs - seconds * 1000, toMs));
+      } catch (error) {
+        throw new HttpError(503, `Stored telemetry cannot be read right now (${(error as Error).message}); live data goes on. Try again shortly.`);
+      }
     },
   };
 }

@@ -3,7 +3,7 @@ import { openDatabase, type OpenDatabase } from '../db/database.js';
 import { fastBatches, rollups1s, slowSamples } from '../db/schema.js';
 import { makeDataDir, removeDataDir } from '../testing/test-server.js';
 import { pruneTelemetry } from './retention.js';
-import { encodeSamples } from './sample-codec.js';
+import { encodeSamples, SAMPLE_CODEC } from './sample-codec.js';
 
 const HOUR = 3600_000;
 const NOW = Date.UTC(2026, 5, 1);
@@ -22,7 +22,7 @@ describe('telemetry retention', () => {
   });
 
   const batch = (t0Ms: number) => {
-    const samples = encodeSamples([1, 2]);
+    const samples = encodeSamples([0, 1, 2, 3, 4, 5].map((c) => [c, c + 0.5]));
     return {
       t0Ms,
       t1Ms: t0Ms + 2,
@@ -30,12 +30,8 @@ describe('telemetry retention', () => {
       seqLast: 0,
       rateHz: 1000,
       sampleCount: 2,
-      currentX: samples,
-      currentY: samples,
-      currentZ: samples,
-      voltageX: samples,
-      voltageY: samples,
-      voltageZ: samples,
+      codec: SAMPLE_CODEC,
+      samples,
       setpointX: 0,
       setpointY: 0,
       setpointZ: 0,

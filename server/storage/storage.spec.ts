@@ -6,6 +6,7 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { SeriesChunk, SlowChunk } from '../../shared/live/live-state.js';
+import { adcStep, CURRENT_ADC } from '../../shared/telemetry/adc.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import { projectRoot } from '../project-root.js';
 import type { RunningServer } from '../server.js';
@@ -64,7 +65,8 @@ describe('telemetry storage and the data folder', () => {
     expect(storage.batchesWritten).toBeLessThan(10);
     expect(s.t).toHaveLength(100); // 50 frames × 20 samples in 10 ms blocks (30 s window: full 100 Hz)
     expect(s.t[0]).toBe(runStart + 4.5);
-    expect(new Set(s.currentA.y)).toEqual(new Set([CURRENT.y]));
+    // Stored at the converter's resolution: every value within half a step of what was sent.
+    expect(Math.max(...s.currentA.y.map((v) => Math.abs(v - CURRENT.y)))).toBeLessThanOrEqual(adcStep(CURRENT_ADC) / 2);
     expect(slow.t.length).toBeGreaterThan(0);
     expect(slow.temperatureC.z[0]).toBeCloseTo(23, 5);
   });
@@ -81,7 +83,8 @@ describe('telemetry storage and the data folder', () => {
     const inRun = s.t.filter((t) => t >= start && t < start + 60_000);
     expect(inRun.length).toBeGreaterThanOrEqual(57); // one point per second; the last seconds may still be open
     expect(inRun.every((t) => (t - 500) % 1000 === 0)).toBe(true); // mid-second of each roll-up
-    expect(new Set(s.currentA.x)).toEqual(new Set([CURRENT.x]));
+    // Stored at the converter's resolution: every value within half a step of what was sent.
+    expect(Math.max(...s.currentA.x.map((v) => Math.abs(v - CURRENT.x)))).toBeLessThanOrEqual(adcStep(CURRENT_ADC) / 2);
     expect(slow.t.filter((t) => t >= start && t < start + 60_000).length).toBeGreaterThanOrEqual(57);
     expect(slow.flowLpm.x.every((v) => Math.abs(v - 3.1) < 1e-5)).toBe(true);
   });
@@ -118,7 +121,8 @@ describe('telemetry storage and the data folder', () => {
     try {
       let output = '';
       child.stdout.on('data', (chunk: Buffer) => (output += chunk.toString()));
-      await vi.waitFor(() => expect(output).toMatch(/"msg":"Tiltwatch server started"/), { timeout: 30_000, interval: 50 });
+      // Two PGlite clusters start (the main one and the storage worker's): allow for a busy machine.
+      await vi.waitFor(() => expect(output).toMatch(/"msg":"Tiltwatch server started"/), { timeout: 90_000, interval: 50 });
       const started = JSON.parse(output.split('\n').find((line) => line.includes('Tiltwatch server started'))!) as { url: string; mqtt: string };
       const credentials = JSON.parse(readFileSync(path.join(dir, 'mqtt-credentials.json'), 'utf8')) as { controller: { username: string; password: string } };
       const client = await mqtt.connectAsync(started.mqtt, { protocolVersion: 4, ...credentials.controller, reconnectPeriod: 0 });
@@ -142,5 +146,5 @@ describe('telemetry storage and the data folder', () => {
     controller = await connectController(server);
     const { series: s } = await series(server, 250);
     expect(s.t.filter((t) => t >= runStart + 5000 && t < runStart + 6000)).toHaveLength(20);
-  }, 90_000); // spawns a second server process: slow on a loaded 2-core machine
+  }, 180_000); // spawns a second server process: slow on a loaded 2-core machine
 });

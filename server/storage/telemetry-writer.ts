@@ -1,8 +1,9 @@
+import type { SlowChunk } from '../../shared/live/live-state.js';
 import type { FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
-import type { Db } from '../db/database.js';
-import { fastBatches, rollups1s, slowSamples } from '../db/schema.js';
+import type { ServerConfig } from '../config.js';
 import type { RollupAccumulator } from './rollup-accumulator.js';
-import { encodeSamples } from './sample-codec.js';
+import type { AppendInput, BatchInput, RawCurrents, RollupBlock, StoreState, TelemetryReader } from './storage-protocol.js';
+import { StorageWorker } from './storage-worker-thread.js';
 
 /** A contiguous run of fast frames that becomes one `fast_batches` row. */
 interface OpenBatch {
@@ -11,70 +12,125 @@ interface OpenBatch {
   seqFirst: number;
   seqLast: number;
   calibrationId: number;
-  channels: { cx: number[]; cy: number[]; cz: number[]; vx: number[]; vy: number[]; vz: number[] };
+  channels: [number[], number[], number[], number[], number[], number[]];
   setpoint: { x: number; y: number; z: number };
 }
 
-export interface WriterCounters {
-  /** `fast_batches` rows written. */
-  batchesWritten: number;
-  framesWritten: number;
-  slowWritten: number;
-  rollupsWritten: number;
-  /** Frames dropped because the database fell too far behind (bounded memory). */
-  framesDropped: number;
-  flushErrors: number;
-  /** Samples per channel waiting for the next flush. */
-  pendingSamples: number;
+/**
+ * The writer's state on `/api/health` under `storage`. `framesDropped`, `flushErrors` and
+ * `pendingSamples` are read by tools outside the repository: keep the names.
+ */
+export interface WriterCounters extends StoreState {
+  /**
+   * Longest single piece of storage work done on the event loop (gathering a frame, handing a
+   * flush over), ms of wall-clock time (on a busy machine this includes time the thread was not
+   * scheduled).
+   */
+  eventLoopMaxMs: number;
+  /** Pieces of storage work on the event loop so far, and how many of them took longer than 10 ms. */
+  eventLoopSteps: number;
+  eventLoopStepsOver10Ms: number;
 }
 
 export interface WriterOptions {
-  /** Time between flushes, ms. */
+  /** Time between hand-overs to the storage worker, ms. */
   flushIntervalMs?: number;
-  /** Pending samples per channel beyond which new frames are dropped. */
+  /** Pending samples per channel beyond which new frames are refused (counted in `framesDropped`). */
   maxPendingSamples?: number;
+  /** First pause after a failed write, ms; doubles up to `retryMaxMs`. */
+  retryMinMs?: number;
+  retryMaxMs?: number;
   onError?: (error: Error) => void;
+  /** Called when the database stops taking writes (with the error) and when it takes them again (null). */
+  onOutageChange?: (outage: boolean, error: Error | null) => void;
 }
 
+/** Where the telemetry goes: the data folder (PGlite cluster `telemetry/`) or the PostgreSQL server, and how long it is kept. */
+export type StorageSettings = Pick<ServerConfig, 'dataDir' | 'databaseUrl' | 'retention'>;
+
+const EMPTY_STATE: StoreState = {
+  batchesWritten: 0,
+  framesWritten: 0,
+  slowWritten: 0,
+  rollupsWritten: 0,
+  framesDropped: 0,
+  flushErrors: 0,
+  pendingSamples: 0,
+  pendingFrames: 0,
+  outage: false,
+  failingSince: null,
+  lastError: null,
+};
+
 /**
- * Batched telemetry storage. The pipeline hands frames over synchronously and never waits:
- * frames collect in memory and every `flushIntervalMs` one transaction writes them with one
- * multi-row INSERT per table, together with the roll-up seconds completed meanwhile. Contiguous fast frames (consecutive `seq`, same rate and
- * calibration) are merged into one row. If the database falls behind, memory stays bounded
- * by dropping new frames, which are counted.
+ * Telemetry storage as the event loop sees it. The pipeline hands frames over synchronously
+ * and never waits: contiguous fast frames (consecutive `seq`, same rate and calibration) are
+ * gathered into runs, and every `flushIntervalMs` the runs, the slow frames and the completed
+ * roll-up seconds go to the storage worker thread as transferred arrays. The worker
+ * (storage-worker.ts) encodes, compresses and writes them, keeps them in a bounded queue
+ * through a database outage, and answers the history reads (`TelemetryReader`). Memory stays
+ * bounded by refusing new frames, which are counted.
  */
-export class TelemetryWriter {
+export class TelemetryWriter implements TelemetryReader {
   private batches: OpenBatch[] = [];
   private slow: SlowFrame[] = [];
-  private pendingSamples = 0;
+  private openSamples = 0;
+  private openFrames = 0;
+  /** Handed to the worker, not yet confirmed by its state. */
+  private readonly inTransit = { samples: 0, frames: 0 };
+  private refused = 0;
+  private worker: StoreState = EMPTY_STATE;
+  private readonly loop = { maxMs: 0, steps: 0, over10Ms: 0 };
   private readonly timer: NodeJS.Timeout;
-  private flushing: Promise<void> = Promise.resolve();
   private closed = false;
-  private readonly counts = { batchesWritten: 0, framesWritten: 0, slowWritten: 0, rollupsWritten: 0, framesDropped: 0, flushErrors: 0 };
   private readonly maxPendingSamples: number;
-  private readonly onError: (error: Error) => void;
+  private readonly thread: StorageWorker;
 
-  /** @param rollups completed seconds are taken from here at every flush, all of them at close */
+  /** @param rollups completed seconds are taken from here at every hand-over, all of them at close */
   constructor(
-    private readonly db: Db,
+    settings: StorageSettings,
     private readonly rollups: RollupAccumulator,
     opts: WriterOptions = {},
   ) {
     this.maxPendingSamples = opts.maxPendingSamples ?? 600_000;
-    this.onError = opts.onError ?? (() => {});
-    this.timer = setInterval(() => void this.flush(), opts.flushIntervalMs ?? 500);
+    this.thread = new StorageWorker(
+      {
+        dataDir: settings.dataDir,
+        databaseUrl: settings.databaseUrl,
+        retention: settings.retention,
+        maxPendingSamples: this.maxPendingSamples,
+        retryMinMs: opts.retryMinMs,
+        retryMaxMs: opts.retryMaxMs,
+      },
+      {
+        onState: (state) => (this.worker = state),
+        onLog: (level, message, error) => {
+          if (level === 'error') opts.onError?.(new Error(error ? `${message}: ${error}` : message));
+        },
+        onOutage: (outage, error) => opts.onOutageChange?.(outage, error === null ? null : new Error(error)),
+      },
+    );
+    this.timer = setInterval(() => void this.flush().catch(() => undefined), opts.flushIntervalMs ?? 500);
   }
 
-  /** Queues a validated fast frame, stored with the id of the calibration in force. */
+  /** Resolves once the storage worker has opened the telemetry database. */
+  ready(): Promise<void> {
+    return this.thread.ready;
+  }
+
+  /** Gathers a validated fast frame, stored with the id of the calibration in force. */
   addFast(frame: FastFrame, calibrationId: number): void {
+    const started = performance.now();
     const n = frame.currentA.x.length;
-    if (this.closed || this.pendingSamples + n > this.maxPendingSamples) {
-      this.counts.framesDropped++;
+    if (this.closed || this.pending() + n > this.maxPendingSamples) {
+      this.refused++;
       return;
     }
-    this.pendingSamples += n;
+    this.openSamples += n;
+    this.openFrames++;
     const last = this.batches.at(-1);
-    const expectedT0 = last ? last.t0Ms + (last.channels.cx.length * 1000) / last.rateHz : 0;
+    const expectedT0 = last ? last.t0Ms + (last.channels[0].length * 1000) / last.rateHz : 0;
+    const sources = [frame.currentA.x, frame.currentA.y, frame.currentA.z, frame.voltageV.x, frame.voltageV.y, frame.voltageV.z];
     if (
       last &&
       frame.seq === last.seqLast + 1 &&
@@ -82,33 +138,21 @@ export class TelemetryWriter {
       calibrationId === last.calibrationId &&
       Math.abs(frame.t0Ms - expectedT0) < 1000 / frame.rateHz
     ) {
-      const c = last.channels;
-      c.cx.push(...frame.currentA.x);
-      c.cy.push(...frame.currentA.y);
-      c.cz.push(...frame.currentA.z);
-      c.vx.push(...frame.voltageV.x);
-      c.vy.push(...frame.voltageV.y);
-      c.vz.push(...frame.voltageV.z);
+      for (let c = 0; c < 6; c++) last.channels[c].push(...sources[c]);
       last.seqLast = frame.seq;
       last.setpoint = { ...frame.setpointA };
-      return;
+    } else {
+      this.batches.push({
+        t0Ms: frame.t0Ms,
+        rateHz: frame.rateHz,
+        seqFirst: frame.seq,
+        seqLast: frame.seq,
+        calibrationId,
+        channels: [[...sources[0]], [...sources[1]], [...sources[2]], [...sources[3]], [...sources[4]], [...sources[5]]],
+        setpoint: { ...frame.setpointA },
+      });
     }
-    this.batches.push({
-      t0Ms: frame.t0Ms,
-      rateHz: frame.rateHz,
-      seqFirst: frame.seq,
-      seqLast: frame.seq,
-      calibrationId,
-      channels: {
-        cx: [...frame.currentA.x],
-        cy: [...frame.currentA.y],
-        cz: [...frame.currentA.z],
-        vx: [...frame.voltageV.x],
-        vy: [...frame.voltageV.y],
-        vz: [...frame.voltageV.z],
-      },
-      setpoint: { ...frame.setpointA },
-    });
+    this.timed(started);
   }
 
   addSlow(frame: SlowFrame): void {
@@ -117,91 +161,89 @@ export class TelemetryWriter {
   }
 
   counters(): WriterCounters {
-    return { ...this.counts, pendingSamples: this.pendingSamples };
+    return {
+      ...this.worker,
+      framesDropped: this.worker.framesDropped + this.refused,
+      pendingSamples: this.pending(),
+      pendingFrames: this.worker.pendingFrames + this.inTransit.frames + this.openFrames,
+      eventLoopMaxMs: this.loop.maxMs,
+      eventLoopSteps: this.loop.steps,
+      eventLoopStepsOver10Ms: this.loop.over10Ms,
+    };
   }
 
-  /** Writes everything queued so far; resolves when it is committed (or has failed and been counted). */
-  flush(): Promise<void> {
-    this.flushing = this.flushing.then(() => this.writePending());
-    return this.flushing;
+  /**
+   * Hands everything gathered so far to the worker and lets it write what is queued; resolves
+   * when the attempt is over (committed, or failed and counted, the data kept for a retry).
+   */
+  async flush(): Promise<void> {
+    const handedOver = this.handOver();
+    await this.thread.request({ kind: 'flush' });
+    await handedOver;
   }
 
-  /** Stops the timer and writes what is still queued, including the open roll-up seconds. */
+  /** Stops the timer and makes a last attempt, including the open roll-up seconds; what still fails is counted as dropped. */
   async close(): Promise<void> {
     clearInterval(this.timer);
     this.closed = true;
-    await this.flush();
+    await this.handOver();
+    await this.thread.request({ kind: 'close' });
+    await this.thread.terminate();
   }
 
-  private async writePending(): Promise<void> {
-    const batches = this.batches;
-    const slow = this.slow;
+  rawCurrents(fromMs: number, toMs: number, blockMs: number): Promise<RawCurrents> {
+    return this.thread.request({ kind: 'raw', fromMs, toMs, blockMs });
+  }
+
+  slowRows(fromMs: number, toMs: number): Promise<SlowChunk> {
+    return this.thread.request({ kind: 'slow', fromMs, toMs });
+  }
+
+  rollupBlocks(fromMs: number, toMs: number, blockMs: number): Promise<RollupBlock[]> {
+    return this.thread.request({ kind: 'rollups', fromMs, toMs, blockMs });
+  }
+
+  private pending(): number {
+    return this.worker.pendingSamples + this.inTransit.samples + this.openSamples;
+  }
+
+  /** Sends what was gathered to the worker (transferring the sample arrays); resolves once the worker has taken it. */
+  private async handOver(): Promise<void> {
+    const started = performance.now();
     const rollups = this.rollups.drain(this.closed);
-    if (batches.length === 0 && slow.length === 0 && rollups.length === 0) return;
+    if (this.batches.length === 0 && this.slow.length === 0 && rollups.length === 0) return;
+    const batches = this.batches.map(toBatchInput);
+    const input: AppendInput = { batches, slow: this.slow, rollups, frames: this.openFrames, samples: this.openSamples };
     this.batches = [];
     this.slow = [];
-    this.pendingSamples = 0;
-    const frames = batches.reduce((sum, b) => sum + b.seqLast - b.seqFirst + 1, 0);
+    this.openSamples = 0;
+    this.openFrames = 0;
+    this.inTransit.samples += input.samples;
+    this.inTransit.frames += input.frames;
+    const sent = this.thread.request(
+      { kind: 'append', input },
+      batches.map((b) => b.samples.buffer as ArrayBuffer),
+    );
+    this.timed(started);
     try {
-      await this.db.transaction(async (tx) => {
-        for (const rows of chunks(batches.map(toBatchRow))) await tx.insert(fastBatches).values(rows);
-        for (const rows of chunks(slow.map(toSlowRow))) await tx.insert(slowSamples).values(rows);
-        for (const rows of chunks(rollups)) await tx.insert(rollups1s).values(rows).onConflictDoNothing();
-      });
-      this.counts.batchesWritten += batches.length;
-      this.counts.framesWritten += frames;
-      this.counts.slowWritten += slow.length;
-      this.counts.rollupsWritten += rollups.length;
-    } catch (error) {
-      this.counts.flushErrors++;
-      this.counts.framesDropped += frames;
-      this.onError(error as Error);
+      await sent;
+    } finally {
+      this.inTransit.samples -= input.samples;
+      this.inTransit.frames -= input.frames;
     }
+  }
+
+  private timed(started: number): void {
+    const ms = performance.now() - started;
+    this.loop.steps++;
+    if (ms > 10) this.loop.over10Ms++;
+    if (ms > this.loop.maxMs) this.loop.maxMs = ms;
   }
 }
 
-/** Rows per INSERT: well under PostgreSQL's 65,535 bind parameters at 32 columns. */
-const ROWS_PER_INSERT = 1000;
-
-function* chunks<T>(rows: T[]): Generator<T[]> {
-  for (let i = 0; i < rows.length; i += ROWS_PER_INSERT) yield rows.slice(i, i + ROWS_PER_INSERT);
-}
-
-function toBatchRow(b: OpenBatch): typeof fastBatches.$inferInsert {
-  const n = b.channels.cx.length;
-  return {
-    t0Ms: Math.floor(b.t0Ms), // stored to the millisecond; the column is an integer
-    t1Ms: Math.ceil(b.t0Ms + (n * 1000) / b.rateHz),
-    seqFirst: b.seqFirst,
-    seqLast: b.seqLast,
-    rateHz: b.rateHz,
-    sampleCount: n,
-    calibrationId: b.calibrationId,
-    currentX: encodeSamples(b.channels.cx),
-    currentY: encodeSamples(b.channels.cy),
-    currentZ: encodeSamples(b.channels.cz),
-    voltageX: encodeSamples(b.channels.vx),
-    voltageY: encodeSamples(b.channels.vy),
-    voltageZ: encodeSamples(b.channels.vz),
-    setpointX: b.setpoint.x,
-    setpointY: b.setpoint.y,
-    setpointZ: b.setpoint.z,
-  };
-}
-
-function toSlowRow(f: SlowFrame): typeof slowSamples.$inferInsert {
-  return {
-    tMs: f.tMs,
-    seq: f.seq,
-    coilTempX: f.coilTempC.x,
-    coilTempY: f.coilTempC.y,
-    coilTempZ: f.coilTempC.z,
-    flowX: f.flowLpm.x,
-    flowY: f.flowLpm.y,
-    flowZ: f.flowLpm.z,
-    waterSupplyC: f.waterSupplyC,
-    waterReturnX: f.waterReturnC.x,
-    waterReturnY: f.waterReturnC.y,
-    waterReturnZ: f.waterReturnC.z,
-  };
+function toBatchInput(b: OpenBatch): BatchInput {
+  const n = b.channels[0].length;
+  const samples = new Float64Array(6 * n);
+  for (let c = 0; c < 6; c++) samples.set(b.channels[c], c * n);
+  return { t0Ms: b.t0Ms, rateHz: b.rateHz, seqFirst: b.seqFirst, seqLast: b.seqLast, calibrationId: b.calibrationId, setpoint: b.setpoint, n, samples };
 }

@@ -37,8 +37,9 @@ async function template(): Promise<string> {
 
 let shared: Promise<string> | null = null;
 
-/** Copies the migrated template cluster to `${dataDir}/pglite`. */
+/** Copies the migrated template cluster to `${dataDir}/pglite` and, for the storage worker, to `${dataDir}/telemetry`. */
 export async function seedPglite(dataDir: string): Promise<void> {
   shared ??= template();
-  cpSync(await shared, path.join(dataDir, 'pglite'), { recursive: true });
+  const source = await shared;
+  for (const folder of ['pglite', 'telemetry']) cpSync(source, path.join(dataDir, folder), { recursive: true });
 }

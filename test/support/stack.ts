@@ -10,6 +10,7 @@ import { join } from 'node:path';
 import { loadConfig } from '../../server/config.js';
 import { externalServices, testMqttProtocol, withServices } from '../../server/testing/external-services.js';
 import { startServer, type RunningServer } from '../../server/server.js';
+import { seedPglite } from '../../server/testing/pglite-template.js';
 import { startSimulator, type RunningSimulator, type SimulatorOptions } from '../../simulator/index.js';
 
 export interface Stack {
@@ -31,6 +32,8 @@ export interface StackOptions {
 export async function startStack(options: StackOptions = {}): Promise<Stack> {
   const dataDir = await mkdtemp(join(tmpdir(), 'tiltwatch-test-'));
   const services = await externalServices(dataDir);
+  // A copy of the migrated template cluster: creating one from scratch takes half a minute on a busy machine.
+  if (!services.env.DATABASE_URL && !options.env?.DATABASE_URL) await seedPglite(dataDir);
   const config = loadConfig({
     PORT: '0',
     MQTT_PORT: services.brokerCredentials ? '' : '0',

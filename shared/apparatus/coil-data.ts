@@ -1,4 +1,5 @@
-import type { Axis } from '../shared/telemetry/messages.js';
+import { CURRENT_ADC, VOLTAGE_ADC, type AdcRange } from '../telemetry/adc.js';
+import type { Axis } from '../telemetry/messages.js';
 
 /**
  * Parameters of the simulated field-orientation controller. The demo values below describe the
@@ -46,8 +47,18 @@ export interface NoiseParameters {
   flowLpm: number;
 }
 
+/** The converters that digitise the fast channels (resolution and range of every sample). */
+export interface AdcParameters {
+  currentA: AdcRange;
+  voltageV: AdcRange;
+}
+
 export interface ControllerParameters {
   coils: Record<Axis, CoilParameters>;
+  /** Largest |B| the apparatus is built and rated for, G. */
+  maxFieldG: number;
+  /** Fast-channel converters: samples are reported as whole converter steps, clipped at full scale. */
+  adc: AdcParameters;
   supply: SupplyParameters;
   trips: HardwareTripLevels;
   noise: NoiseParameters;
@@ -77,6 +88,9 @@ const coil = (r20Ohm: number, nominalFlowLpm: number): CoilParameters => ({
  */
 export const DEMO_PARAMETERS: ControllerParameters = {
   coils: { x: coil(0.41, 3.2), y: coil(0.39, 3.0), z: coil(0.42, 2.8) },
+  maxFieldG: 20,
+  // 20-bit converters over ±25 A and ±25 V: one step is 47.7 µA / 47.7 µV (shared/telemetry/adc.ts).
+  adc: { currentA: CURRENT_ADC, voltageV: VOLTAGE_ADC },
   supply: { currentLimitA: 22, slewLimitAPerS: 20, complianceV: 14 },
   trips: { overTemperatureC: 75, lowFlowLpm: 0.6, lowFlowDelayS: 2, overCurrentA: 24 },
   noise: { currentA: 0.002, voltageV: 0.005, temperatureC: 0.05, flowLpm: 0.02 },

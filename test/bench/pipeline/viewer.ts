@@ -1,0 +1,40 @@
+/**
+ * The viewer process of the pipeline benchmark: signs in as the viewer, opens the WebSocket and
+ * records, for every `live` message, when it arrived (shared epoch clock, ms) and the newest
+ * sample time it carries. Prints `ready` once greeted; on SIGTERM writes { receivedAt,
+ * liveTimeMs } to the file given as the second argument and exits.
+ *
+ * Arguments: BASE_URL OUT_FILE.
+ */
+import { writeFileSync } from 'node:fs';
+import WebSocket from 'ws';
+import type { ServerMessage } from '../../../shared/live/live-state.js';
+import { TEST_PASSWORD } from '../../../server/testing/test-server.js';
+
+const [baseUrl, out] = process.argv.slice(2);
+const epochNow = () => performance.timeOrigin + performance.now();
+const res = await fetch(`${baseUrl}/api/auth/login`, {
+  method: 'POST',
+  headers: { 'content-type': 'application/json' },
+  body: JSON.stringify({ email: 'viewer@tiltwatch.example', password: TEST_PASSWORD }),
+});
+if (res.status !== 200) throw new Error(`sign-in failed: ${res.status}`);
+const { token } = (await res.json()) as { token: string };
+
+const receivedAt: number[] = [];
+const liveTimeMs: number[] = [];
+const ws = new WebSocket(`${baseUrl.replace(/^http/, 'ws')}/ws`);
+ws.on('open', () => ws.send(JSON.stringify({ type: 'auth', token })));
+ws.on('message', (data) => {
+  const at = epochNow();
+  const message = JSON.parse(data.toString()) as ServerMessage;
+  if (message.type === 'hello') console.log('ready');
+  if (message.type !== 'live' || message.live.time === null) return;
+  receivedAt.push(at);
+  liveTimeMs.push(Date.parse(message.live.time));
+});
+process.on('SIGTERM', () => {
+  ws.close();
+  writeFileSync(out, JSON.stringify({ receivedAt, liveTimeMs }));
+  process.exit(0);
+});
