@@ -1,14 +1,14 @@
 /**
  * Fills the read-only part of a handover from the server's records for a period: the apparatus
  * as it stands now (live state and interlock), alarms away from normal, trips and resets, setting
- * changes from the audit trail, runs and shots, and the logbook entries written in the period.
+ * changes from the audit trail, runs and their shots, and the logbook entries written in the period.
  */
-import { and, asc, gt, lte, notLike, or } from 'drizzle-orm';
+import { and, asc, eq, gt, inArray, isNull, lte, notLike, or } from 'drizzle-orm';
 import type { HandoverApparatus, HandoverChange, HandoverRecord, HandoverTrip } from '../../shared/handover/handover-api.js';
 import type { AlarmBook } from '../alarms/alarm-book.js';
 import { allAlarms } from '../alarms/alarm-body.js';
 import type { Db } from '../db/database.js';
-import { auditLog, interlockTrips } from '../db/schema.js';
+import { auditLog, interlockTrips, runs, sequences, shots } from '../db/schema.js';
 import type { Interlock } from '../interlock/interlock.js';
 import { interlockBody } from '../interlock/interlock-body.js';
 import type { LiveStore } from '../live/live-store.js';
@@ -26,22 +26,18 @@ export interface HandoverSources {
 
 /**
  * Audit actions that are not setting changes: records with their own section (logbook, trips,
- * alarm actions, handovers) and accounts.
+ * alarm actions, runs, handovers) and accounts.
  */
-const NOT_CHANGES = ['logbook.%', 'handover.%', 'interlock.%', 'alarm.%', 'user.%'];
+const NOT_CHANGES = ['logbook.%', 'handover.%', 'interlock.%', 'alarm.%', 'user.%', 'run.%'];
 /** Most rows per section; a longer shift is summarised by its newest rows. */
 const MAX_ROWS = 500;
 
-/**
- * Runs and shots come from the steering feature, which the server does not have yet: the
- * section stays empty and says so, rather than pretending the shift had none.
- */
-const RUNS_NOT_RECORDED = 'Runs and shots are not recorded by Tiltwatch yet; list them in the notes of this section.';
 
 export async function fillHandoverRecord(sources: HandoverSources, from: Date, to: Date): Promise<HandoverRecord> {
   await sources.flush();
-  const [trips, changes, logbook] = await Promise.all([
+  const [trips, runItems, changes, logbook] = await Promise.all([
     tripsIn(sources.db, from, to),
+    runsIn(sources.db, from, to),
     changesIn(sources.db, from, to),
     findEntries(sources.db, { writtenFrom: from, writtenTo: to, limit: MAX_ROWS, oldestFirst: true }),
   ]);
@@ -51,7 +47,7 @@ export async function fillHandoverRecord(sources: HandoverSources, from: Date, t
     alarms: allAlarms(sources.book).filter((a) => a.state !== 'normal'),
     trips,
     changes,
-    runs: { recorded: false, note: RUNS_NOT_RECORDED, items: [] },
+    runs: { recorded: true, note: null, items: runItems },
     logbook,
   };
 }
@@ -97,6 +93,29 @@ async function tripsIn(db: Db, from: Date, to: Date): Promise<HandoverTrip[]> {
     reason: r.reason,
     reset: r.resetAtMs !== null && r.resetBy !== null ? { at: new Date(r.resetAtMs).toISOString(), by: r.resetBy, reason: r.resetReason ?? '' } : null,
   }));
+}
+
+/** Runs that overlapped the period (started before its end, not ended before its start), with their shots in it. */
+async function runsIn(db: Db, from: Date, to: Date): Promise<HandoverRecord['runs']['items']> {
+  const rows = await db
+    .select({ id: runs.id, state: runs.state, startedAt: runs.startedAt, endedAt: runs.endedAt, endReason: runs.endReason, actor: runs.actor, name: sequences.name, version: sequences.version })
+    .from(runs)
+    .innerJoin(sequences, eq(runs.sequenceId, sequences.id))
+    .where(and(lte(runs.startedAt, to), or(isNull(runs.endedAt), gt(runs.endedAt, from))))
+    .orderBy(asc(runs.startedAt))
+    .limit(MAX_ROWS);
+  if (rows.length === 0) return [];
+  const shotRows = await db
+    .select({ id: shots.id, runId: shots.runId })
+    .from(shots)
+    .where(and(inArray(shots.runId, rows.map((r) => r.id)), gt(shots.at, from), lte(shots.at, to)))
+    .orderBy(asc(shots.at));
+  return rows.map((r) => {
+    const own = shotRows.filter((s) => s.runId === r.id).map((s) => s.id);
+    const shotText = own.length === 0 ? 'no shots in this shift' : `${own.length} shot${own.length === 1 ? '' : 's'} in this shift (${own.length > 2 ? `${own[0]} … ${own.at(-1)}` : own.join(', ')})`;
+    const state = r.state === 'running' ? 'still running' : `${r.state}${r.endReason ? ` (${r.endReason})` : ''}`;
+    return { id: String(r.id), label: `Run ${r.id}: sequence "${r.name}" version ${r.version}, started by ${r.actor}, ${state}; ${shotText}`, at: r.startedAt.toISOString() };
+  });
 }
 
 /** Calibration, profile, limit and other setting changes of the period, oldest first. */

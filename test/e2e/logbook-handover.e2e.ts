@@ -102,7 +102,7 @@ describe('Logbook and Handover in Chromium', () => {
     expect(await sheet.innerText()).toMatch(/Handover 1 — Draft/);
     const logbookSection = sheet.getByRole('region', { name: 'Logbook entries of the shift' });
     expect(await logbookSection.innerText()).toMatch(/Chiller restarted/);
-    expect(await sheet.getByRole('region', { name: 'Runs and shots' }).innerText()).toMatch(/not recorded/);
+    expect(await sheet.getByRole('region', { name: 'Runs and shots' }).innerText()).toMatch(/No run in this shift/);
     await sheet.getByRole('region', { name: 'Summary' }).getByLabel('Summary').fill('Chiller restarted; keep an eye on coil x temperature.');
     await sheet.getByRole('region', { name: 'Interlock trips and resets' }).getByLabel('Your notes on this').fill('None tonight.');
     const items = sheet.getByRole('region', { name: 'Open items' });

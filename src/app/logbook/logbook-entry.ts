@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { linkText, type LogbookEntry } from '../../../shared/logbook/logbook-api';
+import type { LogbookEntry } from '../../../shared/logbook/logbook-api';
 import { formatLocalDateTime } from '../readout/format-quantity';
 import { AttachmentView } from './attachment-view';
 import { renderMarkdown } from './markdown';
@@ -75,7 +75,8 @@ export class LogbookEntryCard {
     if (!link) return '';
     if (link.kind === 'trip') return `Interlock trip at ${formatLocalDateTime(Date.parse(link.ref))}`;
     if (link.kind === 'alarm') return `Alarm ${link.ref}`;
-    return linkText(link);
+    if (link.kind === 'run') return `Run ${link.ref}`;
+    return `Shot ${link.ref}`;
   });
 
   protected local(iso: string): string {
