@@ -56,7 +56,31 @@ export const users = pgTable('users', {
   /** argon2id PHC string. */
   passwordHash: text('password_hash').notNull(),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  /** A disabled account cannot sign in and its tokens are refused. */
+  disabled: boolean('disabled').notNull().default(false),
+  /**
+   * Carried in every token as `tv`; raised when the account is disabled, its role or password
+   * changes, which revokes every token issued before.
+   */
+  tokenVersion: integer('token_version').notNull().default(0),
 });
+
+/** Sign-in throttling and other security events an admin reviews (Admin → Users). */
+export const securityEvents = pgTable(
+  'security_events',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+    /** e.g. `sign-in.account-delayed`, `sign-in.address-throttled`, `sign-in.throttle-lifted`. */
+    kind: text('kind').notNull(),
+    /** The account concerned (normalised e-mail), when there is one. */
+    email: text('email'),
+    /** The client address, when there is one. */
+    address: text('address'),
+    detail: jsonb('detail'),
+  },
+  (t) => [index('security_events_at').on(t.at)],
+);
 
 export const calibrations = pgTable(
   'calibrations',
@@ -416,6 +440,7 @@ export const schema = {
   slowSamples,
   rollups1s,
   auditLog,
+  securityEvents,
   alarmLimits,
   levelSets,
   alarmEvents,

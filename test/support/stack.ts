@@ -42,7 +42,7 @@ export async function startStack(options: StackOptions = {}): Promise<Stack> {
     ...services.env,
     ...options.env,
   });
-  const server = withServices(await startServer(config), services);
+  const server = withServices(await startServer(config, { demoAccounts: true }), services);
   let simulator: RunningSimulator | null = null;
   if (options.simulator !== false) {
     const account = server.brokerCredentials?.controller;
