@@ -16,6 +16,7 @@ function live(overrides: Partial<LiveState> = {}): LiveState {
     waterSupplyC: 18,
     waterReturnC: { x: 24, y: 21, z: 23 },
     field: { vector: { x: 0, y: 0, z: 10 }, magnitude: 10, thetaDeg: 0, phiDeg: 0 },
+    fieldUncertainty: null,
     calibration: { id: 1, version: 1, label: 'demo' },
     controller: {
       online: true,
@@ -27,6 +28,7 @@ function live(overrides: Partial<LiveState> = {}): LiveState {
       lastFrameAt: new Date(NOW - 40).toISOString(),
     },
     prediction: null,
+    predictionStatus: { state: 'applies', fieldG: 10, minFieldG: 0.5, reason: null },
     ...overrides,
   };
 }
@@ -44,8 +46,8 @@ describe('channelValues', () => {
     expect(v).toMatchObject({ 'temperature.x': 41, 'flow.z': 2.9, waterSupply: 18, 'waterReturn.y': 21, fieldMagnitude: 10 });
   });
 
-  it('measures staleness as the time since the newest frame', () => {
-    expect(channelValues(live(), NOW).stale).toBe(40);
+  it('measures staleness as the time since the newest frame was heard', () => {
+    expect(channelValues(live(), NOW, { lastFrameAtMs: NOW - 40 }).stale).toBe(40);
   });
 
   it('leaves out everything the live state does not have yet, including staleness before the first frame', () => {

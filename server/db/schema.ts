@@ -14,6 +14,7 @@ import {
   bigint,
   bigserial,
   boolean,
+  check,
   customType,
   doublePrecision,
   index,
@@ -33,11 +34,12 @@ import type { LogbookLinkKind } from '../../shared/logbook/logbook-api.js';
 import type { HandoverItem, HandoverNotes, HandoverRecord, HandoverStatus } from '../../shared/handover/handover-api.js';
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
+import type { CalibrationFitReport, CalibrationKind, CalibrationState, FitPoint } from '../../shared/field/calibration-record.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
-import type { AlarmState } from '../alarms/alarm-state.js';
+import type { AlarmMemory, AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
 import type { ConditionStatus } from '../interlock/trip-conditions.js';
 
@@ -99,9 +101,25 @@ export const calibrations = pgTable(
     approvedBy: text('approved_by'),
     approvedAt: timestamp('approved_at', { withTimezone: true }),
     active: boolean('active').notNull().default(false),
+    /** `draft` after a fit, `approved` once a lead approved it (then immutable: trigger in drizzle/). */
+    state: text('state').$type<CalibrationState>().notNull().default('approved'),
+    kind: text('kind').$type<CalibrationKind>().notNull().default('demo'),
+    /** The fit report (same object as the calibrate CLI prints); null for the demo seed. */
+    fit: jsonb('fit').$type<CalibrationFitReport>(),
+    /** Every file line with its residual. */
+    fitPoints: jsonb('fit_points').$type<FitPoint[]>(),
+    /** 12×12 covariance of (K row-major, B0), coil frame. */
+    covariance: jsonb('covariance').$type<number[][]>(),
+    sourceName: text('source_name'),
+    mhzPerGauss: doublePrecision('mhz_per_gauss'),
+    approvalReason: text('approval_reason'),
   },
-  // At most one row may be active; the seed and every switch keep exactly one.
-  (t) => [uniqueIndex('calibrations_one_active').on(t.active).where(sql`${t.active}`)],
+  (t) => [
+    // At most one row may be active; the seed and every switch keep exactly one.
+    uniqueIndex('calibrations_one_active').on(t.active).where(sql`${t.active}`),
+    check('calibrations_active_is_approved', sql`NOT ${t.active} OR ${t.state} = 'approved'`),
+    check('calibrations_state', sql`${t.state} IN ('draft', 'approved')`),
+  ],
 );
 
 /**
@@ -432,6 +450,18 @@ export const handoverItems = pgTable('handover_items', {
   closeNote: text('close_note'),
 });
 
+/**
+ * The state of each alarm that must survive a restart (acknowledged, latched, shelved with its
+ * expiry, out of service, raise time and value, first-out group): one row per alarm id, written
+ * with each operator action and with each stored batch of alarm transitions.
+ */
+export const alarmStates = pgTable('alarm_states', {
+  alarmId: text('alarm_id').primaryKey(),
+  memory: jsonb('memory').$type<AlarmMemory>().notNull(),
+  /** Server time of the write, Unix epoch ms. */
+  updatedAtMs: epochMs('updated_at_ms').notNull(),
+});
+
 export const schema = {
   users,
   calibrations,
@@ -452,4 +482,5 @@ export const schema = {
   logbookAttachments,
   handovers,
   handoverItems,
+  alarmStates,
 };

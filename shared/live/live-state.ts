@@ -1,3 +1,4 @@
+import type { FieldUncertainty } from '../field/field-uncertainty.js';
 import type { Vec3, FieldState } from '../field/field-vector.js';
 import type { Role } from '../auth/roles.js';
 import type { AlarmsMessage } from '../alarms/alarm-api.js';
@@ -19,6 +20,11 @@ export interface LiveState {
   waterSupplyC: number | null;
   waterReturnC: PerAxis<number> | null;
   field: FieldState | null;
+  /**
+   * One standard deviation of |B|, θ, φ at the present currents from the active calibration's
+   * parameter covariance (shared/field/field-uncertainty.ts); null when it has none.
+   */
+  fieldUncertainty: FieldUncertainty | null;
   calibration: { id: number; version: number; label: string } | null;
   controller: {
     online: boolean;
@@ -32,6 +38,25 @@ export interface LiveState {
   };
   /** Live prediction for the measured field direction and the active sample profile. */
   prediction: LivePrediction | null;
+  /** Whether that prediction describes the gas now. */
+  predictionStatus: PredictionStatus;
+}
+
+/**
+ * Whether the live prediction describes the gas now: `applies` with fresh telemetry and a
+ * field strong enough to orient the dipoles; `weak-field` while |B| is below the lead-set
+ * `minOrientingFieldG` of the level set in force; `stale` while no telemetry arrived for longer than the
+ * stale limit; `no-telemetry` before the first frame. Screens grey the prediction out unless
+ * it applies.
+ */
+export interface PredictionStatus {
+  state: 'applies' | 'weak-field' | 'stale' | 'no-telemetry';
+  /** |B| of the newest frame, G; null before the first. */
+  fieldG: number | null;
+  /** The least field that orients the dipoles, G (lead-set in the level set in force); null until known. */
+  minFieldG: number | null;
+  /** Why the prediction does not apply, in one sentence; null when it applies. */
+  reason: string | null;
 }
 
 /** An ellipse as the camera sees it: semi-axes and the major axis angle from u towards v. */
