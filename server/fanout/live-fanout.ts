@@ -51,26 +51,29 @@ export interface FanoutCounters {
 interface Viewer {
   ws: WebSocket;
   user: SignedInUser;
-  series: SeriesChunk;
-  slow: SlowChunk;
-  lastSentAt: number;
-  timer: NodeJS.Timeout | null;
   slowSince: number | null;
 }
 
 /**
  * WebSocket fan-out of the live state on `/ws` of the HTTP server. Protocol: the client's
  * first message is `{"type":"auth","token":…}` within 5 s (else close 4401); the server
- * answers `hello`, then sends `live` messages carrying the chart points gathered since that
- * client's previous message, at most one per `minIntervalMs`. A client whose send buffer is
- * over the bound has updates skipped, and is dropped if that lasts; the pipeline only appends
- * to per-client buffers, so no browser can slow ingest.
+ * answers `hello` and the present state, then `live` messages carrying the chart points
+ * gathered since the previous message, at most one per `minIntervalMs`, the same text for every
+ * client (serialised once). A client whose send buffer is over the bound has updates skipped
+ * (their points are gone for it; the charts reload history) and is dropped if that lasts; the
+ * pipeline only appends to one shared chunk, so neither the number of browsers nor a slow one
+ * can slow ingest.
  */
 export class LiveFanout implements ChunkSink {
   private readonly wss = new WebSocketServer({ noServer: true, maxPayload: 8 * 1024 });
   private readonly viewers = new Set<Viewer>();
   private readonly waiting = new Map<WebSocket, NodeJS.Timeout>();
   private readonly counts = { messagesSent: 0, skippedUpdates: 0, droppedClients: 0 };
+  /** Chart points gathered since the last `live` message, the same for every client. */
+  private series = emptySeriesChunk();
+  private slow = emptySlowChunk();
+  private lastTickAt = -Infinity;
+  private tickTimer: NodeJS.Timeout | null = null;
   private readonly opts: Required<FanoutOptions>;
   private closing: Promise<void> | undefined;
   /** The newest `alarms` message, sent to each client right after `hello`. */
@@ -90,12 +93,14 @@ export class LiveFanout implements ChunkSink {
     server.on('upgrade', this.onUpgrade);
   }
 
+  /**
+   * Takes a frame's chart points. The work per frame is the same however many clients watch:
+   * the points join one shared chunk, and a single timer sends it to everyone.
+   */
   publish(series: SeriesChunk | null, slow: SlowChunk | null): void {
-    for (const viewer of this.viewers) {
-      if (series) appendSeriesChunk(viewer.series, series);
-      if (slow) appendSlowChunk(viewer.slow, slow);
-      this.schedule(viewer);
-    }
+    if (series) appendSeriesChunk(this.series, series);
+    if (slow) appendSlowChunk(this.slow, slow);
+    this.schedule();
   }
 
   /**
@@ -133,6 +138,8 @@ export class LiveFanout implements ChunkSink {
   }
 
   private async shutDown(): Promise<void> {
+    if (this.tickTimer) clearTimeout(this.tickTimer);
+    this.tickTimer = null;
     this.server.off('upgrade', this.onUpgrade);
     for (const [ws, timer] of this.waiting) {
       clearTimeout(timer);
@@ -187,7 +194,7 @@ export class LiveFanout implements ChunkSink {
     if (ws.readyState !== WebSocket.OPEN) return;
     if (!user) return this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'invalid or expired token: sign in again');
     if (!hasRole(user.role, WATCH_ROLE)) return this.refuse(ws, WS_CLOSE_FORBIDDEN, `watching needs the ${WATCH_ROLE} role`);
-    const viewer: Viewer = { ws, user, series: emptySeriesChunk(), slow: emptySlowChunk(), lastSentAt: -Infinity, timer: null, slowSince: null };
+    const viewer: Viewer = { ws, user, slowSince: null };
     this.viewers.add(viewer);
     ws.on('close', () => this.forget(viewer));
     this.sendMessage(ws, {
@@ -198,7 +205,7 @@ export class LiveFanout implements ChunkSink {
     });
     if (this.alarms) this.sendMessage(ws, this.alarms);
     if (this.channels) this.sendMessage(ws, this.channels);
-    this.send(viewer);
+    this.sendMessage(ws, { type: 'live', live: this.live.snapshot(), series: emptySeriesChunk(), slow: emptySlowChunk() });
   }
 
   private refuse(ws: WebSocket, code: number, reason: string): void {
@@ -206,27 +213,37 @@ export class LiveFanout implements ChunkSink {
     if (ws.readyState === WebSocket.OPEN) ws.close(code, reason);
   }
 
-  private schedule(viewer: Viewer): void {
-    if (viewer.timer) return;
-    const wait = viewer.lastSentAt + this.opts.minIntervalMs - performance.now();
+  private schedule(): void {
+    if (this.tickTimer) return;
+    const wait = this.lastTickAt + this.opts.minIntervalMs - performance.now();
     if (wait <= 0) {
-      this.send(viewer);
+      this.tick();
       return;
     }
-    viewer.timer = setTimeout(() => {
-      viewer.timer = null;
-      this.send(viewer);
+    this.tickTimer = setTimeout(() => {
+      this.tickTimer = null;
+      this.tick();
     }, wait);
   }
 
-  private send(viewer: Viewer): void {
+  /** One `live` message with the points gathered since the last one, serialised once, to every client that keeps up. */
+  private tick(): void {
+    const now = performance.now();
+    this.lastTickAt = now;
+    const message: ServerMessage = { type: 'live', live: this.live.snapshot(), series: this.series, slow: this.slow };
+    this.series = emptySeriesChunk();
+    this.slow = emptySlowChunk();
+    if (this.viewers.size === 0) return;
+    const text = JSON.stringify(message);
+    for (const viewer of this.viewers) this.deliver(viewer, text, now);
+  }
+
+  /** Sends `text` unless the client's send buffer is over the bound (skipped; dropped if that lasts). */
+  private deliver(viewer: Viewer, text: string, now: number): void {
     const { ws } = viewer;
     if (ws.readyState !== WebSocket.OPEN) return;
-    const now = performance.now();
     if (ws.bufferedAmount > this.opts.maxBufferedBytes) {
       this.counts.skippedUpdates++;
-      viewer.series = emptySeriesChunk();
-      viewer.slow = emptySlowChunk();
       viewer.slowSince ??= now;
       if (now - viewer.slowSince > this.opts.maxSlowMs) {
         this.counts.droppedClients++;
@@ -236,10 +253,8 @@ export class LiveFanout implements ChunkSink {
       return;
     }
     viewer.slowSince = null;
-    this.sendMessage(ws, { type: 'live', live: this.live.snapshot(), series: viewer.series, slow: viewer.slow });
-    viewer.series = emptySeriesChunk();
-    viewer.slow = emptySlowChunk();
-    viewer.lastSentAt = now;
+    ws.send(text);
+    this.counts.messagesSent++;
   }
 
   private sendMessage(ws: WebSocket, message: ServerMessage): void {
@@ -248,8 +263,6 @@ export class LiveFanout implements ChunkSink {
   }
 
   private forget(viewer: Viewer): void {
-    if (viewer.timer) clearTimeout(viewer.timer);
-    viewer.timer = null;
     this.viewers.delete(viewer);
   }
 }
