@@ -28,7 +28,7 @@ let simulator: ChildProcess | null = null;
 try {
   const config = loadConfig();
   demoConflicts(config, demo);
-  server = await startServer(config);
+  server = await startServer(config, { demoAccounts: demo });
   if (demo && server.brokerCredentials) {
     simulator = spawn(process.execPath, ['--import', 'tsx', path.join('simulator', 'main.ts')], {
       cwd: projectRoot(),
@@ -50,10 +50,14 @@ try {
     });
   }
   const accounts = DEMO_ACCOUNTS.map((a) => a.email).join(', ');
+  const accountNote = !server.hasAdmin
+    ? 'No enabled admin account: create the first admin with  npm run users -- add EMAIL --role admin  (stop the server first when it uses the data folder)'
+    : server.seededDemoAccounts
+      ? `Demo accounts created (demo only): ${accounts} — password from TILTWATCH_DEMO_PASSWORD (default tiltwatch-demo)`
+      : '';
   console.log(
     `\nTiltwatch is running: open ${server.url}\n` +
-      `Demo accounts (demo only): ${accounts} — password from TILTWATCH_DEMO_PASSWORD (default tiltwatch-demo)` +
-      `${demo ? '\nSimulated controller: running the demo program' : ''}\n`,
+      `${accountNote}${demo ? '\nSimulated controller: running the demo program' : ''}\n`,
   );
 } catch (error) {
   if (error instanceof ConfigError || error instanceof DataFolderLockedError) {

@@ -10,7 +10,9 @@ import { authHandlers } from './auth/auth-routes.js';
 import { loadOrCreateJwtSecret } from './auth/jwt-secret.js';
 import { LoginUseCase } from './auth/login.js';
 import { TokenIssuer } from './auth/tokens.js';
-import { seedDemoAccounts } from './auth/users-repository.js';
+import { SecurityLog } from './auth/security-log.js';
+import { DEFAULT_THROTTLE_RULES, SignInThrottle } from './auth/sign-in-throttle.js';
+import { hasEnabledAdmin, seedDemoAccounts } from './auth/users-repository.js';
 import { calibrationHandlers } from './calibration/calibration-routes.js';
 import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
@@ -31,6 +33,7 @@ import { createLogger } from './logging/logger.js';
 import { logbookHandlers } from './logbook/logbook-routes.js';
 import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
 import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
+import { CriticalCache } from './prediction/critical-cache.js';
 import { PredictionEngine } from './prediction/prediction-engine.js';
 import { PredictionHistoryRing } from './prediction/prediction-history.js';
 import { predictionHandlers } from './prediction/prediction-routes.js';
@@ -40,11 +43,21 @@ import { profileHandlers } from './profiles/profile-routes.js';
 import { projectRoot } from './project-root.js';
 import { seriesHandlers } from './series/series-routes.js';
 import { RollupAccumulator } from './storage/rollup-accumulator.js';
+import { startSteering } from './steering/start-steering.js';
 import { TelemetryWriter } from './storage/telemetry-writer.js';
+import { AccountEvents } from './users/account-events.js';
+import { UserAccounts } from './users/user-accounts.js';
+import { userHandlers } from './users/user-routes.js';
 
 export interface StartOptions {
   /** Log destination; default a pino logger at `config.logLevel` on stdout. */
   log?: Logger;
+  /**
+   * `--demo`: create the demo accounts on a database without any account, and let them sign
+   * in. Default false: demo accounts (`<role>@tiltwatch.example`) cannot sign in, their tokens
+   * are refused and the Users page does not list them, as if they did not exist.
+   */
+  demoAccounts?: boolean;
   /** WebSocket pacing and limits (defaults: 5 s to sign in, ≥ 33 ms between messages, 1 MB buffer). */
   fanout?: FanoutOptions;
 }
@@ -61,6 +74,8 @@ export interface RunningServer {
   brokerCredentials: BrokerCredentials | null;
   /** True when the demo accounts were created by this start (first start on this database). */
   seededDemoAccounts: boolean;
+  /** False when no enabled admin account exists (create the first admin with `npm run users`). */
+  hasAdmin: boolean;
   /** The same report as `GET /api/health`. */
   counters(): HealthReport;
   /** Stops everything in reverse order of start; resolves when nothing is left running. */
@@ -72,7 +87,7 @@ export const WEB_ROOT = path.join(projectRoot(), 'dist', 'tiltwatch', 'browser')
 
 /**
  * Starts Tiltwatch's server: takes the data folder, opens and migrates the database, seeds the
- * demo calibration, sample profile and accounts on first start, starts the embedded broker
+ * demo calibration and sample profile on first start (and the demo accounts with `demoAccounts`), starts the embedded broker
  * (unless MQTT_URL names an external one) and the prediction worker, subscribes to telemetry,
  * and serves the API, the WebSocket and the web app. `config.port` 0 picks a free port. If any
  * step fails, what was started is closed.
@@ -115,7 +130,9 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const { db } = database;
     await seedDemoCalibration(db);
     await seedDemoProfile(db);
-    const seededDemoAccounts = await seedDemoAccounts(db, config.demoPassword);
+    const seededDemoAccounts = opts.demoAccounts === true && (await seedDemoAccounts(db, config.demoPassword));
+    const demo = opts.demoAccounts === true;
+    const hasAdmin = await hasEnabledAdmin(db, demo);
     const calibrations = new CalibrationCache(db);
     await calibrations.reload();
 
@@ -147,13 +164,22 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
       mqtt = config.mqtt;
     }
 
-    const access = new AccessControl(db, tokens);
+    const access = new AccessControl(db, tokens, demo);
+    const accountEvents = new AccountEvents();
+    const accounts = new UserAccounts(db, accountEvents, demo);
+    const security = new SecurityLog(db, log);
+    closers.push(() => security.drain());
+    const throttle = new SignInThrottle({ ...DEFAULT_THROTTLE_RULES, addressFailures: config.loginAttemptsPerMinute }, (event) => {
+      const { kind, ...detail } = event;
+      security.record({ kind, email: 'email' in event ? event.email : null, address: event.address, detail });
+    });
     const live = new LiveStore();
     const httpServer = createServer();
-    const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout);
+    const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout, accountEvents);
     closers.push(() => fanout.close());
     // Closed after ingest stops and before the fan-out it publishes to.
-    const engine = new PredictionEngine({ log });
+    const criticalCache = new CriticalCache();
+    const engine = new PredictionEngine({ log, criticalCache });
     closers.push(() => engine.close());
     const history = new PredictionHistoryRing();
     const prediction = new LivePredictionFeed({ engine, live, history, fanout });
@@ -161,8 +187,10 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     await profiles.reload();
     const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout, prediction });
     const gate = new FrameGate();
+    const steering = await startSteering({ db, live, calibrations, prediction, criticalCache, log });
+    closers.push(() => steering.close());
     // Alarms and the software interlock evaluate each message after the pipeline applied it.
-    const supervision = await startSupervision({ db, live, sink: fanout, config, log, databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined });
+    const supervision = await startSupervision({ db, live, sink: fanout, config, log, databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined, steering: steering.context });
     closers.push(() => supervision.close());
     const deliver = (message: AdmittedMessage) => {
       pipeline.handle(message);
@@ -172,6 +200,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     closers.push(() => ingest.close());
     supervision.supervisor.attach(ingest);
     supervision.supervisor.start();
+    steering.connect({ link: ingest, interlock: supervision.interlock, alarmLimits: () => supervision.book.limits(), levels: () => supervision.levels.inForce() });
 
     const eventLoop = new EventLoopWatch();
     closers.push(() => eventLoop.close());
@@ -206,13 +235,15 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const app = createApp({
       handlers: {
         ...healthHandlers(report),
-        ...authHandlers(new LoginUseCase(db, tokens), config.loginAttemptsPerMinute),
+        ...authHandlers({ login: new LoginUseCase(db, tokens, throttle, security, demo), accounts, tokens }),
+        ...userHandlers({ db, accounts, throttle, security }),
         ...liveHandlers(live),
         ...seriesHandlers(calibrations, writer),
         ...calibrationHandlers(db),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),
         ...supervision.handlers,
+        ...steering.handlers,
         ...logbookHandlers({ db, targets: { db, alarmIds: () => supervision.book.limits().map((l) => l.id) } }),
       },
       access,
@@ -227,7 +258,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const port = typeof address === 'object' && address !== null ? address.port : config.port;
     const url = `http://${displayHost(config.host)}:${port}`;
     log.info({ url, mqtt: mqtt.url, db: database.kind, dataDir: config.dataDir }, 'Tiltwatch server started');
-    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, counters: report, close };
+    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, hasAdmin, counters: report, close };
   } catch (error) {
     await close();
     throw error;

@@ -1,6 +1,7 @@
+import { request } from 'node:http';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { startControlEndpoint, type ControlEndpoint } from './control-endpoint.js';
-import { DEMO_PARAMETERS } from './parameters.js';
+import { DEMO_PARAMETERS } from '../shared/apparatus/coil-data.js';
 import { Simulation } from './simulation.js';
 
 let sim: Simulation;
@@ -77,5 +78,61 @@ describe('control endpoint', () => {
   it('answers unknown routes with 404 and wrong methods with 405', async () => {
     expect((await fetch(endpoint.url + '/nope')).status).toBe(404);
     expect((await fetch(endpoint.url + '/reset')).status).toBe(405);
+  });
+
+  /** A raw request with exactly these headers (fetch would not let a test set Host). */
+  const raw = (method: string, path: string, headers: Record<string, string>, body?: string) =>
+    new Promise<{ status: number; error?: string }>((resolve, reject) => {
+      const req = request(endpoint.url + path, { method, headers: { ...headers, ...(body === undefined ? {} : { 'content-length': String(Buffer.byteLength(body)) }) } }, (res) => {
+        let text = '';
+        res.on('data', (d: Buffer) => (text += d.toString()));
+        res.on('end', () => resolve({ status: res.statusCode ?? 0, error: (JSON.parse(text) as { error?: string }).error }));
+      });
+      req.on('error', reject);
+      req.end(body);
+    });
+  const holdTrip = () => {
+    sim.plant.faults.add({ kind: 'cooling-loss', axis: 'x', residualLpm: 0 });
+    for (let k = 0; k < 400; k++) sim.nextFrame();
+    sim.plant.faults.clear();
+    for (let k = 0; k < 400; k++) sim.nextFrame();
+    expect(sim.plant.hardwareTrip).not.toBeNull();
+  };
+
+  it.each([
+    ['a foreign Origin', { origin: 'http://attacker.example' }, 403, /cross-site request from "http:\/\/attacker\.example"/],
+    ['Origin null (a sandboxed page or a file)', { origin: 'null' }, 403, /cross-site/],
+    ['another local port as Origin', { origin: 'http://127.0.0.1:1' }, 403, /cross-site/],
+    ['a non-loopback Host (DNS rebinding)', { host: 'attacker.example:4281' }, 403, /requests addressed to this machine/],
+    ['a browser-marked cross-site request', { 'sec-fetch-site': 'cross-site' }, 403, /Sec-Fetch-Site: cross-site/],
+  ])('refuses a hardware-trip reset with %s, and the trip stays', async (_what, headers, status, message) => {
+    holdTrip();
+    const answer = await raw('POST', '/reset', headers);
+    expect(answer.status).toBe(status);
+    expect(answer.error).toMatch(message);
+    expect(sim.plant.hardwareTrip).not.toBeNull();
+  });
+
+  it.each([
+    ['text/plain', 'text/plain'],
+    ['a form post', 'application/x-www-form-urlencoded'],
+    ['no Content-Type', undefined],
+  ])('takes a body only as JSON: refuses %s with 415 and injects nothing', async (_what, type) => {
+    const headers: Record<string, string> = type === undefined ? {} : { 'content-type': type };
+    const answer = await raw('POST', '/faults', headers, '{"kind":"cooling-loss","axis":"x"}');
+    expect(answer.status).toBe(415);
+    expect(answer.error).toMatch(/Content-Type: application\/json/);
+    expect(sim.plant.faults.list()).toHaveLength(0);
+  });
+
+  it('keeps working for local tools: loopback Host names, its own Origin, a JSON body, a bodiless reset', async () => {
+    for (const host of ['localhost', `localhost:${endpoint.port}`, `127.0.0.1:${endpoint.port}`, `[::1]:${endpoint.port}`]) {
+      expect((await raw('GET', '/state', { host })).status).toBe(200);
+    }
+    expect((await raw('GET', '/state', { origin: `http://127.0.0.1:${endpoint.port}` })).status).toBe(200);
+    expect((await raw('POST', '/faults', { 'content-type': 'application/json; charset=utf-8' }, '{"kind":"sign-swap","axis":"x"}')).status).toBe(201);
+    expect((await raw('DELETE', '/faults', {})).status).toBe(200);
+    holdTrip();
+    expect(await raw('POST', '/reset', {})).toEqual({ status: 200, error: undefined });
   });
 });

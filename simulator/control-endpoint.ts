@@ -39,6 +39,13 @@ class HttpError extends Error {
  *   POST   /faults  inject a fault: { "kind", "axis"?, … } → 201 { active }
  *   DELETE /faults  clear every fault → 200 { active: [] }
  *   POST   /reset   reset the latched hardware trip → 200, or 409 while its cause holds
+ *
+ * Cross-site requests are refused (403) before anything happens: a browser page elsewhere
+ * could otherwise clear a hardware trip through this machine's browser. Refused are requests
+ * whose `Host` is not a loopback name (DNS rebinding), that carry an `Origin` other than this
+ * endpoint's own, or that a browser marks as cross-site (`Sec-Fetch-Site`); a request with a
+ * body must send it as `application/json` (415 otherwise), which a form or a simple
+ * cross-site request cannot. curl and scripts on this machine send none of these headers.
  */
 export async function startControlEndpoint(actions: ControlActions, port: number, host = '127.0.0.1'): Promise<ControlEndpoint> {
   const server = createServer((req, res) => {
@@ -66,6 +73,7 @@ export async function startControlEndpoint(actions: ControlActions, port: number
 }
 
 async function handle(actions: ControlActions, req: IncomingMessage): Promise<{ status: number; body: unknown }> {
+  refuseCrossSite(req);
   const path = new URL(req.url ?? '/', 'http://localhost').pathname;
   const route = `${req.method} ${path}`;
   switch (route) {
@@ -87,6 +95,29 @@ async function handle(actions: ControlActions, req: IncomingMessage): Promise<{ 
     default:
       if (['/state', '/faults', '/reset'].includes(path)) throw new HttpError(405, `${req.method} is not allowed on ${path}`);
       throw new HttpError(404, `no route ${path}; use GET /state, POST or DELETE /faults, POST /reset`);
+  }
+}
+
+/** Names under which this machine reaches the endpoint. */
+const LOOPBACK_HOST = /^(localhost|127(\.\d{1,3}){3}|\[::1\])(:\d+)?$/i;
+
+function refuseCrossSite(req: IncomingMessage): void {
+  const host = req.headers.host ?? '';
+  if (!LOOPBACK_HOST.test(host)) {
+    throw new HttpError(403, `refused: the control endpoint answers only requests addressed to this machine (Host localhost or 127.0.0.1), not ${JSON.stringify(host)}`);
+  }
+  const origin = req.headers.origin;
+  if (origin !== undefined && origin !== `http://${host}`) {
+    throw new HttpError(403, `refused: cross-site request from ${JSON.stringify(origin)}; use curl or a script on this machine`);
+  }
+  const site = req.headers['sec-fetch-site'];
+  if (site !== undefined && site !== 'same-origin' && site !== 'none') {
+    throw new HttpError(403, `refused: cross-site request (Sec-Fetch-Site: ${site}); use curl or a script on this machine`);
+  }
+  const hasBody = req.headers['content-length'] !== undefined ? req.headers['content-length'] !== '0' : req.headers['transfer-encoding'] !== undefined;
+  const type = (req.headers['content-type'] ?? '').split(';')[0].trim().toLowerCase();
+  if (hasBody && type !== 'application/json') {
+    throw new HttpError(415, `send the body as JSON with "Content-Type: application/json" (got ${JSON.stringify(req.headers['content-type'] ?? 'no Content-Type')})`);
   }
 }
 

@@ -137,7 +137,7 @@ describe('simulated controller over MQTT', () => {
     const sim = await simulator();
     const { received } = await listener();
     await waitFor(() => (received.get(TOPICS.fast)?.length ?? 0) > 5, 'fast frames');
-    const injected = await fetch(`${sim.controlUrl}/faults`, { method: 'POST', body: JSON.stringify({ kind: 'sensor-dropout' }) });
+    const injected = await fetch(`${sim.controlUrl}/faults`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ kind: 'sensor-dropout' }) });
     expect(injected.status).toBe(201);
     await sleep(250); // frames already in flight arrive
     const during = received.get(TOPICS.fast)!.length;
@@ -157,7 +157,7 @@ describe('simulated controller over MQTT', () => {
     const { client, received } = await listener();
     await waitFor(() => lastStatus(received)?.online, 'online status');
     await command(client, TOPICS.setpoints, { setpointA: { x: 0, y: 5, z: 0 } });
-    await fetch(`${sim.controlUrl}/faults`, { method: 'POST', body: JSON.stringify({ kind: 'supply-runaway', axis: 'y', voltsPerSecond: 50 }) });
+    await fetch(`${sim.controlUrl}/faults`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ kind: 'supply-runaway', axis: 'y', voltsPerSecond: 50 }) });
     const tripped = await waitFor(() => lastStatus(received)?.hardwareTripped && lastStatus(received), 'hardware trip');
     expect(tripped).toMatchObject({ hardwareTripCause: 'over-current', hardwareTripAxis: 'y' });
 

@@ -10,7 +10,7 @@ import {
 import type { MqttProtocolLevel } from '../shared/telemetry/mqtt-protocol.js';
 import { TOPICS } from '../shared/telemetry/topics.js';
 import { startControlEndpoint } from './control-endpoint.js';
-import { DEMO_PARAMETERS } from './parameters.js';
+import { DEMO_PARAMETERS } from '../shared/apparatus/coil-data.js';
 import { Simulation } from './simulation.js';
 import { TelemetryPublisher } from './telemetry-publisher.js';
 

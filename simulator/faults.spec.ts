@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { DEMO_CALIBRATION } from '../shared/field/demo-calibration.js';
 import type { Axis } from '../shared/telemetry/messages.js';
 import { FaultBook } from './faults.js';
-import { DEMO_PARAMETERS } from './parameters.js';
+import { DEMO_PARAMETERS } from '../shared/apparatus/coil-data.js';
 import { Plant, type PerAxis } from './plant.js';
 
 function plant(thermalSpeedup = 1, seed = 3): Plant {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { DEMO_PARAMETERS } from './parameters.js';
+import { DEMO_PARAMETERS } from '../shared/apparatus/coil-data.js';
 import { Plant } from './plant.js';
 
 const options = { params: DEMO_PARAMETERS, startMs: 1.7e12, sampleRateHz: 1000, seed: 5, thermalSpeedup: 200 };

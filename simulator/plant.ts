@@ -1,12 +1,12 @@
 import { DEMO_CALIBRATION } from '../shared/field/demo-calibration.js';
 import { fieldFromCurrents, type FieldState } from '../shared/field/field-vector.js';
 import { AXES, type Axis } from '../shared/telemetry/messages.js';
-import { coilCurrentAfter, resistanceAt } from './coil-model.js';
+import { coilCurrentAfter, resistanceAt } from '../shared/apparatus/coil-model.js';
 import { FaultBook, type SensorChannel } from './faults.js';
-import type { ControllerParameters } from './parameters.js';
+import type { ControllerParameters } from '../shared/apparatus/coil-data.js';
 import { SeededRandom } from './seeded-random.js';
 import { Supply } from './supply-model.js';
-import { conductanceAtFlow, cooling, coilTemperatureAfter } from './thermal-model.js';
+import { conductanceAtFlow, cooling, coilTemperatureAfter } from '../shared/apparatus/thermal-model.js';
 import { TripChain, type LatchedTrip, type ResetOutcome, type TripInputs } from './trip-chain.js';
 
 export type PerAxis = Record<Axis, number>;

@@ -4,7 +4,7 @@ import { DEMO_CALIBRATION } from '../shared/field/demo-calibration.js';
 import { fieldFromCurrents } from '../shared/field/field-vector.js';
 import { ControllerStatus, FastFrame, SlowFrame } from '../shared/telemetry/messages.js';
 import { DEMO_FIELD_GAUSS, demoSetpoints } from './demo-program.js';
-import { DEMO_PARAMETERS } from './parameters.js';
+import { DEMO_PARAMETERS } from '../shared/apparatus/coil-data.js';
 import { Simulation } from './simulation.js';
 
 const START = 1.7e12;

@@ -1,6 +1,6 @@
 import { adcReading } from '../shared/telemetry/adc.js';
 import type { ControllerStatus, FastFrame, SlowFrame } from '../shared/telemetry/messages.js';
-import type { ControllerParameters } from './parameters.js';
+import type { ControllerParameters } from '../shared/apparatus/coil-data.js';
 import { Plant } from './plant.js';
 import { SetpointSource } from './setpoint-source.js';
 

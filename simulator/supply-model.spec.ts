@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { coilCurrentAfter } from './coil-model.js';
+import { coilCurrentAfter } from '../shared/apparatus/coil-model.js';
 import { Supply } from './supply-model.js';
 
 const params = { currentLimitA: 22, slewLimitAPerS: 20, complianceV: 14 };
@@ -68,4 +68,18 @@ describe('coil supply', () => {
     expect(supply.referenceA).toBe(0);
     expect(supply.outputV).toBe(0);
   });
+});
+
+describe('supply and coil together', () => {
+  it('follows a setpoint step through the supply with the coil time constant L/R', () => {
+    const supply = new Supply({ currentLimitA: 22, slewLimitAPerS: 1e6, complianceV: 14 });
+    let i = 0;
+    const tauS = l / r;
+    for (let k = 0; k < Math.round(tauS / dtS); k++) {
+      const v = supply.step(10, r, dtS, null, false);
+      i = coilCurrentAfter(i, v, r, l, dtS);
+    }
+    expect(i / 10).toBeCloseTo(1 - Math.exp(-1), 9); // 1 − e⁻¹
+  });
+
 });

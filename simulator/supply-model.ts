@@ -1,4 +1,4 @@
-import type { SupplyParameters } from './parameters.js';
+import type { SupplyParameters } from '../shared/apparatus/coil-data.js';
 
 /** How a failed regulator drives its output: the output voltage climbs at `voltsPerSecond` (V/s). */
 export interface RunawayDrive {

@@ -1,5 +1,5 @@
 import { AXES, type Axis, type HardwareTripCause } from '../shared/telemetry/messages.js';
-import type { HardwareTripLevels } from './parameters.js';
+import type { HardwareTripLevels } from '../shared/apparatus/coil-data.js';
 
 /** What the trip chain's own sensors read for each axis (true values, not the telemetry). */
 export interface TripInputs {

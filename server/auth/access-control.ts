@@ -4,14 +4,20 @@ import { ExtractJwt, Strategy as JwtStrategy } from 'passport-jwt';
 import { hasRole, type Role } from '../../shared/auth/roles.js';
 import type { Db } from '../db/database.js';
 import { HttpError } from '../http/http-error.js';
-import { claimsOf, type TokenClaims, type TokenIssuer } from './tokens.js';
-import { findUserById } from './users-repository.js';
+import { claimsOf, type TokenIssuer, type VerifiedClaims } from './tokens.js';
+import { findUserById, isDemoAccount } from './users-repository.js';
 
 /** The person behind a request, as the database knows them now. */
 export interface SignedInUser {
   id: number;
   email: string;
   role: Role;
+}
+
+/** A WebSocket sign-in: the user and when the token expires (ms since the epoch). */
+export interface SocketSession {
+  user: SignedInUser;
+  expiresAt: number;
 }
 
 declare global {
@@ -25,7 +31,9 @@ declare global {
 /**
  * Who may do what: Bearer-token sign-in (passport-jwt) for the HTTP API and the same check
  * for the WebSocket. The role comes from the database, not from the token, so a changed role
- * or a removed account takes effect at the next request.
+ * or a removed account takes effect at the next request; a token is refused once its account is
+ * disabled or removed, or its token version (`tv`) is below the account's (raised by a role or
+ * password change and by disabling).
  */
 export class AccessControl {
   private readonly passport = new Passport();
@@ -33,6 +41,8 @@ export class AccessControl {
   constructor(
     private readonly db: Db,
     private readonly tokens: TokenIssuer,
+    /** Whether the demo accounts may be used (`--demo`). */
+    private readonly demoAccounts = false,
   ) {
     this.passport.use(
       'jwt',
@@ -45,9 +55,11 @@ export class AccessControl {
     );
   }
 
-  /** The signed-in user for a token (WebSocket sign-in); null when the token is not good. */
-  userForToken(token: string): Promise<SignedInUser | null> {
-    return this.userFor(this.tokens.verify(token));
+  /** The session for a token (WebSocket sign-in and re-checks); null when the token is not good (any more). */
+  async sessionForToken(token: string): Promise<SocketSession | null> {
+    const claims = this.tokens.verify(token);
+    const user = await this.userFor(claims);
+    return user && claims ? { user, expiresAt: claims.expiresAt } : null;
   }
 
   /**
@@ -71,10 +83,11 @@ export class AccessControl {
     };
   }
 
-  private async userFor(claims: TokenClaims | null): Promise<SignedInUser | null> {
+  private async userFor(claims: VerifiedClaims | null): Promise<SignedInUser | null> {
     if (!claims) return null;
     const user = await findUserById(this.db, claims.userId);
-    if (!user || user.email !== claims.email) return null;
+    if (!user || user.email !== claims.email || user.disabled || user.tokenVersion !== claims.tokenVersion) return null;
+    if (!this.demoAccounts && isDemoAccount(user.email)) return null;
     return { id: user.id, email: user.email, role: user.role };
   }
 }

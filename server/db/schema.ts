@@ -34,6 +34,7 @@ import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
+import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
 import type { AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
@@ -54,7 +55,31 @@ export const users = pgTable('users', {
   /** argon2id PHC string. */
   passwordHash: text('password_hash').notNull(),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  /** A disabled account cannot sign in and its tokens are refused. */
+  disabled: boolean('disabled').notNull().default(false),
+  /**
+   * Carried in every token as `tv`; raised when the account is disabled, its role or password
+   * changes, which revokes every token issued before.
+   */
+  tokenVersion: integer('token_version').notNull().default(0),
 });
+
+/** Sign-in throttling and other security events an admin reviews (Admin → Users). */
+export const securityEvents = pgTable(
+  'security_events',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+    /** e.g. `sign-in.account-delayed`, `sign-in.address-throttled`, `sign-in.throttle-lifted`. */
+    kind: text('kind').notNull(),
+    /** The account concerned (normalised e-mail), when there is one. */
+    email: text('email'),
+    /** The client address, when there is one. */
+    address: text('address'),
+    detail: jsonb('detail'),
+  },
+  (t) => [index('security_events_at').on(t.at)],
+);
 
 export const calibrations = pgTable(
   'calibrations',
@@ -268,6 +293,51 @@ export const interlockTrips = pgTable('interlock_trips', {
   resetReason: text('reset_reason'),
 });
 
+/** Sequences of steering steps, versioned by name; a stored version never changes. */
+export const sequences = pgTable(
+  'sequences',
+  {
+    id: serial('id').primaryKey(),
+    name: text('name').notNull(),
+    version: integer('version').notNull(),
+    steps: jsonb('steps').$type<SequenceStep[]>().notNull(),
+    createdBy: text('created_by').notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    reason: text('reason').notNull(),
+  },
+  (t) => [uniqueIndex('sequences_name_version').on(t.name, t.version)],
+);
+
+/** Runs of a sequence version. */
+export const runs = pgTable('runs', {
+  id: serial('id').primaryKey(),
+  sequenceId: integer('sequence_id').notNull().references(() => sequences.id),
+  state: text('state').$type<RunState>().notNull(),
+  startedAt: timestamp('started_at', { withTimezone: true }).notNull(),
+  endedAt: timestamp('ended_at', { withTimezone: true }),
+  step: integer('step').notNull().default(0),
+  actor: text('actor').notNull(),
+  reason: text('reason').notNull(),
+  endReason: text('end_reason'),
+});
+
+/** Shots of runs: the measured field and the prediction at the moment an image was taken. */
+export const shots = pgTable(
+  'shots',
+  {
+    /** Unique across the lab; written by the imaging analysis next to its images. */
+    id: text('id').primaryKey(),
+    runId: integer('run_id').notNull().references(() => runs.id),
+    stepIndex: integer('step_index').notNull(),
+    label: text('label').notNull(),
+    at: timestamp('at', { withTimezone: true }).notNull(),
+    field: jsonb('field').$type<ShotRecord['field']>().notNull(),
+    prediction: jsonb('prediction').$type<ShotPrediction>(),
+    profileId: integer('profile_id'),
+  },
+  (t) => [index('shots_run').on(t.runId)],
+);
+
 /** PostgreSQL text-search document (written by the database, never by the application). */
 const tsvector = customType<{ data: string }>({ dataType: () => 'tsvector' });
 const bytea = customType<{ data: Uint8Array; driverData: Uint8Array }>({ dataType: () => 'bytea' });
@@ -326,10 +396,14 @@ export const schema = {
   slowSamples,
   rollups1s,
   auditLog,
+  securityEvents,
   alarmLimits,
   levelSets,
   alarmEvents,
   interlockTrips,
+  sequences,
+  runs,
+  shots,
   logbookEntries,
   logbookAttachments,
 };

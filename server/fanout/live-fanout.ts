@@ -1,5 +1,6 @@
 import type { IncomingMessage, Server } from 'node:http';
 import type { Duplex } from 'node:stream';
+import { ipKeyGenerator } from 'express-rate-limit';
 import type { Logger } from 'pino';
 import { WebSocket, WebSocketServer } from 'ws';
 import { z } from 'zod';
@@ -7,19 +8,20 @@ import { hasRole, type Role } from '../../shared/auth/roles.js';
 import type { AlarmsMessage } from '../../shared/alarms/alarm-api.js';
 import type { ChannelBands } from '../../shared/live/channels.js';
 import type { ChannelsMessage, SeriesChunk, ServerMessage, SlowChunk } from '../../shared/live/live-state.js';
-import type { AccessControl, SignedInUser } from '../auth/access-control.js';
+import type { AccessControl, SignedInUser, SocketSession } from '../auth/access-control.js';
 import type { LiveStore } from '../live/live-store.js';
 import { appendSeriesChunk, appendSlowChunk, DECIMATED_RATE_HZ, emptySeriesChunk, emptySlowChunk } from '../live/series-chunk.js';
 import type { ChunkSink } from '../pipeline/telemetry-pipeline.js';
+import type { AccountEvents } from '../users/account-events.js';
 
 export const WS_PATH = '/ws';
-/** Close codes: sign-in missing, late or invalid / role too low. */
+/** Close codes: sign-in missing, late, invalid, expired or revoked / role too low. */
 export const WS_CLOSE_UNAUTHENTICATED = 4401;
 export const WS_CLOSE_FORBIDDEN = 4403;
-/** Standard close code 1013: try again later (too many unauthenticated connections). */
+/** Standard close code 1013: try again later (too many connections from one address). */
 export const WS_CLOSE_TRY_AGAIN_LATER = 1013;
-/** Connections allowed to wait for sign-in at once, so idle sockets cannot pile up. */
-const MAX_PENDING_SIGN_IN = 200;
+/** Longest delay a Node timer takes, ms. */
+const MAX_TIMER_MS = 2 ** 31 - 1;
 /** Everyone signed in may watch; the check stays explicit so a later change is one line. */
 const WATCH_ROLE: Role = 'viewer';
 
@@ -34,6 +36,12 @@ export interface FanoutOptions {
   maxBufferedBytes?: number;
   /** A client slow for this long is disconnected, ms. */
   maxSlowMs?: number;
+  /** Connections (waiting to sign in or signed in) allowed from one client address. */
+  maxSocketsPerAddress?: number;
+  /** Of those, connections allowed to wait for sign-in at once from one address. */
+  maxPendingPerAddress?: number;
+  /** How often every session is re-checked against the accounts, ms (catches changes made by another process). */
+  recheckIntervalMs?: number;
 }
 
 export interface FanoutCounters {
@@ -51,6 +59,8 @@ export interface FanoutCounters {
 interface Viewer {
   ws: WebSocket;
   user: SignedInUser;
+  token: string;
+  expiryTimer: NodeJS.Timeout;
   slowSince: number | null;
 }
 
@@ -63,11 +73,21 @@ interface Viewer {
  * (their points are gone for it; the charts reload history) and is dropped if that lasts; the
  * pipeline only appends to one shared chunk, so neither the number of browsers nor a slow one
  * can slow ingest.
+ *
+ * Sessions: a socket is closed (4401) when its token expires, and re-checked when its account
+ * changes (disabled, role or password changed, removed: the token is revoked → 4401; a role
+ * below viewer → 4403; a role changed in place → a new `hello`) and every `recheckIntervalMs`.
+ * Connections are capped per client address (1013 beyond the cap), so idle sockets from one
+ * place cannot lock out viewers elsewhere.
  */
 export class LiveFanout implements ChunkSink {
   private readonly wss = new WebSocketServer({ noServer: true, maxPayload: 8 * 1024 });
   private readonly viewers = new Set<Viewer>();
   private readonly waiting = new Map<WebSocket, NodeJS.Timeout>();
+  /** Open connections per client address: all, and those still waiting to sign in. */
+  private readonly perAddress = new Map<string, { open: number; pending: number }>();
+  private readonly recheckTimer: NodeJS.Timeout;
+  private readonly stopAccountEvents: () => void;
   private readonly counts = { messagesSent: 0, skippedUpdates: 0, droppedClients: 0 };
   /** Chart points gathered since the last `live` message, the same for every client. */
   private series = emptySeriesChunk();
@@ -88,9 +108,22 @@ export class LiveFanout implements ChunkSink {
     private readonly live: LiveStore,
     private readonly log: Logger,
     opts: FanoutOptions = {},
+    accountEvents?: AccountEvents,
   ) {
-    this.opts = { authTimeoutMs: 5000, minIntervalMs: 33, maxBufferedBytes: 1 << 20, maxSlowMs: 10_000, ...opts };
+    this.opts = {
+      authTimeoutMs: 5000,
+      minIntervalMs: 33,
+      maxBufferedBytes: 1 << 20,
+      maxSlowMs: 10_000,
+      maxSocketsPerAddress: 32,
+      maxPendingPerAddress: 8,
+      recheckIntervalMs: 60_000,
+      ...opts,
+    };
     server.on('upgrade', this.onUpgrade);
+    this.stopAccountEvents = accountEvents?.onChange((userId) => this.recheck((v) => v.user.id === userId)) ?? (() => {});
+    this.recheckTimer = setInterval(() => this.recheck(() => true), this.opts.recheckIntervalMs);
+    this.recheckTimer.unref();
   }
 
   /**
@@ -141,6 +174,8 @@ export class LiveFanout implements ChunkSink {
     if (this.tickTimer) clearTimeout(this.tickTimer);
     this.tickTimer = null;
     this.server.off('upgrade', this.onUpgrade);
+    this.stopAccountEvents();
+    clearInterval(this.recheckTimer);
     for (const [ws, timer] of this.waiting) {
       clearTimeout(timer);
       ws.terminate();
@@ -157,14 +192,29 @@ export class LiveFanout implements ChunkSink {
       socket.end('HTTP/1.1 404 Not Found\r\nConnection: close\r\n\r\n');
       return;
     }
-    this.wss.handleUpgrade(req, socket, head, (ws) => this.awaitSignIn(ws));
+    const address = ipKeyGenerator(req.socket.remoteAddress ?? 'unknown');
+    this.wss.handleUpgrade(req, socket, head, (ws) => this.awaitSignIn(ws, address));
   }
 
-  private awaitSignIn(ws: WebSocket): void {
-    if (this.waiting.size >= MAX_PENDING_SIGN_IN) {
-      ws.close(WS_CLOSE_TRY_AGAIN_LATER, 'too many connections waiting to sign in');
+  private awaitSignIn(ws: WebSocket, address: string): void {
+    const count = this.perAddress.get(address) ?? { open: 0, pending: 0 };
+    if (count.open >= this.opts.maxSocketsPerAddress || count.pending >= this.opts.maxPendingPerAddress) {
+      ws.close(WS_CLOSE_TRY_AGAIN_LATER, 'too many connections from this address');
       return;
     }
+    count.open++;
+    count.pending++;
+    this.perAddress.set(address, count);
+    let pending = true;
+    const signedIn = () => {
+      if (pending) count.pending--;
+      pending = false;
+    };
+    ws.once('close', () => {
+      signedIn();
+      count.open--;
+      if (count.open === 0) this.perAddress.delete(address);
+    });
     const timer = setTimeout(() => this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'sign-in timed out: send {"type":"auth","token":…} first'), this.opts.authTimeoutMs);
     this.waiting.set(ws, timer);
     ws.on('error', (error) => this.log.debug({ err: error }, 'websocket error'));
@@ -179,8 +229,12 @@ export class LiveFanout implements ChunkSink {
         this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'the first message must be {"type":"auth","token":…}');
         return;
       }
-      this.access.userForToken(parsed.data.token).then(
-        (user) => this.admit(ws, user),
+      const token = parsed.data.token;
+      this.access.sessionForToken(token).then(
+        (session) => {
+          signedIn();
+          this.admit(ws, token, session);
+        },
         (error: unknown) => {
           this.log.error({ err: error }, 'websocket sign-in failed');
           this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'sign-in failed');
@@ -189,23 +243,58 @@ export class LiveFanout implements ChunkSink {
     });
   }
 
-  private admit(ws: WebSocket, user: SignedInUser | null): void {
+  private admit(ws: WebSocket, token: string, session: SocketSession | null): void {
     this.waiting.delete(ws);
     if (ws.readyState !== WebSocket.OPEN) return;
-    if (!user) return this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'invalid or expired token: sign in again');
+    if (!session) return this.refuse(ws, WS_CLOSE_UNAUTHENTICATED, 'invalid or expired token: sign in again');
+    const { user } = session;
     if (!hasRole(user.role, WATCH_ROLE)) return this.refuse(ws, WS_CLOSE_FORBIDDEN, `watching needs the ${WATCH_ROLE} role`);
-    const viewer: Viewer = { ws, user, slowSince: null };
+    const expiresInMs = Math.min(MAX_TIMER_MS, Math.max(0, session.expiresAt - Date.now()));
+    const expiryTimer = setTimeout(() => this.end(viewer, WS_CLOSE_UNAUTHENTICATED, 'session expired: sign in again'), expiresInMs);
+    const viewer: Viewer = { ws, user, token, expiryTimer, slowSince: null };
     this.viewers.add(viewer);
     ws.on('close', () => this.forget(viewer));
-    this.sendMessage(ws, {
-      type: 'hello',
-      user: { email: user.email, role: user.role },
-      serverTime: new Date().toISOString(),
-      decimatedRateHz: DECIMATED_RATE_HZ,
-    });
+    this.hello(viewer);
     if (this.alarms) this.sendMessage(ws, this.alarms);
     if (this.channels) this.sendMessage(ws, this.channels);
     this.sendMessage(ws, { type: 'live', live: this.live.snapshot(), series: emptySeriesChunk(), slow: emptySlowChunk() });
+  }
+
+  private hello(viewer: Viewer): void {
+    this.sendMessage(viewer.ws, {
+      type: 'hello',
+      user: { email: viewer.user.email, role: viewer.user.role },
+      serverTime: new Date().toISOString(),
+      decimatedRateHz: DECIMATED_RATE_HZ,
+    });
+  }
+
+  /**
+   * Re-checks the sessions `which` selects against the accounts as stored now: closes those
+   * whose token was revoked or whose account is gone or disabled, and re-greets those whose
+   * role changed in place.
+   */
+  private recheck(which: (viewer: Viewer) => boolean): void {
+    for (const viewer of this.viewers) {
+      if (!which(viewer)) continue;
+      this.access.sessionForToken(viewer.token).then(
+        (session) => {
+          if (!this.viewers.has(viewer)) return;
+          if (!session) return this.end(viewer, WS_CLOSE_UNAUTHENTICATED, 'your session ended (account or role changed): sign in again');
+          if (!hasRole(session.user.role, WATCH_ROLE)) return this.end(viewer, WS_CLOSE_FORBIDDEN, `watching needs the ${WATCH_ROLE} role`);
+          if (session.user.role !== viewer.user.role) {
+            viewer.user = session.user;
+            this.hello(viewer);
+          }
+        },
+        (error: unknown) => this.log.error({ err: error }, 'websocket session re-check failed'),
+      );
+    }
+  }
+
+  private end(viewer: Viewer, code: number, reason: string): void {
+    this.forget(viewer);
+    if (viewer.ws.readyState === WebSocket.OPEN) viewer.ws.close(code, reason);
   }
 
   private refuse(ws: WebSocket, code: number, reason: string): void {
@@ -263,6 +352,7 @@ export class LiveFanout implements ChunkSink {
   }
 
   private forget(viewer: Viewer): void {
+    clearTimeout(viewer.expiryTimer);
     this.viewers.delete(viewer);
   }
 }

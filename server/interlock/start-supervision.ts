@@ -26,7 +26,7 @@ import { outboxHandlers } from '../notify/outbox-routes.js';
 import { Interlock } from './interlock.js';
 import { interlockTrips, parseInterlockConfig } from './interlock-config.js';
 import { interlockHandlers } from './interlock-routes.js';
-import { Supervisor, type AlarmsSink } from './supervisor.js';
+import { Supervisor, type AlarmsSink, type SteeringContext } from './supervisor.js';
 import { openTrip } from './trip-repository.js';
 
 /** The lab named in notice subjects (the demo scenario). */
@@ -49,6 +49,8 @@ export interface Supervision {
   interlock: Interlock;
   /** On-call mail (the handover summary goes out through it). */
   mailer: Mailer;
+  /** The level set in force (steering's pre-flight reads its trip levels and operating settings). */
+  levels: LevelStore;
   handlers: Pick<RouteHandlers, SupervisionRoutes>;
   /** Stops evaluating, writes what is queued, closes the mailer and the local mailbox. */
   close(): Promise<void>;
@@ -67,8 +69,10 @@ export async function startSupervision(deps: {
   log: Logger;
   /** Seconds the PostgreSQL server has been unreachable (the `databaseOutage` alarm); absent with PGlite. */
   databaseOutageS?: () => number;
+  /** The target in force and whether a ramp is programmed (steering). */
+  steering?: SteeringContext;
 }): Promise<Supervision> {
-  const { db, live, sink, config, log } = deps;
+  const { db, live, sink, config, log, steering } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
   const levels = await LevelStore.load(db);
   const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs, ...interlockTrips(levels.inForce().levels.trips) }));
@@ -108,7 +112,7 @@ export async function startSupervision(deps: {
     const notice = parseNoticeOptions({ onCall: config.mail.onCall, site: SITE });
     const notifier = new OnCallNotifier(mailer, notice, (id) => book.limits().find((l) => l.id === id));
     const outage = deps.databaseOutageS;
-    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log, extras: outage ? () => ({ databaseOutageS: outage() }) : undefined });
+    const supervisor = new Supervisor({ live, interlock, book, records, notifier, sink, log, extras: outage ? () => ({ databaseOutageS: outage() }) : undefined, steering });
     closers.push(() => supervisor.close());
 
     return {
@@ -116,6 +120,7 @@ export async function startSupervision(deps: {
       book,
       interlock,
       mailer,
+      levels,
       handlers: {
         ...alarmHandlers({ db, book, records, announce: () => supervisor.announce() }),
         ...alarmLimitHandlers(db, book, levels, publishBands),

@@ -8,6 +8,7 @@
  */
 import type { Logger } from 'pino';
 import type { AlarmsMessage } from '../../shared/alarms/alarm-api.js';
+import type { Vec3 } from '../../shared/field/field-vector.js';
 import type { PerAxis } from '../../shared/live/live-state.js';
 import { AXES, type FastFrame, type ReleaseCommand, type TripCommand } from '../../shared/telemetry/messages.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
@@ -27,6 +28,11 @@ export interface CommandLink {
   publish(topic: string, payload: string, qos: 0 | 1): void;
 }
 
+/** What steering tells the alarms at a moment: the target direction (trap frame) and whether a ramp is programmed. */
+export interface SteeringContext {
+  alarmContext(nowMs: number): { targetDirection: Vec3 | null; rampProgrammed: boolean };
+}
+
 /** Where changes of the interlock state and the active alarm list go (the WebSocket fan-out). */
 export interface AlarmsSink {
   publishAlarms(message: AlarmsMessage): void;
@@ -44,6 +50,8 @@ export interface SupervisorDeps {
   extras?: () => ChannelExtras;
   /** Server clock, Unix epoch ms (default `Date.now`). */
   now?: () => number;
+  /** The target in force and whether a ramp is programmed (steering); none when absent. */
+  steering?: SteeringContext;
   /** Period of the timer evaluation, ms (default 20: silence is seen within the stale limit + 20 ms). */
   tickMs?: number;
 }
@@ -108,7 +116,8 @@ export class Supervisor {
     const { live, interlock, book, records, notifier, log } = this.deps;
     try {
       const state = live.snapshot();
-      const values = channelValues(state, nowMs, this.deps.extras?.());
+      const steering = this.deps.steering?.alarmContext(nowMs) ?? { targetDirection: null, rampProgrammed: false };
+      const values = channelValues(state, nowMs, { ...this.deps.extras?.(), targetDirection: steering.targetDirection });
       if (this.peakCurrent && state.currents) {
         for (const axis of AXES) values[`current.${axis}`] = this.peakCurrent[axis];
       }
@@ -118,8 +127,7 @@ export class Supervisor {
       if (values.stale !== undefined) values.stale = Math.max(0, values.stale - this.pausedMs);
       const trip = interlock.evaluate(inputs, nowMs);
       if (trip) this.sendTrip(trip.reason, nowMs);
-      // Steering (programmed ramps) arrives later; until then no ramp suppresses an alarm.
-      const events = book.evaluate(values, nowMs, { rampProgrammed: false });
+      const events = book.evaluate(values, nowMs, { rampProgrammed: steering.rampProgrammed });
       if (trip) {
         log.warn({ firstOut: trip.firstOut }, 'software interlock tripped');
         records.addTrip(trip);

@@ -31,6 +31,11 @@ export class LivePredictionFeed {
     });
   }
 
+  /** The active profile, or null before the first `setProfile`. */
+  activeProfile(): ProfileRecord | null {
+    return this.profile;
+  }
+
   /** The active profile's id, or null before the first `setProfile`. */
   activeProfileId(): number | null {
     return this.profile?.id ?? null;

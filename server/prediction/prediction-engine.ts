@@ -20,6 +20,8 @@ export interface PredictionEngineOptions {
   minIntervalMs?: number;
   /** Cell size of the ε_dd,crit cache, degrees (default 1). */
   criticalCellDeg?: number;
+  /** ε_dd,crit cache, shared with the path predictions of steering (default a private one). */
+  criticalCache?: CriticalCache;
 }
 
 /** What the engine has done so far; read by tests, health and benchmarks. */
@@ -85,7 +87,7 @@ export class PredictionEngine {
   private readonly minIntervalMs: number;
   private readonly cellDeg: number;
   private readonly log: PredictionEngineOptions['log'];
-  private readonly cache = new CriticalCache();
+  private readonly cache: CriticalCache;
   private readonly listeners = new Set<(p: LivePrediction) => void>();
   private readonly count: PredictionCounters = {
     directionUpdates: 0, belowThreshold: 0, coalesced: 0, predictions: 0, criticalComputations: 0, staleResults: 0, failures: 0, workerRestarts: 0,
@@ -115,6 +117,7 @@ export class PredictionEngine {
     this.thresholdDeg = options.thresholdDeg ?? 0.2;
     this.minIntervalMs = options.minIntervalMs ?? 100;
     this.cellDeg = options.criticalCellDeg ?? 1;
+    this.cache = options.criticalCache ?? new CriticalCache();
     this.log = options.log;
     this.spawnWorker();
   }

@@ -44,13 +44,14 @@ export function testConfig(dataDir: string, env: NodeJS.ProcessEnv = {}): Server
 }
 
 /**
- * Starts a real server (embedded broker, PGlite) on free ports in `dataDir`; in the external
- * pass with a fresh PostgreSQL database and its own mosquitto (see external-services.ts).
+ * Starts a real server (embedded broker, PGlite) on free ports in `dataDir`, with the demo
+ * accounts unless `opts` says otherwise; in the external pass with a fresh PostgreSQL database
+ * and its own mosquitto (see external-services.ts).
  */
 export async function startTestServer(dataDir: string, opts?: StartOptions, env?: NodeJS.ProcessEnv): Promise<RunningServer> {
   const services = await externalServices(dataDir);
   try {
-    return withServices(await startServer(testConfig(dataDir, { ...services.env, ...env }), opts), services);
+    return withServices(await startServer(testConfig(dataDir, { ...services.env, ...env }), { demoAccounts: true, ...opts }), services);
   } catch (error) {
     await services.close();
     throw error;

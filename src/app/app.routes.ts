@@ -25,6 +25,12 @@ export const routes: Routes = [
         title: 'Sample profiles · Tiltwatch',
         loadComponent: () => import('./profiles/profiles-page').then((m) => m.ProfilesPage),
       },
+      { path: 'steer', title: 'Steer · Tiltwatch', loadComponent: () => import('./steering/steer-page').then((m) => m.SteerPage) },
+      {
+        path: 'sequences',
+        title: 'Sequences · Tiltwatch',
+        loadComponent: () => import('./sequences/sequences-page').then((m) => m.SequencesPage),
+      },
       { path: 'alarms', title: 'Alarms · Tiltwatch', loadComponent: () => import('./alarms/alarms-page').then((m) => m.AlarmsPage) },
       {
         path: 'interlocks',

@@ -32,6 +32,7 @@ export interface StackOptions {
 export async function startStack(options: StackOptions = {}): Promise<Stack> {
   const dataDir = await mkdtemp(join(tmpdir(), 'tiltwatch-test-'));
   const services = await externalServices(dataDir);
+  // A copy of the migrated template cluster: creating one from scratch takes half a minute on a busy machine.
   if (!services.env.DATABASE_URL && !options.env?.DATABASE_URL) await seedPglite(dataDir);
   const config = loadConfig({
     PORT: '0',
@@ -41,7 +42,7 @@ export async function startStack(options: StackOptions = {}): Promise<Stack> {
     ...services.env,
     ...options.env,
   });
-  const server = withServices(await startServer(config), services);
+  const server = withServices(await startServer(config, { demoAccounts: true }), services);
   let simulator: RunningSimulator | null = null;
   if (options.simulator !== false) {
     const account = server.brokerCredentials?.controller;

@@ -205,7 +205,7 @@ export class ChartPanel {
  * The used value of a colour custom property (canvas cannot read `var()` or `light-dark()`):
  * a probe element resolves it the way the page does.
  */
-function resolveColor(host: HTMLElement, property: string): string {
+export function resolveColor(host: HTMLElement, property: string): string {
   const probe = document.createElement('span');
   probe.style.color = `var(${property})`;
   host.appendChild(probe);
@@ -231,7 +231,7 @@ function zeroBasedRange(min: number | null, max: number | null): uPlot.Range.Min
 }
 
 /** Decimals that tell neighbouring tick values apart (2.5 → 1, 0.05 → 2, 10 → 0). */
-function decimalsFor(splits: number[]): number {
+export function decimalsFor(splits: number[]): number {
   const step = splits.length > 1 ? Math.abs(splits[1] - splits[0]) : 1;
   for (let decimals = 0; decimals < 4; decimals++) {
     const scaled = step * 10 ** decimals;

@@ -15,6 +15,7 @@ import { ChannelBandsSource } from '../gauges/channel-bands';
 import { CoilStrip } from './coil-strip';
 import { ControllerStatus } from './controller-status';
 import { FieldPanel } from './field-panel';
+import { SteerTarget } from './steer-target';
 
 const AXIS_LINES = [
   { axis: 'X', color: '--tw-series-1' },
@@ -25,7 +26,7 @@ const AXIS_LINES = [
 /** The Live page: field, prediction, coils, controller state and charts of the recent past. */
 @Component({
   selector: 'tw-live-page',
-  imports: [ChartPanel, CoilStrip, ControllerStatus, FieldPanel, MatButtonModule, MatButtonToggleModule, MatIconModule, PredictionPanel],
+  imports: [ChartPanel, CoilStrip, ControllerStatus, FieldPanel, MatButtonModule, MatButtonToggleModule, MatIconModule, PredictionPanel, SteerTarget],
   providers: [TelemetryHistory, PredictionSeries],
   templateUrl: './live-page.html',
   styleUrl: './live-page.scss',

@@ -34,6 +34,8 @@ export class MapView {
   readonly map = input.required<ComputedMap>();
   readonly scale = input.required<ColorScale>();
   readonly present = input<PresentDirection | null>(null);
+  /** A planned path to draw over the map (directions in the map's frame), start to end. */
+  readonly path = input<readonly PresentDirection[]>([]);
 
   private readonly canvas = viewChild.required<ElementRef<HTMLCanvasElement>>('canvas');
   private readonly pixelSize = signal({ width: 0, height: 0 });
@@ -54,6 +56,26 @@ export class MapView {
     if (!p) return null;
     const at = (theta: number, phi: number) => ({ left: (100 * (((phi % 360) + 360) % 360)) / 360, top: (100 * theta) / 180 });
     return { main: at(p.thetaDeg, p.phiDeg), mirror: at(180 - p.thetaDeg, p.phiDeg + 180) };
+  });
+
+  /** The path as polylines in percent of the plot, split where it crosses φ = 0°/360°. */
+  protected readonly pathLines = computed(() => {
+    const lines: string[] = [];
+    let current: string[] = [];
+    let lastPhi: number | null = null;
+    for (const p of this.path()) {
+      const phi = ((p.phiDeg % 360) + 360) % 360;
+      if (lastPhi !== null && Math.abs(phi - lastPhi) > 180) {
+        if (current.length > 1) lines.push(current.join(' '));
+        current = [];
+      }
+      current.push(`${((100 * phi) / 360).toFixed(3)},${((100 * p.thetaDeg) / 180).toFixed(3)}`);
+      lastPhi = phi;
+    }
+    if (current.length > 1) lines.push(current.join(' '));
+    const all = this.path();
+    const end = all.at(-1);
+    return { lines, end: end ? { left: (100 * (((end.phiDeg % 360) + 360) % 360)) / 360, top: (100 * end.thetaDeg) / 180 } : null };
   });
 
   protected readonly cursorBox = computed(() => {

@@ -13,7 +13,7 @@
 import { writeFileSync } from 'node:fs';
 import mqtt from 'mqtt';
 import { TOPICS } from '../../../shared/telemetry/topics.js';
-import { DEMO_PARAMETERS } from '../../../simulator/parameters.js';
+import { DEMO_PARAMETERS } from '../../../shared/apparatus/coil-data.js';
 import { Simulation } from '../../../simulator/simulation.js';
 
 interface Args {

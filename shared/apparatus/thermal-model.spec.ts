@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { DEMO_PARAMETERS } from './parameters.js';
-import { coilTemperatureAfter, cooling, conductanceAtFlow, WATER_CP_J_PER_KG_K, WATER_DENSITY_KG_PER_L } from './thermal-model.js';
+import { DEMO_PARAMETERS } from './coil-data.js';
+import { coilTemperatureAfter, cooling, conductanceAtFlow, steadyCoilTemperature, WATER_CP_J_PER_KG_K, WATER_DENSITY_KG_PER_L } from './thermal-model.js';
 
 /** ṁ·c_p of 3 L/min of water: 3/60 L/s · 0.99705 kg/L · 4181 J/(kg·K) = 208.433 W/K. */
 const CP_WATER = 4181; // J/(kg·K) at 25 °C, CRC Handbook of Chemistry and Physics (from memory)
@@ -59,5 +59,32 @@ describe('coil cooling', () => {
     expect(conductanceAtFlow(5, 3, 3)).toBe(5);
     expect(conductanceAtFlow(5, 3, 1.5)).toBeCloseTo(5 * 0.5 ** 0.8, 12); // Dittus–Boelter exponent (from memory)
     expect(conductanceAtFlow(5, 3, 0)).toBe(0);
+  });
+});
+
+describe('steady coil temperature', () => {
+  it('matches a hand calculation for the demo x pair at 10 A', () => {
+    // By hand: ṁc_p = 3.2/60 L/s · 0.99705 kg/L · 4181 J/(kg·K) = 222.33 W/K;
+    // k = (1 − e^(−5/222.33))·222.33 = 4.944 W/K; I²R20 = 100 · 0.41 = 41 W;
+    // T = (k·18 + 41·(1 − 20·0.00393)) / (k − 41·0.00393) = (88.99 + 37.78) / 4.783 = 26.51 °C.
+    const coil = DEMO_PARAMETERS.coils.x;
+    const t = steadyCoilTemperature(10, coil.r20Ohm, 0.00393, 18, coil.nominalFlowLpm, coil.conductanceWPerK);
+    expect(t).toBeCloseTo(26.5, 1);
+  });
+
+  it('is the supply temperature without current and runs away when cooling cannot keep up', () => {
+    expect(steadyCoilTemperature(0, 0.41, 0.00393, 18, 3.2, 5)).toBe(18);
+    expect(steadyCoilTemperature(5, 0.41, 0.00393, 18, 0, 5)).toBe(Infinity);
+  });
+
+  it('agrees with the end point of the time-stepped model', () => {
+    // The transient solution of coilTemperatureAfter with R(T) updated each step settles on it.
+    const coil = DEMO_PARAMETERS.coils.y;
+    let t = 18;
+    for (let i = 0; i < 20_000; i++) {
+      const power = 15 * 15 * coil.r20Ohm * (1 + 0.00393 * (t - 20));
+      t = coilTemperatureAfter(t, power, 18, coil.nominalFlowLpm, coil.conductanceWPerK, coil.heatCapacityJPerK, 1);
+    }
+    expect(steadyCoilTemperature(15, coil.r20Ohm, 0.00393, 18, coil.nominalFlowLpm, coil.conductanceWPerK)).toBeCloseTo(t, 6);
   });
 });

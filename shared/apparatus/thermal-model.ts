@@ -80,3 +80,27 @@ export function coilTemperatureAfter(
   const steady = supplyC + powerW / k;
   return steady + (coilC - steady) * Math.exp((-k * dtS) / heatCapacityJPerK);
 }
+
+/**
+ * Steady winding temperature (°C) for a constant current `currentA` (A) through a winding of
+ * `r20Ohm` (Ω at 20 °C, copper temperature coefficient `alphaPerK`), cooled by water at
+ * `supplyC` (°C) and `flowLpm` (L/min) through conductance `conductanceWPerK` (W/K at that flow).
+ * In steady state the ohmic heat equals the cooling: I²·R20·(1 + α(T − 20 °C)) = k·(T − T_supply),
+ * which is linear in T. Infinity when the cooling cannot keep up at any temperature (no flow,
+ * or I²·R20·α ≥ k: thermal runaway).
+ */
+export function steadyCoilTemperature(
+  currentA: number,
+  r20Ohm: number,
+  alphaPerK: number,
+  supplyC: number,
+  flowLpm: number,
+  conductanceWPerK: number,
+): number {
+  const k = coolingCoefficient(flowLpm, conductanceWPerK);
+  const p20 = currentA * currentA * r20Ohm;
+  if (p20 === 0) return supplyC;
+  const denominator = k - p20 * alphaPerK;
+  if (!(denominator > 0)) return Infinity;
+  return (k * supplyC + p20 * (1 - 20 * alphaPerK)) / denominator;
+}

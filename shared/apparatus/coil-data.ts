@@ -1,5 +1,5 @@
-import { CURRENT_ADC, VOLTAGE_ADC, type AdcRange } from '../shared/telemetry/adc.js';
-import type { Axis } from '../shared/telemetry/messages.js';
+import { CURRENT_ADC, VOLTAGE_ADC, type AdcRange } from '../telemetry/adc.js';
+import type { Axis } from '../telemetry/messages.js';
 
 /**
  * Parameters of the simulated field-orientation controller. The demo values below describe the
@@ -55,6 +55,8 @@ export interface AdcParameters {
 
 export interface ControllerParameters {
   coils: Record<Axis, CoilParameters>;
+  /** Largest |B| the apparatus is built and rated for, G. */
+  maxFieldG: number;
   /** Fast-channel converters: samples are reported as whole converter steps, clipped at full scale. */
   adc: AdcParameters;
   supply: SupplyParameters;
@@ -86,6 +88,7 @@ const coil = (r20Ohm: number, nominalFlowLpm: number): CoilParameters => ({
  */
 export const DEMO_PARAMETERS: ControllerParameters = {
   coils: { x: coil(0.41, 3.2), y: coil(0.39, 3.0), z: coil(0.42, 2.8) },
+  maxFieldG: 20,
   // 20-bit converters over ±25 A and ±25 V: one step is 47.7 µA / 47.7 µV (shared/telemetry/adc.ts).
   adc: { currentA: CURRENT_ADC, voltageV: VOLTAGE_ADC },
   supply: { currentLimitA: 22, slewLimitAPerS: 20, complianceV: 14 },

@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
 import { COPPER_ALPHA_PER_K, coilCurrentAfter, resistanceAt } from './coil-model.js';
-import { Supply } from './supply-model.js';
 
 describe('copper winding resistance', () => {
   it('uses the IEC 60028 temperature coefficient of annealed copper', () => {
@@ -29,16 +28,6 @@ describe('first-order current response', () => {
     for (let k = 0; k < Math.round(tauS / dtS); k++) i = coilCurrentAfter(i, 4, r, l, dtS);
     // Solution of L·dI/dt = V − R·I (textbook first-order system): I(τ) = (V/R)(1 − e⁻¹)
     expect(i / (4 / r)).toBeCloseTo(1 - Math.exp(-1), 9); // 0.63212 (1 − e⁻¹)
-  });
-
-  it('follows a setpoint step through the supply with the coil time constant L/R', () => {
-    const supply = new Supply({ currentLimitA: 22, slewLimitAPerS: 1e6, complianceV: 14 });
-    let i = 0;
-    for (let k = 0; k < Math.round(tauS / dtS); k++) {
-      const v = supply.step(10, r, dtS, null, false);
-      i = coilCurrentAfter(i, v, r, l, dtS);
-    }
-    expect(i / 10).toBeCloseTo(1 - Math.exp(-1), 9); // 1 − e⁻¹
   });
 
   it('settles on V/R', () => {

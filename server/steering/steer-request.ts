@@ -1,0 +1,45 @@
+/**
+ * Request bodies of the steering, sequence and run routes, checked at the edge. Messages name
+ * each field the way the screens label it.
+ */
+import { z } from 'zod';
+import { MAX_RAMP_MS, MAX_TARGET_GAUSS } from '../../shared/steering/target.js';
+import { textProblem } from '../../shared/validation/edge-rules.js';
+import { reasonText } from '../http/fields.js';
+
+/** Trimmed text of 1…`max` characters, with the shared edge rules (no NUL, control characters or lone surrogates). */
+export function text(label: string, max: number) {
+  return z
+    .string({ error: `${label} must be text` })
+    .superRefine((s, ctx) => {
+      const problem = textProblem(s);
+      if (problem) ctx.addIssue({ code: 'custom', message: `${label} ${problem}`, abort: true });
+    })
+    .trim()
+    .min(1, `${label} must not be empty`)
+    .max(max, `${label} must be at most ${max} characters`);
+}
+
+const number = (label: string, unit: string, min: number, max: number, maxExclusive = false) => {
+  const base = z.number({ error: `${label} must be a number${unit ? ` in ${unit}` : ''}` }).min(min, `${label} must be at least ${min}${unit ? ` ${unit}` : ''}`);
+  return maxExclusive
+    ? base.lt(max, `${label} must be below ${max}${unit ? ` ${unit}` : ''}`)
+    : base.max(max, `${label} must be at most ${max}${unit ? ` ${unit}` : ''}`);
+};
+
+export const reason = reasonText();
+
+export const magnitudeG = number('|B|', 'G', 0, MAX_TARGET_GAUSS);
+export const thetaDeg = number('θ', '°', 0, 180);
+export const phiDeg = number('φ', '°', 0, 360, true);
+
+export const SteerRequestBody = z.strictObject({
+  magnitudeG,
+  thetaDeg,
+  phiDeg,
+  rampMs: number('Ramp time', 'ms', 0, MAX_RAMP_MS),
+  reason,
+});
+
+export const ReasonBody = z.strictObject({ reason });
+

@@ -1,0 +1,137 @@
+import { spawn } from 'node:child_process';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { projectRoot } from '../project-root.js';
+import type { RunningServer } from '../server.js';
+import { makeDataDir, removeDataDir, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
+
+interface Run {
+  code: number | null;
+  stdout: string;
+  stderr: string;
+}
+
+/** Runs the users command as `npm run users` does, in a child process, with `input` on standard input. */
+function users(dataDir: string, args: string[], input: string): Promise<Run> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, ['--import', 'tsx', path.join('server', 'users', 'users-cli.ts'), ...args], {
+      cwd: projectRoot(),
+      env: { ...process.env, TILTWATCH_DATA_DIR: dataDir, DATABASE_URL: '', LOG_LEVEL: 'silent' },
+      stdio: ['pipe', 'pipe', 'pipe'],
+    });
+    let stdout = '';
+    let stderr = '';
+    child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
+    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
+    child.on('error', reject);
+    child.on('close', (code) => resolve({ code, stdout, stderr }));
+    child.stdin.end(input);
+  });
+}
+
+const login = async (server: RunningServer, email: string, password: string) => {
+  const res = await fetch(`${server.url}/api/auth/login`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email, password }),
+  });
+  return { status: res.status, body: (await res.json()) as { user?: { role: string } } };
+};
+
+// Each case starts child processes (and sometimes a server); allow for a busy machine.
+describe('accounts without --demo and the users command', { timeout: 120_000 }, () => {
+  let dir: string;
+
+  beforeAll(async () => {
+    dir = await makeDataDir();
+  });
+  afterAll(() => removeDataDir(dir));
+
+  it('starts without any account unless asked for the demo accounts', async () => {
+    const server = await startTestServer(dir, { demoAccounts: false });
+    try {
+      expect(server.hasAdmin).toBe(false);
+      expect(server.seededDemoAccounts).toBe(false);
+      expect((await login(server, 'admin@tiltwatch.example', TEST_PASSWORD)).status).toBe(401);
+    } finally {
+      await server.close();
+    }
+  });
+
+  it('lets the demo accounts sign in only while started with the demo accounts', async () => {
+    const other = await makeDataDir();
+    try {
+      const demo = await startTestServer(other, { demoAccounts: true });
+      expect(demo.seededDemoAccounts).toBe(true);
+      const token = ((await login(demo, 'admin@tiltwatch.example', TEST_PASSWORD)).body as { token: string }).token;
+      await demo.close();
+      const real = await startTestServer(other, { demoAccounts: false });
+      try {
+        expect(real.hasAdmin).toBe(false);
+        expect((await login(real, 'admin@tiltwatch.example', TEST_PASSWORD)).status).toBe(401);
+        expect((await fetch(`${real.url}/api/auth/me`, { headers: { authorization: `Bearer ${token}` } })).status).toBe(401);
+      } finally {
+        await real.close();
+      }
+      const again = await startTestServer(other, { demoAccounts: true });
+      try {
+        expect((await login(again, 'admin@tiltwatch.example', TEST_PASSWORD)).status).toBe(200);
+      } finally {
+        await again.close();
+      }
+    } finally {
+      removeDataDir(other);
+    }
+  });
+
+  it('creates the first admin with the password from standard input; the server signs it in', async () => {
+    const run = await users(dir, ['add', 'First.Admin@Lindqvist-Hall.example', '--role', 'admin'], 'first admin pass phrase\nignored second line\n');
+    expect(run.stderr).toBe('');
+    expect(run.code).toBe(0);
+    expect(run.stdout).toMatch(/Added first\.admin@lindqvist-hall\.example \(admin\)/);
+    const listed = await users(dir, ['list'], '');
+    expect(listed.stdout).toMatch(/first\.admin@lindqvist-hall\.example\tadmin/);
+
+    const server = await startTestServer(dir, { demoAccounts: true });
+    try {
+      // An account exists, so --demo adds no demo accounts to this database.
+      expect(server.seededDemoAccounts).toBe(false);
+      const signedIn = await login(server, 'first.admin@lindqvist-hall.example', 'first admin pass phrase');
+      expect(signedIn.status).toBe(200);
+      expect(signedIn.body.user?.role).toBe('admin');
+
+      // While the server holds the data folder, the command refuses politely and changes nothing.
+      const refused = await users(dir, ['add', 'second@lindqvist-hall.example', '--role', 'viewer'], 'second pass phrase\n');
+      expect(refused.code).toBe(2);
+      expect(refused.stderr).toMatch(/in use by Tiltwatch process .*stop the server to use this command/s);
+      expect((await login(server, 'second@lindqvist-hall.example', 'second pass phrase')).status).toBe(401);
+    } finally {
+      await server.close();
+    }
+  });
+
+  it.each([
+    ['an unknown role', ['add', 'x@lindqvist-hall.example', '--role', 'owner'], 'long enough password\n', 2, /--role must be one of viewer, operator, lead, admin/],
+    ['a malformed e-mail', ['add', 'not-an-address', '--role', 'viewer'], 'long enough password\n', 2, /EMAIL must be an e-mail address/],
+    ['a short password', ['add', 'x@lindqvist-hall.example', '--role', 'viewer'], 'short\n', 2, /at least 12 characters/],
+    ['no password', ['add', 'x@lindqvist-hall.example', '--role', 'viewer'], '', 1, /no password on standard input/],
+    ['an existing account', ['add', 'first.admin@lindqvist-hall.example', '--role', 'viewer'], 'long enough password\n', 1, /exists already/],
+    ['no command', [], '', 2, /usage: npm run users -- add EMAIL --role/],
+  ])('refuses %s with a message', async (_what, args, input, code, message) => {
+    const run = await users(dir, args, input);
+    expect(run.code).toBe(code);
+    expect(run.stderr).toMatch(message);
+  });
+
+  it('sets a new password, which the server then accepts', async () => {
+    const run = await users(dir, ['set-password', 'first.admin@lindqvist-hall.example'], 'a replaced pass phrase\n');
+    expect(run.code).toBe(0);
+    const server = await startTestServer(dir, { demoAccounts: false });
+    try {
+      expect((await login(server, 'first.admin@lindqvist-hall.example', 'first admin pass phrase')).status).toBe(401);
+      expect((await login(server, 'first.admin@lindqvist-hall.example', 'a replaced pass phrase')).status).toBe(200);
+    } finally {
+      await server.close();
+    }
+  });
+});
