@@ -38,6 +38,11 @@ export const routes: Routes = [
         loadComponent: () => import('./interlocks/interlocks-page').then((m) => m.InterlocksPage),
       },
       {
+        path: 'setup/calibration',
+        title: 'Calibration · Tiltwatch',
+        loadComponent: () => import('./calibration/calibration-page').then((m) => m.CalibrationPage),
+      },
+      {
         path: 'outbox',
         title: 'Outbox · Tiltwatch',
         canActivate: [roleAtLeast('admin')],
