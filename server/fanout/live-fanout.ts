@@ -11,7 +11,7 @@ import type { ChannelsMessage, SeriesChunk, ServerMessage, SlowChunk } from '../
 import type { AccessControl, SignedInUser, SocketSession } from '../auth/access-control.js';
 import type { LiveStore } from '../live/live-store.js';
 import { appendSeriesChunk, appendSlowChunk, DECIMATED_RATE_HZ, emptySeriesChunk, emptySlowChunk } from '../live/series-chunk.js';
-import type { ChunkSink } from '../pipeline/telemetry-pipeline.js';
+import type { LiveSink } from '../live/live-sink.js';
 import type { AccountEvents } from '../users/account-events.js';
 
 export const WS_PATH = '/ws';
@@ -80,7 +80,7 @@ interface Viewer {
  * Connections are capped per client address (1013 beyond the cap), so idle sockets from one
  * place cannot lock out viewers elsewhere.
  */
-export class LiveFanout implements ChunkSink {
+export class LiveFanout implements LiveSink {
   private readonly wss = new WebSocketServer({ noServer: true, maxPayload: 8 * 1024 });
   private readonly viewers = new Set<Viewer>();
   private readonly waiting = new Map<WebSocket, NodeJS.Timeout>();
@@ -130,9 +130,18 @@ export class LiveFanout implements ChunkSink {
    * Takes a frame's chart points. The work per frame is the same however many clients watch:
    * the points join one shared chunk, and a single timer sends it to everyone.
    */
-  publish(series: SeriesChunk | null, slow: SlowChunk | null): void {
-    if (series) appendSeriesChunk(this.series, series);
-    if (slow) appendSlowChunk(this.slow, slow);
+  publishSeries(series: SeriesChunk): void {
+    appendSeriesChunk(this.series, series);
+    this.schedule();
+  }
+
+  publishSlow(slow: SlowChunk): void {
+    appendSlowChunk(this.slow, slow);
+    this.schedule();
+  }
+
+  /** The live state changed without new chart points (a status, a prediction): the next `live` message carries it. */
+  publishStateChange(): void {
     this.schedule();
   }
 
