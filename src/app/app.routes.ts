@@ -38,6 +38,12 @@ export const routes: Routes = [
         loadComponent: () => import('./interlocks/interlocks-page').then((m) => m.InterlocksPage),
       },
       {
+        path: 'users',
+        title: 'Users · Tiltwatch',
+        canActivate: [roleAtLeast('admin')],
+        loadComponent: () => import('./users/users-page').then((m) => m.UsersPage),
+      },
+      {
         path: 'outbox',
         title: 'Outbox · Tiltwatch',
         canActivate: [roleAtLeast('admin')],
