@@ -239,7 +239,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...userHandlers({ db, accounts, throttle, security }),
         ...liveHandlers(live),
         ...seriesHandlers(calibrations, writer),
-        ...calibrationHandlers(db),
+        ...calibrationHandlers(db, async () => void (await calibrations.reload())),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),
         ...supervision.handlers,

@@ -16,6 +16,7 @@ function live(overrides: Partial<LiveState> = {}): LiveState {
     waterSupplyC: 18,
     waterReturnC: { x: 24, y: 21, z: 23 },
     field: { vector: { x: 0, y: 0, z: 10 }, magnitude: 10, thetaDeg: 0, phiDeg: 0 },
+    fieldUncertainty: null,
     calibration: { id: 1, version: 1, label: 'demo' },
     controller: {
       online: true,

@@ -35,6 +35,11 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   'levels.update': { body: { levels: DEMO_LEVEL_SET, reason: 'route access check' } },
   'calibrations.list': {},
   'calibrations.active': {},
+  'calibrations.get': { path: '/api/calibrations/1' },
+  // A JSON request carries no file: the role check passes, then 400.
+  'calibrations.fit': { body: { file: 'not a file' }, allowedStatus: 400 },
+  // The seeded demo calibration (id 1) is approved already: the role check passes, then 409.
+  'calibrations.approve': { path: '/api/calibrations/1/approve', body: { reason: 'route access check' }, allowedStatus: 409 },
   'profiles.list': {},
   'profiles.active': {},
   'profiles.save': { body: { profile: { ...DEMO_PROFILE, name: 'Access check' }, reason: 'route access check' } },

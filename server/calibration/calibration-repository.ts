@@ -1,20 +1,15 @@
-import { asc, eq } from 'drizzle-orm';
-import type { Calibration } from '../../shared/field/calibration.js';
-import { DEMO_CALIBRATION } from '../../shared/field/demo-calibration.js';
+import { asc, eq, max } from 'drizzle-orm';
+import type { CalibrationDetail, CalibrationRecord } from '../../shared/field/calibration-record.js';
+import { DEMO_CALIBRATION, DEMO_COVARIANCE } from '../../shared/field/demo-calibration.js';
 import { appendAudit } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
 import { calibrations } from '../db/schema.js';
+import type { CalibrationFit } from './fit/calibration-fit.js';
 
-/** A stored calibration version as the API returns it. */
-export interface CalibrationRecord extends Calibration {
-  createdBy: string;
-  createdAt: string;
-  approvedBy: string | null;
-  approvedAt: string | null;
-  active: boolean;
-}
+export type { CalibrationRecord } from '../../shared/field/calibration-record.js';
 
 type Row = typeof calibrations.$inferSelect;
+type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 
 function toRecord(row: Row): CalibrationRecord {
   return {
@@ -24,15 +19,22 @@ function toRecord(row: Row): CalibrationRecord {
     gaussPerAmp: row.gaussPerAmp,
     offsetGauss: row.offsetGauss,
     coilToTrap: row.coilToTrap,
+    covariance: row.covariance,
+    state: row.state,
+    kind: row.kind,
+    fit: row.fit,
+    sourceName: row.sourceName,
+    mhzPerGauss: row.mhzPerGauss,
     createdBy: row.createdBy,
     createdAt: row.createdAt.toISOString(),
     approvedBy: row.approvedBy,
     approvedAt: row.approvedAt?.toISOString() ?? null,
+    approvalReason: row.approvalReason,
     active: row.active,
   };
 }
 
-/** Every version, oldest first. */
+/** Every version, oldest first, without the per-line residuals. */
 export async function listCalibrations(db: Db): Promise<CalibrationRecord[]> {
   return (await db.select().from(calibrations).orderBy(asc(calibrations.version))).map(toRecord);
 }
@@ -47,9 +49,96 @@ export async function findCalibration(db: Db, id: number): Promise<CalibrationRe
   return row ? toRecord(row) : null;
 }
 
+/** A version with the residual of every file line. */
+export async function findCalibrationDetail(db: Db, id: number): Promise<CalibrationDetail | null> {
+  const [row] = await db.select().from(calibrations).where(eq(calibrations.id, id));
+  return row ? { ...toRecord(row), points: row.fitPoints } : null;
+}
+
+/** What a fit upload stores. */
+export interface DraftRequest {
+  fit: CalibrationFit;
+  sourceName: string;
+  mhzPerGauss: number | null;
+  actor: string;
+}
+
+/** Stores a fit as the next version in state `draft` (not active) and audits it, in one transaction. */
+export async function saveDraft(db: Db, request: DraftRequest): Promise<CalibrationDetail> {
+  return db.transaction(async (tx) => {
+    const [{ latest }] = await tx.select({ latest: max(calibrations.version) }).from(calibrations);
+    const version = (latest ?? 0) + 1;
+    const { report } = request.fit;
+    const [row] = await tx
+      .insert(calibrations)
+      .values({
+        version,
+        label: `${report.kind === 'vector' ? 'Vector-probe' : '|B|'} fit of ${request.sourceName}`,
+        gaussPerAmp: report.gaussPerAmp as Row['gaussPerAmp'],
+        offsetGauss: report.offsetGauss,
+        coilToTrap: request.fit.coilToTrap as Row['coilToTrap'],
+        covariance: request.fit.covariance,
+        state: 'draft',
+        kind: report.kind,
+        fit: report,
+        fitPoints: request.fit.points,
+        sourceName: request.sourceName,
+        mhzPerGauss: request.mhzPerGauss,
+        createdBy: request.actor,
+        active: false,
+      })
+      .returning();
+    await appendAudit(tx, {
+      actor: request.actor,
+      action: 'calibration.fit',
+      subject: `calibration:${row.id}`,
+      newValue: { version, state: 'draft', sourceName: request.sourceName, mhzPerGauss: request.mhzPerGauss, fit: report, coilToTrap: row.coilToTrap },
+    });
+    return { ...toRecord(row), points: row.fitPoints };
+  });
+}
+
+export type ApproveOutcome = { ok: true; record: CalibrationRecord } | { ok: false; status: 404 | 409; message: string };
+
+/**
+ * Approves a draft and makes it the active version in one transaction with its audit entry:
+ * the previous version stays stored, approved and unchanged. Approved versions are immutable
+ * (also enforced by a database trigger), so approving one again is refused.
+ */
+export async function approveCalibration(db: Db, request: { id: number; reason: string; actor: string }): Promise<ApproveOutcome> {
+  return db.transaction(async (tx): Promise<ApproveOutcome> => {
+    const [target] = await tx.select().from(calibrations).where(eq(calibrations.id, request.id)).for('update');
+    if (!target) return { ok: false, status: 404, message: `No calibration version with id ${request.id}: see GET /api/calibrations` };
+    if (target.state === 'approved') {
+      return { ok: false, status: 409, message: `Calibration v${target.version} is already approved (by ${target.approvedBy}); approved versions do not change` };
+    }
+    const previous = await deactivateCurrent(tx);
+    const [row] = await tx
+      .update(calibrations)
+      .set({ state: 'approved', approvedBy: request.actor, approvedAt: new Date(), approvalReason: request.reason, active: true })
+      .where(eq(calibrations.id, request.id))
+      .returning();
+    await appendAudit(tx, {
+      actor: request.actor,
+      action: 'calibration.approve',
+      subject: `calibration:${row.id}`,
+      oldValue: previous ? { activeId: previous.id, activeVersion: previous.version } : null,
+      newValue: { id: row.id, version: row.version, state: 'approved', active: true },
+      reason: request.reason,
+    });
+    return { ok: true, record: toRecord(row) };
+  });
+}
+
+/** Clears the active mark first: the database allows one active row at a time. */
+async function deactivateCurrent(tx: Tx): Promise<Row | null> {
+  const [row] = await tx.update(calibrations).set({ active: false }).where(eq(calibrations.active, true)).returning();
+  return row ?? null;
+}
+
 /**
  * On a database without calibrations, stores the demo calibration as version 1, approved and
- * active, and records that in the audit trail. Does nothing otherwise.
+ * active, with its invented covariance, and records that in the audit trail. Does nothing otherwise.
  */
 export async function seedDemoCalibration(db: Db): Promise<void> {
   await db.transaction(async (tx) => {
@@ -62,10 +151,14 @@ export async function seedDemoCalibration(db: Db): Promise<void> {
         version: 1,
         label: 'Lindqvist Hall demo calibration',
         ...DEMO_CALIBRATION,
+        covariance: DEMO_COVARIANCE,
+        state: 'approved',
+        kind: 'demo',
         createdBy: 'system',
         createdAt: now,
         approvedBy: 'system',
         approvedAt: now,
+        approvalReason: 'first start: demo calibration',
         active: true,
       })
       .returning();

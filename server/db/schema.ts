@@ -14,6 +14,7 @@ import {
   bigint,
   bigserial,
   boolean,
+  check,
   customType,
   doublePrecision,
   index,
@@ -32,6 +33,7 @@ import type { AlarmEventKind, AlarmSuppression } from '../../shared/alarms/alarm
 import type { LogbookLinkKind } from '../../shared/logbook/logbook-api.js';
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
+import type { CalibrationFitReport, CalibrationKind, CalibrationState, FitPoint } from '../../shared/field/calibration-record.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
@@ -98,9 +100,25 @@ export const calibrations = pgTable(
     approvedBy: text('approved_by'),
     approvedAt: timestamp('approved_at', { withTimezone: true }),
     active: boolean('active').notNull().default(false),
+    /** `draft` after a fit, `approved` once a lead approved it (then immutable: trigger in drizzle/). */
+    state: text('state').$type<CalibrationState>().notNull().default('approved'),
+    kind: text('kind').$type<CalibrationKind>().notNull().default('demo'),
+    /** The fit report (same object as the calibrate CLI prints); null for the demo seed. */
+    fit: jsonb('fit').$type<CalibrationFitReport>(),
+    /** Every file line with its residual. */
+    fitPoints: jsonb('fit_points').$type<FitPoint[]>(),
+    /** 12×12 covariance of (K row-major, B0), coil frame. */
+    covariance: jsonb('covariance').$type<number[][]>(),
+    sourceName: text('source_name'),
+    mhzPerGauss: doublePrecision('mhz_per_gauss'),
+    approvalReason: text('approval_reason'),
   },
-  // At most one row may be active; the seed and every switch keep exactly one.
-  (t) => [uniqueIndex('calibrations_one_active').on(t.active).where(sql`${t.active}`)],
+  (t) => [
+    // At most one row may be active; the seed and every switch keep exactly one.
+    uniqueIndex('calibrations_one_active').on(t.active).where(sql`${t.active}`),
+    check('calibrations_active_is_approved', sql`NOT ${t.active} OR ${t.state} = 'approved'`),
+    check('calibrations_state', sql`${t.state} IN ('draft', 'approved')`),
+  ],
 );
 
 /**

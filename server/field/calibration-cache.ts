@@ -48,5 +48,5 @@ export class CalibrationCache {
 }
 
 function strip(c: Calibration): Calibration {
-  return { id: c.id, version: c.version, label: c.label, gaussPerAmp: c.gaussPerAmp, offsetGauss: c.offsetGauss, coilToTrap: c.coilToTrap };
+  return { id: c.id, version: c.version, label: c.label, gaussPerAmp: c.gaussPerAmp, offsetGauss: c.offsetGauss, coilToTrap: c.coilToTrap, covariance: c.covariance ?? null };
 }

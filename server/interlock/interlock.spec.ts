@@ -259,6 +259,7 @@ function demoLive(overrides: Partial<LiveState>): LiveState {
     waterSupplyC: 18,
     waterReturnC: { x: 20, y: 20, z: 20 },
     field: null,
+    fieldUncertainty: null,
     calibration: null,
     controller: {
       online: true,

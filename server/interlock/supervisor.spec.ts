@@ -12,7 +12,7 @@ import type { AdmittedMessage } from '../ingest/frame-gate.js';
 import { LiveStore } from '../live/live-store.js';
 import { fastFrame, slowFrame } from '../testing/frames.js';
 import { Interlock, type TripRecord } from './interlock.js';
-import { Supervisor } from './supervisor.js';
+import { Supervisor, type SteeringContext } from './supervisor.js';
 
 const T0 = Date.UTC(2026, 2, 12, 9, 0, 0);
 const calibration = { ...DEMO_CALIBRATION, id: 1, version: 1, label: 'demo' };
@@ -21,7 +21,7 @@ const calibration = { ...DEMO_CALIBRATION, id: 1, version: 1, label: 'demo' };
  * The supervisor's order and its controller-status rules, with real live state, alarm book and
  * interlock and a fake clock; the outputs (commands, records, mail, fan-out) are collected.
  */
-function rig() {
+function rig(steering?: SteeringContext) {
   let now = T0;
   const live = new LiveStore();
   const interlock = new Interlock();
@@ -36,6 +36,7 @@ function rig() {
     sink: { publishAlarms: (m) => out.alarms.push(m) },
     log: pino({ level: 'silent' }),
     now: () => now,
+    steering,
   });
   supervisor.attach({ publish: (topic, payload) => (out.commands.push({ topic, payload: JSON.parse(payload) }), out.order.push(topic)) });
   let seq = 0;
@@ -117,5 +118,38 @@ describe('Supervisor', () => {
     expect(r.supervisor.resetInterlock('operator@tiltwatch.example', 'supply x checked')).toMatchObject({ ok: true });
     expect(r.out.commands.at(-1)).toMatchObject({ topic: TOPICS.release, payload: { reason: 'Interlock reset by operator@tiltwatch.example: supply x checked' } });
     expect(r.out.alarms.at(-1)?.interlock.state).toBe('ok');
+  });
+
+  it('raises the field-angle deviation alarm against the steering target, and suppresses it while a ramp is programmed', () => {
+    const measured = fieldFromCurrents(calibration, { x: 5, y: 4, z: 6 }).vector;
+    // A target 90° away from the measured direction (perpendicular in the x–y plane of the field).
+    const target = { x: -measured.y, y: measured.x, z: 0 };
+    let rampProgrammed = true;
+    const r = rig({ alarmContext: () => ({ targetDirection: target, rampProgrammed }) });
+    for (let i = 0; i < 50; i++) {
+      r.frame();
+      r.advance(20);
+    }
+    const angleAlarm = () => r.supervisor.alarmsMessage().active.find((a) => a.id === 'fieldAngleDeviation.H');
+    // While the ramp is programmed the condition is logged, hidden as suppressed, not annunciated.
+    const hiddenRaise = r.out.events.find((e) => e.alarmId === 'fieldAngleDeviation.H' && e.kind === 'raise');
+    expect(hiddenRaise).toMatchObject({ hidden: 'suppressed' });
+    expect(hiddenRaise!.value).toBeCloseTo(90, 6);
+    expect(angleAlarm()?.state ?? 'not listed').not.toMatch(/^unacknowledged|^acknowledged/);
+    rampProgrammed = false;
+    for (let i = 0; i < 50; i++) {
+      r.frame();
+      r.advance(20);
+    }
+    expect(angleAlarm()).toMatchObject({ state: expect.stringMatching(/unacknowledged/) });
+  });
+
+  it('has no field-angle deviation without a target', () => {
+    const r = rig({ alarmContext: () => ({ targetDirection: null, rampProgrammed: false }) });
+    for (let i = 0; i < 50; i++) {
+      r.frame();
+      r.advance(20);
+    }
+    expect(r.out.events.filter((e) => e.alarmId === 'fieldAngleDeviation.H')).toEqual([]);
   });
 });

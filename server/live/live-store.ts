@@ -1,4 +1,5 @@
 import type { Calibration } from '../../shared/field/calibration.js';
+import type { FieldUncertainty } from '../../shared/field/field-uncertainty.js';
 import type { FieldState } from '../../shared/field/field-vector.js';
 import type { LivePrediction, LiveState, PerAxis } from '../../shared/live/live-state.js';
 import type { ControllerStatus, FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
@@ -18,6 +19,7 @@ export class LiveStore {
     waterSupplyC: null,
     waterReturnC: null,
     field: null,
+    fieldUncertainty: null,
     calibration: null,
     controller: {
       online: false,
@@ -34,10 +36,18 @@ export class LiveStore {
 
   /**
    * Takes a fast frame: mean currents (A) and voltages (V) of the frame, the field of the mean
-   * currents through `calibration`, and `receivedAtMs` (server clock) as `lastFrameAt`, which
+   * currents through `calibration` with its uncertainty (null when the calibration has no
+   * covariance), and `receivedAtMs` (server clock) as `lastFrameAt`, which
    * clients compare with their own clock to judge staleness.
    */
-  applyFast(frame: FastFrame, meanCurrentA: PerAxis<number>, field: FieldState, calibration: Calibration, receivedAtMs: number): void {
+  applyFast(
+    frame: FastFrame,
+    meanCurrentA: PerAxis<number>,
+    field: FieldState,
+    calibration: Calibration,
+    receivedAtMs: number,
+    fieldUncertainty: FieldUncertainty | null = null,
+  ): void {
     const n = frame.currentA.x.length;
     const lastSampleMs = frame.t0Ms + ((n - 1) * 1000) / frame.rateHz;
     this.newestSampleMs = Math.max(this.newestSampleMs, lastSampleMs);
@@ -47,6 +57,7 @@ export class LiveStore {
       setpoints: { ...frame.setpointA },
       voltageV: { x: mean(frame.voltageV.x), y: mean(frame.voltageV.y), z: mean(frame.voltageV.z) },
       field,
+      fieldUncertainty,
       calibration: { id: calibration.id, version: calibration.version, label: calibration.label },
       controller: { ...this.state.controller, lastFrameAt: new Date(receivedAtMs).toISOString() },
     });

@@ -1,3 +1,4 @@
+import { fieldUncertainty } from '../../shared/field/field-uncertainty.js';
 import { fieldFromCurrents } from '../../shared/field/field-vector.js';
 import type { SeriesChunk, SlowChunk } from '../../shared/live/live-state.js';
 import type { ControllerStatus, FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
@@ -59,7 +60,9 @@ export class TelemetryPipeline {
       rollups.addFieldPoint(tMs, field);
     });
     const meanCurrent = { x: mean(frame.currentA.x), y: mean(frame.currentA.y), z: mean(frame.currentA.z) };
-    live.applyFast(frame, meanCurrent, fieldFromCurrents(calibration, meanCurrent), calibration, (this.deps.now ?? Date.now)());
+    // σ|B|, σθ, σφ from the calibration's parameter covariance, at the frame's mean currents.
+    const uncertainty = calibration.covariance ? fieldUncertainty(calibration, calibration.covariance, meanCurrent) : null;
+    live.applyFast(frame, meanCurrent, fieldFromCurrents(calibration, meanCurrent), calibration, (this.deps.now ?? Date.now)(), uncertainty);
     prediction.addFrame(calibration, meanCurrent, frame.t0Ms);
     rollups.addFast(frame);
     writer.addFast(frame, calibration.id);

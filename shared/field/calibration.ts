@@ -20,6 +20,11 @@ export interface Calibration extends CalibrationBody {
   id: number;
   version: number;
   label: string;
+  /**
+   * 12×12 covariance of the fitted numbers (K row-major, then B0; G²/A², G²/A, G²), coil
+   * frame; null when unknown. The live field's σ|B|, σθ, σφ come from it (field-uncertainty.ts).
+   */
+  covariance?: number[][] | null;
 }
 
 /** Largest |RᵀR − 1| element tolerated before a rotation is called non-orthonormal. */

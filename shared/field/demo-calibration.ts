@@ -21,3 +21,19 @@ export const DEMO_CALIBRATION: CalibrationBody = {
     [0, 0, 1],
   ],
 };
+
+/**
+ * Invented covariance of the demo calibration (demo only), 12×12 over K row-major (G/A) and B0
+ * (G): standard errors of 2 mG/A on every K element and 4 mG on every B0 component, the
+ * diagonal K elements 30 % correlated with the B0 component of their row, as a |B| fit with a
+ * few tens of points at ±8 A would give.
+ */
+export const DEMO_COVARIANCE: number[][] = (() => {
+  const out = Array.from({ length: 12 }, (_, i) => Array.from({ length: 12 }, (_, j) => (i !== j ? 0 : i < 9 ? 0.002 ** 2 : 0.004 ** 2)));
+  for (let row = 0; row < 3; row++) {
+    const k = row * 3 + row;
+    const b = 9 + row;
+    out[k][b] = out[b][k] = 0.3 * 0.002 * 0.004;
+  }
+  return out;
+})();

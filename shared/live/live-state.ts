@@ -1,3 +1,4 @@
+import type { FieldUncertainty } from '../field/field-uncertainty.js';
 import type { Vec3, FieldState } from '../field/field-vector.js';
 import type { Role } from '../auth/roles.js';
 import type { AlarmsMessage } from '../alarms/alarm-api.js';
@@ -19,6 +20,11 @@ export interface LiveState {
   waterSupplyC: number | null;
   waterReturnC: PerAxis<number> | null;
   field: FieldState | null;
+  /**
+   * One standard deviation of |B|, θ, φ at the present currents from the active calibration's
+   * parameter covariance (shared/field/field-uncertainty.ts); null when it has none.
+   */
+  fieldUncertainty: FieldUncertainty | null;
   calibration: { id: number; version: number; label: string } | null;
   controller: {
     online: boolean;

@@ -44,6 +44,11 @@ export const routes: Routes = [
         loadComponent: () => import('./users/users-page').then((m) => m.UsersPage),
       },
       {
+        path: 'setup/calibration',
+        title: 'Calibration · Tiltwatch',
+        loadComponent: () => import('./calibration/calibration-page').then((m) => m.CalibrationPage),
+      },
+      {
         path: 'outbox',
         title: 'Outbox · Tiltwatch',
         canActivate: [roleAtLeast('admin')],

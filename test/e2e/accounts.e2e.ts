@@ -20,7 +20,7 @@ describe('Accounts in Chromium', () => {
     const page = await chrome.browser.newPage();
     await page.goto(stack.server.url);
     // Pages of one browser share the stored session: start signed out.
-    await page.evaluate(() => localStorage.clear());
+    await page.evaluate('localStorage.clear()');
     await page.goto(stack.server.url);
     await page.getByLabel('Email').fill(email);
     await page.getByLabel('Password').fill(password);

@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRender, inject, input, viewChild } from '@angular/core';
 import uPlot from 'uplot';
 import { formatLocalTime, formatNumber } from '../readout/format-quantity';
+import { chartFont, decimalsFor, plotSize, resolveColor } from './chart-style';
 import { RingBuffer, WindowCopy } from './ring-buffer';
 import { sampleSpacingMs } from './time-window';
 
@@ -83,9 +84,7 @@ export class ChartPanel {
     const color = (property: string) => resolveColor(host, property);
     const text = color('--tw-chart-text');
     const grid = color('--tw-chart-grid');
-    // Canvas text does not follow CSS: size it from the root font, which grows on wall screens.
-    const rem = parseFloat(getComputedStyle(document.documentElement).fontSize) || 16;
-    const font = `${Math.round(0.75 * rem)}px Roboto, sans-serif`;
+    const { font, rem } = chartFont();
     const lines = this.lines();
     const axes = this.axes();
     const scales: uPlot.Scales = {
@@ -201,41 +200,9 @@ export class ChartPanel {
   }
 }
 
-/**
- * The used value of a colour custom property (canvas cannot read `var()` or `light-dark()`):
- * a probe element resolves it the way the page does.
- */
-export function resolveColor(host: HTMLElement, property: string): string {
-  const probe = document.createElement('span');
-  probe.style.color = `var(${property})`;
-  host.appendChild(probe);
-  const color = getComputedStyle(probe).color;
-  probe.remove();
-  return color || 'gray';
-}
-
-/**
- * Canvas size for the host, px: its width, and the height from the `--tw-chart-height` custom
- * property (larger on wall screens). The legend sits below, outside this height.
- */
-function plotSize(host: HTMLElement): { width: number; height: number } {
-  const height = parseFloat(getComputedStyle(host).getPropertyValue('--tw-chart-height'));
-  return { width: Math.max(host.clientWidth, 200), height: Number.isFinite(height) && height > 0 ? height : 200 };
-}
-
 /** From zero (or the most negative value) to 25 % above the largest magnitude. */
 function zeroBasedRange(min: number | null, max: number | null): uPlot.Range.MinMax {
   const low = Math.min(0, min ?? 0);
   const high = Math.max(0, max ?? 0) * 1.25;
   return high > low ? [low, high] : [0, 1];
-}
-
-/** Decimals that tell neighbouring tick values apart (2.5 → 1, 0.05 → 2, 10 → 0). */
-export function decimalsFor(splits: number[]): number {
-  const step = splits.length > 1 ? Math.abs(splits[1] - splits[0]) : 1;
-  for (let decimals = 0; decimals < 4; decimals++) {
-    const scaled = step * 10 ** decimals;
-    if (Math.abs(scaled - Math.round(scaled)) < 1e-6 * Math.max(1, scaled)) return decimals;
-  }
-  return 4;
 }

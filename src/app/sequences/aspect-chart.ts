@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRender, effect, inject, input, viewChild } from '@angular/core';
 import uPlot from 'uplot';
 import type { PlannedPoint } from '../../../shared/steering/steering-api';
-import { decimalsFor, resolveColor } from '../charts/chart-panel';
+import { decimalsFor, resolveColor } from '../charts/chart-style';
 import { formatNumber } from '../readout/format-quantity';
 
 /** Height of the chart's plot area, px. */

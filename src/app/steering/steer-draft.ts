@@ -16,7 +16,7 @@ export function requestFromDraft(d: SteerDraft): { request: SteerTargetRequest }
   const number = (text: string, label: string, min: number, max: number, unit: string, maxExclusive = false): number | string => {
     const v = Number(text.trim().replace(',', '.'));
     if (text.trim() === '' || !Number.isFinite(v)) return `${label} must be a number in ${unit}`;
-    if (v < min || (maxExclusive ? v >= max : v > max)) return `${label} must be from ${min} ${maxExclusive ? 'up to below' : 'to'} ${max} ${unit}`;
+    if (v < min || (maxExclusive ? v >= max : v > max)) return `${label} must be from ${min} to ${maxExclusive ? 'below ' : ''}${max} ${unit}`;
     return v;
   };
   const magnitudeG = number(d.magnitudeG, '|B|', 0, 1000, 'G');

@@ -1,0 +1,92 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { join } from 'node:path';
+import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
+import { DEMO_PASSWORD, startStack, type Stack } from '../support/stack.js';
+import type { SteeringStatus } from '../../shared/steering/steering-api.js';
+
+describe('Steer page in Chromium', () => {
+  let stack: Stack;
+  let chrome: TestBrowser;
+
+  beforeAll(async () => {
+    // Staleness is not under test: the browser and the stack share this machine's cores.
+    stack = await startStack({ env: { TILTWATCH_STALE_TRIP_MS: '3000' } });
+    chrome = await launchBrowser();
+  });
+  afterAll(async () => {
+    await chrome?.close();
+    await stack?.close();
+  });
+
+  async function signIn(role: 'viewer' | 'operator') {
+    const page = await chrome.browser.newPage();
+    // The browser keeps one session for all its pages: start signed out.
+    await page.goto(stack.server.url);
+    await page.evaluate('localStorage.clear()');
+    await page.goto(stack.server.url);
+    await page.getByLabel('Email').fill(`${role}@tiltwatch.example`);
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await expect.poll(async () => page.getByRole('status', { name: 'Connection' }).innerText(), { timeout: 15_000 }).toMatch(/live/i);
+    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Steer' }).click();
+    return page;
+  }
+
+  async function steeringStatus(): Promise<SteeringStatus> {
+    const login = await fetch(`${stack.server.url}/api/auth/login`, {
+      method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'viewer@tiltwatch.example', password: DEMO_PASSWORD }),
+    });
+    const { token } = (await login.json()) as { token: string };
+    return (await (await fetch(`${stack.server.url}/api/steering`, { headers: { authorization: `Bearer ${token}` } })).json()) as SteeringStatus;
+  }
+
+  it('pre-flights a target, refuses to send a failing one, and steers after the confirm step', async () => {
+    const page = await signIn('operator');
+    const form = page.getByRole('region', { name: 'New target' });
+    await form.getByLabel('|B|').fill('40');
+    await form.getByLabel('θ (from trap z)').fill('54.7');
+    await form.getByLabel('φ (from trap x to y)').fill('120');
+    await form.getByLabel('Ramp time').fill('6');
+    await form.getByLabel('Reason (goes into the audit trail)').fill('end-to-end check');
+    await form.getByRole('button', { name: 'Run pre-flight' }).click();
+    const checks = page.getByRole('table', { name: 'Pre-flight checks' });
+    await checks.waitFor({ timeout: 60_000 });
+    expect(await checks.getByRole('row', { name: /Field magnitude/ }).innerText()).toMatch(/fails/);
+    expect(await form.getByRole('button', { name: 'Steer…' }).count()).toBe(0);
+
+    await form.getByLabel('|B|').fill('9');
+    expect(await checks.count()).toBe(0);
+    await form.getByRole('button', { name: 'Run pre-flight' }).click();
+    await page.getByText('every check passes').waitFor({ timeout: 60_000 });
+    await form.getByRole('button', { name: 'Steer…' }).click();
+    await form.getByRole('group', { name: 'Confirm the steer' }).waitFor();
+    expect((await steeringStatus()).mode).toBe('idle');
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'steer-confirm.png'), fullPage: true });
+    await form.getByRole('button', { name: 'Confirm and steer' }).click();
+    await page.getByText('command recorded and sent').waitFor();
+    await expect.poll(async () => (await steeringStatus()).mode, { timeout: 15_000 }).not.toBe('idle');
+    const now = page.getByRole('region', { name: 'What steers the field' });
+    await expect.poll(async () => now.innerText(), { timeout: 15_000 }).toMatch(/Ramping to|Holding/);
+    expect(await now.innerText()).toMatch(/end-to-end check/);
+
+    // Live shows the target beside the measured angles while steering.
+    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Live' }).click();
+    await expect.poll(async () => page.getByText(/target \|B\| 9\.00/).count(), { timeout: 15_000 }).toBe(1);
+    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Steer' }).click();
+
+    // Release with a reason.
+    await now.getByLabel('Reason for abort or release').fill('done with the check');
+    await now.getByRole('button', { name: 'Release steering' }).click();
+    await expect.poll(async () => (await steeringStatus()).mode, { timeout: 15_000 }).toBe('idle');
+    await page.close();
+  });
+
+  it('shows the state read-only to a viewer', async () => {
+    const page = await signIn('viewer');
+    await page.getByRole('region', { name: 'What steers the field' }).waitFor();
+    expect(await page.getByText('Viewing only: setting a target needs the operator role').count()).toBe(1);
+    expect(await page.getByRole('button', { name: 'Run pre-flight' }).count()).toBe(0);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'steer-viewer.png'), fullPage: true });
+    await page.close();
+  });
+});
