@@ -1,7 +1,8 @@
 /**
  * `npm run serve`: the Tiltwatch server, configured by environment variables (README).
  * `--demo` (used by `npm start`) also runs the simulated controller as a child process
- * against the embedded broker, and stops it on exit.
+ * against the embedded broker, and stops it on exit — after supervision has ended, so a clean
+ * stop neither trips the interlock nor mails on-call.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import path from 'node:path';
@@ -33,6 +34,9 @@ try {
     simulator = spawn(process.execPath, ['--import', 'tsx', path.join('simulator', 'main.ts')], {
       cwd: projectRoot(),
       stdio: 'inherit',
+      // Its own process group: Ctrl-C in the terminal reaches only the server, which ends
+      // supervision before it stops the simulator (a controller vanishing under supervision trips).
+      detached: true,
       env: {
         ...process.env,
         MQTT_URL: server.mqttUrl,
@@ -72,6 +76,7 @@ async function stop(signal: string): Promise<void> {
   if (stopping) return;
   stopping = true;
   console.log(`tiltwatch: ${signal} received, shutting down`);
+  server.endSupervision();
   const child = simulator;
   if (child) {
     const exited = new Promise((resolve) => child.once('exit', resolve));
@@ -83,3 +88,4 @@ async function stop(signal: string): Promise<void> {
 }
 process.on('SIGINT', () => void stop('SIGINT'));
 process.on('SIGTERM', () => void stop('SIGTERM'));
+process.on('SIGHUP', () => void stop('SIGHUP'));

@@ -18,7 +18,7 @@ import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
 import { lockDataFolder } from './data-folder/data-folder-lock.js';
 import { checkListenSlots, listenSlots } from './start-checks/listen-check.js';
-import { openDatabase } from './db/database.js';
+import { openDatabase, type OpenDatabase } from './db/database.js';
 import { LiveFanout, type FanoutOptions } from './fanout/live-fanout.js';
 import { CalibrationCache } from './field/calibration-cache.js';
 import { EventLoopWatch } from './health/event-loop-watch.js';
@@ -32,6 +32,7 @@ import { liveHandlers } from './live/live-routes.js';
 import { createLogger } from './logging/logger.js';
 import { logbookHandlers } from './logbook/logbook-routes.js';
 import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
+import { LevelStore } from './levels/level-store.js';
 import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
 import { CriticalCache } from './prediction/critical-cache.js';
 import { PredictionEngine } from './prediction/prediction-engine.js';
@@ -60,6 +61,11 @@ export interface StartOptions {
   demoAccounts?: boolean;
   /** WebSocket pacing and limits (defaults: 5 s to sign in, ≥ 33 ms between messages, 1 MB buffer). */
   fanout?: FanoutOptions;
+  /**
+   * A database the caller opened (and closes) instead of the one of `config`; tests use it to
+   * reach the same database, e.g. to make writes fail.
+   */
+  database?: OpenDatabase;
 }
 
 /** A started server; its owner must call `close()`. */
@@ -78,6 +84,12 @@ export interface RunningServer {
   hasAdmin: boolean;
   /** The same report as `GET /api/health`. */
   counters(): HealthReport;
+  /**
+   * Ends supervision (alarms and the software interlock stop evaluating) while everything else
+   * runs on: call it before stopping the controller on a clean stop, so the stop neither trips
+   * nor mails on-call. `close()` does it first as well.
+   */
+  endSupervision(): void;
   /** Stops everything in reverse order of start; resolves when nothing is left running. */
   close(): Promise<void>;
 }
@@ -117,16 +129,18 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     closers.push(() => lock.release());
     const tokens = new TokenIssuer(loadOrCreateJwtSecret(config.dataDir));
 
-    const database = await openDatabase({
-      dataDir: config.dataDir,
-      databaseUrl: config.databaseUrl,
-      onRetry: (reason, delayMs) => log.warn(`PostgreSQL at DATABASE_URL cannot be reached (${reason}); trying again in ${delayMs / 1000} s`),
-      onHealthChange: (db) =>
-        db.state === 'up'
-          ? log.info({ outageSince: db.since }, 'PostgreSQL reachable again; storage resumes')
-          : log.error(`PostgreSQL at DATABASE_URL cannot be reached (${db.lastError}); supervision goes on from memory`),
-    });
-    closers.push(() => database.close());
+    const database =
+      opts.database ??
+      (await openDatabase({
+        dataDir: config.dataDir,
+        databaseUrl: config.databaseUrl,
+        onRetry: (reason, delayMs) => log.warn(`PostgreSQL at DATABASE_URL cannot be reached (${reason}); trying again in ${delayMs / 1000} s`),
+        onHealthChange: (db) =>
+          db.state === 'up'
+            ? log.info({ outageSince: db.since }, 'PostgreSQL reachable again; storage resumes')
+            : log.error(`PostgreSQL at DATABASE_URL cannot be reached (${db.lastError}); supervision goes on from memory`),
+      }));
+    if (!opts.database) closers.push(() => database.close());
     const { db } = database;
     await seedDemoCalibration(db);
     await seedDemoProfile(db);
@@ -182,25 +196,40 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const engine = new PredictionEngine({ log, criticalCache });
     closers.push(() => engine.close());
     const history = new PredictionHistoryRing();
-    const prediction = new LivePredictionFeed({ engine, live, history, fanout });
+    // One source of the lead-set levels: the interlock's trip levels, the bands, and the least
+    // field that orients the dipoles, below which the prediction is shown as not applying.
+    const levels = await LevelStore.load(db);
+    const minOrientingField = () => levels.inForce().levels.settings.minOrientingFieldG;
+    const prediction = new LivePredictionFeed({ engine, live, history, fanout, staleMs: config.staleTripMs, minOrientingFieldG: minOrientingField() });
+    closers.push(() => prediction.close());
+    levels.onChange(() => prediction.setMinOrientingField(minOrientingField()));
     const profiles = new ActiveProfileLoader(db, prediction);
     await profiles.reload();
     const pipeline = new TelemetryPipeline({ calibrations, live, rollups, writer, fanout, prediction });
     const gate = new FrameGate();
     const steering = await startSteering({ db, live, calibrations, prediction, criticalCache, log });
     closers.push(() => steering.close());
-    // Alarms and the software interlock evaluate each message after the pipeline applied it.
-    const supervision = await startSupervision({ db, live, sink: fanout, config, log, databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined, steering: steering.context });
+    // Alarms and the software interlock evaluate what the pipeline made of each message.
+    const supervision = await startSupervision({
+      db,
+      live,
+      sink: fanout,
+      config,
+      log,
+      levels,
+      databaseOutageS: database.health ? () => database.health!.outageSeconds() : undefined,
+      steering: steering.context,
+    });
     closers.push(() => supervision.close());
-    const deliver = (message: AdmittedMessage) => {
-      pipeline.handle(message);
-      supervision.supervisor.observe(message);
-    };
+    const deliver = (message: AdmittedMessage) => supervision.supervisor.observe(pipeline.handle(message));
     const ingest = await startIngest({ ...mqtt, gate, deliver, log });
     closers.push(() => ingest.close());
     supervision.supervisor.attach(ingest);
     supervision.supervisor.start();
     steering.connect({ link: ingest, interlock: supervision.interlock, alarmLimits: () => supervision.book.limits(), levels: () => supervision.levels.inForce() });
+    const endSupervision = () => supervision.supervisor.close();
+    // Closers run in reverse: supervision ends before ingest and the controller link go away.
+    closers.push(endSupervision);
 
     const eventLoop = new EventLoopWatch();
     closers.push(() => eventLoop.close());
@@ -258,7 +287,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const port = typeof address === 'object' && address !== null ? address.port : config.port;
     const url = `http://${displayHost(config.host)}:${port}`;
     log.info({ url, mqtt: mqtt.url, db: database.kind, dataDir: config.dataDir }, 'Tiltwatch server started');
-    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, hasAdmin, counters: report, close };
+    return { port, url, mqttUrl: mqtt.url, brokerCredentials, seededDemoAccounts, hasAdmin, counters: report, endSupervision, close };
   } catch (error) {
     await close();
     throw error;

@@ -60,7 +60,18 @@ describe('AlarmBook', () => {
     at(0, { ...calm, 'current.x': 19 });
     at(200, { ...calm, 'current.x': 19 });
     expect(book.active()).toEqual([
-      { id: 'current.x.H', channel: 'current.x', priority: 'medium', state: 'unacknowledged', raisedAt: T0 + 200, value: 19, limit: 18, firstOut: false },
+      {
+        id: 'current.x.H',
+        channel: 'current.x',
+        priority: 'medium',
+        state: 'unacknowledged',
+        raisedAt: T0 + 200,
+        conditionSince: T0,
+        value: 19,
+        valueAtRaise: 19,
+        limit: 18,
+        firstOut: false,
+      },
     ]);
   });
 
@@ -204,3 +215,95 @@ describe('AlarmBook: first-out grouping of a cooling loss', () => {
     expect(raise?.firstOutOf).toBeUndefined();
   });
 });
+
+describe('AlarmBook: first-out by the time the condition began', () => {
+  it('puts the alarm whose condition began first at the head, although its longer on-delay annunciates it last', () => {
+    const { book, at } = demoBook();
+    // Flow of pair x sinks below its L level (1.0 s on-delay) at t = 0; at t = 0.1 s the current
+    // of pair x leaves its setpoint (0.3 s on-delay), so the deviation is annunciated first.
+    at(0, { 'flow.x': 1.4, 'currentDeviation.x': 0 });
+    at(100, { 'flow.x': 1.4, 'currentDeviation.x': 0.8 });
+    const early = at(400, { 'flow.x': 1.4, 'currentDeviation.x': 0.8 });
+    expect(early).toMatchObject([{ alarmId: 'currentDeviation.x.H', kind: 'raise', conditionSince: T0 + 100 }]);
+    const late = at(1000, { 'flow.x': 1.4, 'currentDeviation.x': 0.8 });
+    expect(late).toMatchObject([{ alarmId: 'flow.x.L', kind: 'raise', conditionSince: T0 }]);
+    expect(late[0].firstOutOf).toBeUndefined();
+
+    const active = book.active();
+    expect(active.find((a) => a.id === 'flow.x.L')).toMatchObject({ firstOut: true, conditionSince: T0 });
+    expect(active.find((a) => a.id === 'currentDeviation.x.H')).toMatchObject({ firstOut: false, firstOutOf: 'flow.x.L' });
+    // Same priority: listed by the time the condition began, not by annunciation.
+    expect(active.map((a) => a.id)).toEqual(['flow.x.L', 'currentDeviation.x.H']);
+  });
+
+  it('moves alarms already grouped under the former head to the new head', () => {
+    const { book, at } = demoBook();
+    at(0, { 'flow.x': 1.4, 'currentDeviation.x': 0, 'currentDeviation.y': 0 });
+    at(100, { 'flow.x': 1.4, 'currentDeviation.x': 0.8, 'currentDeviation.y': 0 });
+    at(200, { 'flow.x': 1.4, 'currentDeviation.x': 0.8, 'currentDeviation.y': 0.8 });
+    at(400, { 'flow.x': 1.4, 'currentDeviation.x': 0.8, 'currentDeviation.y': 0.8 });
+    at(500, { 'flow.x': 1.4, 'currentDeviation.x': 0.8, 'currentDeviation.y': 0.8 });
+    expect(book.active().find((a) => a.id === 'currentDeviation.y.H')?.firstOutOf).toBe('currentDeviation.x.H');
+    at(1000, { 'flow.x': 1.4, 'currentDeviation.x': 0.8, 'currentDeviation.y': 0.8 });
+    const grouped = book.active().filter((a) => a.firstOutOf === 'flow.x.L').map((a) => a.id);
+    expect(grouped.sort()).toEqual(['currentDeviation.x.H', 'currentDeviation.y.H']);
+  });
+});
+
+describe('AlarmBook: actions stored before they take effect', () => {
+  it('leaves the alarm as it was until the prepared action is committed, and unchanged when it is cancelled', () => {
+    const { book, at } = demoBook();
+    at(0, { stale: 900 });
+    const prepared = book.prepare('stale.H', OPERATOR, { kind: 'acknowledge' });
+    expect(prepared?.event).toMatchObject({ kind: 'acknowledge', to: 'acknowledged', actor: OPERATOR });
+    expect(prepared?.memory.process).toBe('acknowledged');
+    expect(book.active()[0].state).toBe('unacknowledged');
+    expect(requestError(() => book.prepare('stale.H', OPERATOR, { kind: 'acknowledge' })).code).toBe('conflict');
+    prepared!.cancel();
+    expect(book.active()[0].state).toBe('unacknowledged');
+    book.prepare('stale.H', OPERATOR, { kind: 'acknowledge' })!.commit();
+    expect(book.active()[0].state).toBe('acknowledged');
+  });
+
+  it('keeps taking the present value while an action is being stored, and evaluates again afterwards', () => {
+    const { book, at } = demoBook();
+    at(0, { stale: 900 });
+    const prepared = book.prepare('stale.H', OPERATOR, { kind: 'acknowledge' })!;
+    expect(at(100, { stale: 0 })).toEqual([]);
+    expect(book.active()[0]).toMatchObject({ value: 0, valueAtRaise: 900 });
+    prepared.commit();
+    at(200, { stale: 0 });
+    expect(at(1300, { stale: 0 })).toMatchObject([{ alarmId: 'stale.H', kind: 'clear', from: 'acknowledged', to: 'normal' }]);
+  });
+
+  it('restores remembered states into a new book (a restart)', () => {
+    const { book, at } = demoBook();
+    at(0, { stale: 900, 'current.y': 19 });
+    at(200, { stale: 900, 'current.y': 19 });
+    book.acknowledge('stale.H', OPERATOR);
+    book.shelve('current.y.H', OPERATOR, 30, 'supply under repair');
+    book.setOutOfService('flow.z.L', OPERATOR, 'flow meter replaced', true);
+    const revived = new AlarmBook(DEMO_ALARM_LIMITS, { clock: () => T0 + 300 });
+    revived.restore(structuredClone(book.memories()));
+    const states = Object.fromEntries(revived.list().map((a) => [a.id, a.state]));
+    expect(states).toMatchObject({ 'stale.H': 'acknowledged', 'current.y.H': 'shelved', 'flow.z.L': 'out-of-service' });
+    expect(revived.list().find((a) => a.id === 'current.y.H')?.shelf).toMatchObject({ by: OPERATOR, reason: 'supply under repair' });
+  });
+});
+
+describe('AlarmBook: a finished group is not reopened', () => {
+  it('files a new fault under its own first-out once every condition of the earlier group has cleared', () => {
+    const { book, at } = demoBook();
+    // A ramp raises the deviation alarms for a moment; they clear (off-delay 1 s) before the flow falls.
+    at(0, { 'currentDeviation.x': 0.8, 'flow.x': 3.2 });
+    at(300, { 'currentDeviation.x': 0.8, 'flow.x': 3.2 });
+    at(400, { 'currentDeviation.x': 0, 'flow.x': 3.2 });
+    at(1400, { 'currentDeviation.x': 0, 'flow.x': 3.2 });
+    at(2000, { 'currentDeviation.x': 0, 'flow.x': 1.4 });
+    const raise = at(3000, { 'currentDeviation.x': 0, 'flow.x': 1.4 });
+    expect(raise).toMatchObject([{ alarmId: 'flow.x.L', kind: 'raise' }]);
+    expect(raise[0].firstOutOf).toBeUndefined();
+    expect(book.active().find((a) => a.id === 'flow.x.L')).not.toHaveProperty('firstOutOf');
+  });
+});
+

@@ -5,7 +5,7 @@
  */
 import type { ChannelId, ChannelValues } from './channels.js';
 import { parseAlarmLimits, type AlarmLevel, type AlarmLimit, type AlarmPriority } from './alarm-limit.js';
-import { AlarmStateMachine, type AlarmEvent, type AlarmState, type Shelf } from './alarm-state.js';
+import { AlarmStateMachine, type AlarmEvent, type AlarmMemory, type AlarmState, type Shelf } from './alarm-state.js';
 import { AlarmRequestError } from './alarm-request-error.js';
 import { FirstOutGrouper, DEFAULT_FIRST_OUT_WINDOW_MS } from './first-out.js';
 
@@ -34,8 +34,12 @@ export interface AlarmStatus {
   state: AlarmState;
   /** Present value (channel unit), null before the first one. */
   value: number | null;
+  /** Value when the present raise happened; null while normal. */
+  valueAtRaise: number | null;
   limit: number;
   raisedAt: number | null;
+  /** When the condition of the present raise began (before its on-delay); null while normal. */
+  conditionSince: number | null;
   /** True when later active alarms are grouped under this one. */
   firstOut: boolean;
   firstOutOf?: string;
@@ -49,10 +53,35 @@ export interface ActiveAlarm {
   priority: AlarmPriority;
   state: AlarmState;
   raisedAt: number;
+  /** When the condition began, before the on-delay. */
+  conditionSince: number;
+  /** Present value. */
   value: number | null;
+  valueAtRaise: number | null;
   limit: number;
   firstOut: boolean;
   firstOutOf?: string;
+}
+
+/** An operator request on one alarm (the body of its route, not yet checked). */
+export type AlarmRequest =
+  | { kind: 'acknowledge' }
+  | { kind: 'shelve'; minutes?: unknown; reason?: unknown }
+  | { kind: 'unshelve'; reason?: unknown }
+  | { kind: 'out-of-service'; on: boolean; reason?: unknown }
+  | { kind: 'reset'; reason?: unknown };
+
+/**
+ * An operator action worked out but not yet applied: store `event` and `memory` (the alarm's
+ * state afterwards), then `commit()`; if storing fails, `cancel()` and nothing has changed.
+ * Until one of them is called, the alarm is not evaluated (its value is still taken) and a
+ * second request on it is refused.
+ */
+export interface PreparedAction {
+  event: AlarmEvent;
+  memory: AlarmMemory;
+  commit(): void;
+  cancel(): void;
 }
 
 const ANNUNCIATED_ACTIVE = new Set<AlarmState>(['unacknowledged', 'acknowledged', 'returned-unacknowledged', 'latched']);
@@ -60,6 +89,8 @@ const PRIORITY_RANK: Record<AlarmPriority, number> = { high: 0, medium: 1, low: 
 
 export class AlarmBook {
   private readonly alarms = new Map<string, AlarmStateMachine>();
+  /** Alarms with an operator action being stored. */
+  private readonly busy = new Set<string>();
   private readonly grouper: FirstOutGrouper;
   private readonly clock: () => number;
   private changes = 0;
@@ -84,19 +115,125 @@ export class AlarmBook {
     const ramp = context.rampProgrammed ?? false;
     const events: AlarmEvent[] = [];
     for (const alarm of this.alarms.values()) {
-      for (const event of alarm.evaluate(values[alarm.limit.channel], nowMs, ramp)) {
-        if (event.kind === 'raise' && !event.hidden) {
-          const head = this.grouper.assign(event.alarmId, event.at);
-          if (head) {
-            alarm.groupUnder(head);
-            event.firstOutOf = head;
-          }
-        }
+      const value = values[alarm.limit.channel];
+      if (this.busy.has(alarm.limit.id)) {
+        alarm.observe(value);
+        continue;
+      }
+      for (const event of alarm.evaluate(value, nowMs, ramp)) {
+        if (event.kind === 'raise' && !event.hidden) this.group(alarm, event);
         events.push(event);
       }
     }
     this.changes += events.length;
     return events;
+  }
+
+  /** Places an annunciated raise in its first-out group, by the time its condition began. */
+  private group(alarm: AlarmStateMachine, event: AlarmEvent): void {
+    const open = this.grouper.head();
+    if (open && !this.groupHolds(open, alarm)) this.grouper.close();
+    const { head, replaced } = this.grouper.assign(event.alarmId, event.conditionSince ?? event.at);
+    if (head) {
+      alarm.groupUnder(head);
+      event.firstOutOf = head;
+    }
+    if (!replaced) return;
+    this.changes++;
+    for (const other of this.alarms.values()) {
+      if (other.raisedAt !== null && (other.limit.id === replaced || other.firstOutOf === replaced)) other.groupUnder(event.alarmId);
+    }
+  }
+
+  /** True while the condition of the group's head or of an alarm grouped under it (other than `raising`) still holds. */
+  private groupHolds(headId: string, raising: AlarmStateMachine): boolean {
+    for (const a of this.alarms.values()) {
+      if (a !== raising && a.conditionHolds && (a.limit.id === headId || a.firstOutOf === headId)) return true;
+    }
+    return false;
+  }
+
+  /**
+   * Works out an operator request on alarm `id` without applying it (see `PreparedAction`).
+   * Throws `AlarmRequestError` when it is refused; null when it would change nothing.
+   */
+  prepare(id: string, actor: string, request: AlarmRequest): PreparedAction | null {
+    const alarm = this.get(id);
+    if (this.busy.has(id)) throw new AlarmRequestError('conflict', `another action on alarm ${id} is being recorded; look again and retry`);
+    const twin = alarm.copy();
+    const event = this.run(twin, checkActor(actor), request);
+    if (!event) return null;
+    this.busy.add(id);
+    let open = true;
+    const close = () => {
+      if (!open) throw new Error(`the action on alarm ${id} was already committed or cancelled`);
+      open = false;
+      this.busy.delete(id);
+    };
+    return {
+      event,
+      memory: twin.memory(),
+      commit: () => {
+        close();
+        alarm.takeOver(twin);
+        this.changes++;
+      },
+      cancel: close,
+    };
+  }
+
+  /** Applies a request at once (no storage in between); null when it changed nothing. */
+  request(id: string, actor: string, request: AlarmRequest): AlarmEvent | null {
+    const prepared = this.prepare(id, actor, request);
+    prepared?.commit();
+    return prepared?.event ?? null;
+  }
+
+  /** The state of every alarm to keep across a restart, by id. */
+  memories(ids?: Iterable<string>): Map<string, AlarmMemory> {
+    const out = new Map<string, AlarmMemory>();
+    for (const id of ids ?? this.alarms.keys()) {
+      const alarm = this.alarms.get(id);
+      if (alarm && !this.busy.has(id)) out.set(id, alarm.memory());
+    }
+    return out;
+  }
+
+  /** Takes over states remembered before a restart; ids no longer defined are ignored. */
+  restore(memories: ReadonlyMap<string, AlarmMemory>): void {
+    for (const [id, memory] of memories) this.alarms.get(id)?.adopt(memory);
+    this.changes++;
+  }
+
+  private run(alarm: AlarmStateMachine, actor: string, request: AlarmRequest): AlarmEvent | null {
+    const now = this.clock();
+    switch (request.kind) {
+      case 'acknowledge':
+        return alarm.acknowledge(actor, now);
+      case 'shelve': {
+        const { minutes } = request;
+        if (typeof minutes !== 'number' || !Number.isFinite(minutes) || minutes <= 0 || minutes > this.maxShelveMinutes) {
+          throw new AlarmRequestError(
+            'invalid',
+            `minutes must be a number of minutes above 0 and at most ${this.maxShelveMinutes}; got ${JSON.stringify(minutes) ?? String(minutes)}`,
+          );
+        }
+        return alarm.shelve(actor, minutes, checkReason(request.reason, 'shelving'), now);
+      }
+      case 'unshelve': {
+        const why = typeof request.reason === 'string' && request.reason.trim() !== '' ? checkReason(request.reason, 'unshelving') : undefined;
+        return alarm.unshelve(actor, now, why);
+      }
+      case 'out-of-service':
+        return alarm.setOutOfService(
+          actor,
+          checkReason(request.reason, request.on ? 'taking an alarm out of service' : 'returning an alarm to service'),
+          request.on,
+          now,
+        );
+      case 'reset':
+        return alarm.resetLatched(actor, checkReason(request.reason, 'a reset'), now);
+    }
   }
 
   /**
@@ -110,40 +247,27 @@ export class AlarmBook {
 
   /** Acknowledges an alarm; null when it had nothing to acknowledge. */
   acknowledge(id: string, actor: string): AlarmEvent | null {
-    return this.counted(this.get(id).acknowledge(checkActor(actor), this.clock()));
+    return this.request(id, actor, { kind: 'acknowledge' });
   }
 
   /** Shelves an alarm for `minutes` (0 < minutes ≤ `maxShelveMinutes`) with a required reason. */
   shelve(id: string, actor: string, minutes: unknown, reason: unknown): AlarmEvent | null {
-    const alarm = this.get(id);
-    if (typeof minutes !== 'number' || !Number.isFinite(minutes) || minutes <= 0 || minutes > this.maxShelveMinutes) {
-      throw new AlarmRequestError(
-        'invalid',
-        `minutes must be a number of minutes above 0 and at most ${this.maxShelveMinutes}; got ${JSON.stringify(minutes) ?? String(minutes)}`,
-      );
-    }
-    return this.counted(alarm.shelve(checkActor(actor), minutes, checkReason(reason, 'shelving'), this.clock()));
+    return this.request(id, actor, { kind: 'shelve', minutes, reason });
   }
 
   /** Ends shelving before its time. */
   unshelve(id: string, actor: string, reason?: unknown): AlarmEvent | null {
-    const alarm = this.get(id);
-    const why = typeof reason === 'string' && reason.trim() !== '' ? checkReason(reason, 'unshelving') : undefined;
-    return this.counted(alarm.unshelve(checkActor(actor), this.clock(), why));
+    return this.request(id, actor, { kind: 'unshelve', reason });
   }
 
   /** Takes an alarm out of service (`on`) or returns it to service; a reason is required. */
   setOutOfService(id: string, actor: string, reason: unknown, on: boolean): AlarmEvent | null {
-    const alarm = this.get(id);
-    return this.counted(
-      alarm.setOutOfService(checkActor(actor), checkReason(reason, on ? 'taking an alarm out of service' : 'returning an alarm to service'), on, this.clock()),
-    );
+    return this.request(id, actor, { kind: 'out-of-service', on, reason });
   }
 
   /** Resets a latched alarm whose condition has cleared; a reason is required. */
   resetLatched(id: string, actor: string, reason: unknown): AlarmEvent | null {
-    const alarm = this.get(id);
-    return this.counted(alarm.resetLatched(checkActor(actor), checkReason(reason, 'a reset'), this.clock()));
+    return this.request(id, actor, { kind: 'reset', reason });
   }
 
   /**
@@ -183,8 +307,10 @@ export class AlarmBook {
         priority: a.limit.priority,
         state: a.state,
         value: a.value,
+        valueAtRaise: a.valueAtRaise,
         limit: a.limit.limit,
         raisedAt: a.raisedAt,
+        conditionSince: a.conditionSince,
         firstOut: heads.has(a.limit.id),
         shelf: a.shelf,
       };
@@ -195,7 +321,7 @@ export class AlarmBook {
 
   /**
    * Annunciated alarms that need the operator (unacknowledged, acknowledged, returned
-   * unacknowledged, latched), highest priority first, then oldest first. Shelved, suppressed
+   * unacknowledged, latched), highest priority first, then by the time their condition began. Shelved, suppressed
    * and out-of-service alarms are listed by `list()` only.
    */
   active(): ActiveAlarm[] {
@@ -208,19 +334,16 @@ export class AlarmBook {
         priority: s.priority,
         state: s.state,
         raisedAt: s.raisedAt,
+        conditionSince: s.conditionSince ?? s.raisedAt,
         value: s.value,
+        valueAtRaise: s.valueAtRaise,
         limit: s.limit,
         firstOut: s.firstOut,
       };
       if (s.firstOutOf) item.firstOutOf = s.firstOutOf;
       out.push(item);
     }
-    return out.sort((a, b) => PRIORITY_RANK[a.priority] - PRIORITY_RANK[b.priority] || a.raisedAt - b.raisedAt);
-  }
-
-  private counted(event: AlarmEvent | null): AlarmEvent | null {
-    if (event) this.changes++;
-    return event;
+    return out.sort((a, b) => PRIORITY_RANK[a.priority] - PRIORITY_RANK[b.priority] || a.conditionSince - b.conditionSince);
   }
 
   private get(id: string): AlarmStateMachine {

@@ -1,21 +1,23 @@
 /**
  * The alarm API: lists, history, health figures and the operator actions (acknowledge,
- * shelve, unshelve, out of service, reset of latched alarms). Each action's event is stored
- * (history and audit trail) before the answer, and the WebSocket `alarms` message follows.
+ * shelve, unshelve, out of service, reset of latched alarms). Each action is worked out, then
+ * stored in its own transaction (event, audit entry, the alarm's new state), and only then
+ * takes effect and is answered; when the write fails the alarm is left as it was and the
+ * answer is 503. The WebSocket `alarms` message follows.
  */
 import type { Request, RequestHandler } from 'express';
 import { z } from 'zod';
 import type { AlarmActionResult, AlarmHealthReport } from '../../shared/alarms/alarm-api.js';
 import type { Db } from '../db/database.js';
+import { writeFailureText } from '../db/write-failure.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { parseInput } from '../http/validate.js';
-import type { AlarmBook } from './alarm-book.js';
+import type { AlarmBook, AlarmRequest } from './alarm-book.js';
 import { activeAlarms, alarmItem, allAlarms } from './alarm-body.js';
 import { alarmHistory, raisesBetween } from './alarm-event-repository.js';
 import { alarmHealth, DEFAULT_HEALTH_RULES } from './alarm-health.js';
 import { AlarmRequestError } from './alarm-request-error.js';
-import type { AlarmEvent } from './alarm-state.js';
 import type { SupervisionLog } from './supervision-log.js';
 
 /** Most events one history request returns. */
@@ -65,22 +67,28 @@ export function alarmHandlers(deps: AlarmRouteDeps): Pick<RouteHandlers, AlarmRo
   const { db, book, records } = deps;
   const now = deps.now ?? Date.now;
 
-  /** Runs an operator action on alarm `:id`, stores its event, then answers with the alarm. */
-  const action = (run: (id: string, actor: string, body: unknown) => AlarmEvent | null): RequestHandler => {
+  /** Works out an operator action on alarm `:id`, stores it, applies it, then answers with the alarm. */
+  const action = (request: (body: unknown) => AlarmRequest): RequestHandler => {
     return async (req, res) => {
       const id = String(req.params['id']);
-      let event: AlarmEvent | null;
+      const actor = actorOf(req);
+      let prepared;
       try {
-        event = run(id, actorOf(req), req.body);
+        prepared = book.prepare(id, actor, request(req.body));
       } catch (error) {
         throw httpErrorOf(error);
       }
-      if (event) {
-        records.addAlarmEvents([event]);
+      if (prepared) {
+        try {
+          await records.recordAlarmAction(prepared.event, prepared.memory);
+        } catch (error) {
+          prepared.cancel();
+          throw new HttpError(503, `The ${prepared.event.kind} of alarm ${id} could not be recorded (${writeFailureText(error)}); nothing was changed. Try again.`);
+        }
+        prepared.commit();
         deps.announce();
-        await records.flush();
       }
-      const result: AlarmActionResult = { alarm: alarmItem(book, id)!, changed: event !== null };
+      const result: AlarmActionResult = { alarm: alarmItem(book, id)!, changed: prepared !== null };
       res.json(result);
     };
   };
@@ -123,17 +131,11 @@ export function alarmHandlers(deps: AlarmRouteDeps): Pick<RouteHandlers, AlarmRo
       };
       res.json(body);
     },
-    'alarms.acknowledge': action((id, actor) => book.acknowledge(id, actor)),
-    'alarms.shelve': action((id, actor, body) => {
-      const { minutes, reason } = parseInput(ShelveBody, body, 'body');
-      return book.shelve(id, actor, minutes, reason);
-    }),
-    'alarms.unshelve': action((id, actor, body) => book.unshelve(id, actor, parseInput(ReasonBody, body, 'body').reason)),
-    'alarms.out-of-service': action((id, actor, body) => {
-      const { on, reason } = parseInput(OutOfServiceBody, body, 'body');
-      return book.setOutOfService(id, actor, reason, on);
-    }),
-    'alarms.reset': action((id, actor, body) => book.resetLatched(id, actor, parseInput(ReasonBody, body, 'body').reason)),
+    'alarms.acknowledge': action(() => ({ kind: 'acknowledge' })),
+    'alarms.shelve': action((body) => ({ kind: 'shelve', ...parseInput(ShelveBody, body, 'body') })),
+    'alarms.unshelve': action((body) => ({ kind: 'unshelve', reason: parseInput(ReasonBody, body, 'body').reason })),
+    'alarms.out-of-service': action((body) => ({ kind: 'out-of-service', ...parseInput(OutOfServiceBody, body, 'body') })),
+    'alarms.reset': action((body) => ({ kind: 'reset', reason: parseInput(ReasonBody, body, 'body').reason })),
   };
 }
 

@@ -44,10 +44,34 @@ describe('AlarmStateMachine: annunciated states', () => {
         to: 'unacknowledged',
         value: 56,
         limit: 55,
+        conditionSince: T0 + 100,
       },
     ]);
     expect(alarm.state).toBe('unacknowledged');
     expect(alarm.raisedAt).toBe(T0 + 100);
+  });
+
+  it('keeps the value at the raise apart from the present value, and when the condition began', () => {
+    const { alarm, at } = alarmWith({ onDelayMs: 500 });
+    at(0, 50);
+    at(100, 56);
+    expect(at(600, 57)).toMatchObject([{ kind: 'raise', at: T0 + 600, value: 57, conditionSince: T0 + 100 }]);
+    at(900, 61.5);
+    expect(alarm.valueAtRaise).toBe(57);
+    expect(alarm.value).toBe(61.5);
+    expect(alarm.conditionSince).toBe(T0 + 100);
+  });
+
+  it('remembers its state across a restart: a new machine that adopts the memory behaves the same', () => {
+    const { alarm, at } = alarmWith();
+    at(0, 56);
+    alarm.acknowledge('operator@tiltwatch.example', T0 + 1000);
+    const revived = new AlarmStateMachine(alarm.limit);
+    revived.adopt(structuredClone(alarm.memory()));
+    expect(revived.state).toBe('acknowledged');
+    expect(revived.raisedAt).toBe(T0);
+    expect(revived.valueAtRaise).toBe(56);
+    expect(revived.evaluate(50, T0 + 2000, false)).toMatchObject([{ kind: 'clear', from: 'acknowledged', to: 'normal' }]);
   });
 
   it('raises a low-level alarm when the value falls below the limit', () => {

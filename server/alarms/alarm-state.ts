@@ -33,6 +33,8 @@ export interface AlarmEvent {
   hidden?: AlarmSuppression;
   /** On annunciated raises grouped under an earlier root alarm: that alarm's id. */
   firstOutOf?: string;
+  /** On raises: when the condition began (before any on-delay), Unix epoch ms. */
+  conditionSince?: number;
 }
 
 export interface Shelf {
@@ -48,6 +50,25 @@ interface EventDetails {
   reason?: string;
 }
 
+/**
+ * What an alarm must remember across a restart: its annunciated state, the suppressions laid
+ * over it, when and at which value it was raised, and its first-out group. The present value,
+ * pending delays and suppression by design are measured again after a restart.
+ */
+export interface AlarmMemory {
+  process: AlarmProcessState;
+  conditionActive: boolean;
+  outOfService: boolean;
+  shelf: Shelf | null;
+  /** Unix epoch ms; null while normal. */
+  raisedAt: number | null;
+  /** Channel value when the alarm was raised; null while normal. */
+  valueAtRaise: number | null;
+  /** When the condition of the present raise began (before the on-delay), Unix epoch ms. */
+  conditionSince: number | null;
+  firstOutOf: string | null;
+}
+
 /** State machine of one alarm. Times are Unix epoch ms, always passed in. */
 export class AlarmStateMachine {
   private process: AlarmProcessState = 'normal';
@@ -58,10 +79,63 @@ export class AlarmStateMachine {
   private outOfService = false;
   private shelfRecord: Shelf | null = null;
   private raisedAtMs: number | null = null;
+  private raisedValue: number | null = null;
+  private conditionSinceMs: number | null = null;
   private lastValue: number | null = null;
   private groupHead: string | null = null;
 
   constructor(private def: AlarmLimit) {}
+
+  /** The state to keep across a restart (see `AlarmMemory`). */
+  memory(): AlarmMemory {
+    return {
+      process: this.process,
+      conditionActive: this.conditionActive,
+      outOfService: this.outOfService,
+      shelf: this.shelfRecord && { ...this.shelfRecord },
+      raisedAt: this.raisedAtMs,
+      valueAtRaise: this.raisedValue,
+      conditionSince: this.conditionSinceMs,
+      firstOutOf: this.groupHead,
+    };
+  }
+
+  /**
+   * Takes over a remembered state (after a restart, or an operator action once it is stored).
+   * The present value stays; delays and suppression by design start afresh.
+   */
+  adopt(memory: AlarmMemory): void {
+    this.process = memory.process;
+    this.conditionActive = memory.conditionActive;
+    this.outOfService = memory.outOfService;
+    this.shelfRecord = memory.shelf && { ...memory.shelf };
+    this.raisedAtMs = memory.raisedAt;
+    this.raisedValue = memory.valueAtRaise;
+    this.conditionSinceMs = memory.conditionSince;
+    this.groupHead = memory.firstOutOf;
+    this.pendingSince = null;
+  }
+
+  /** A copy to try an operator action on before it is stored. */
+  copy(): AlarmStateMachine {
+    const twin = new AlarmStateMachine(this.def);
+    twin.adopt(this.memory());
+    twin.lastValue = this.lastValue;
+    twin.rampSuppressed = this.rampSuppressed;
+    twin.pendingSince = this.pendingSince;
+    return twin;
+  }
+
+  /** Takes over the state of `twin` (a `copy()` an operator action was applied to), keeping the present value. */
+  takeOver(twin: AlarmStateMachine): void {
+    this.adopt(twin.memory());
+    this.pendingSince = twin.pendingSince;
+  }
+
+  /** Takes the present value without evaluating (while an operator action on it is being stored). */
+  observe(value: number | undefined): void {
+    if (value !== undefined && Number.isFinite(value)) this.lastValue = value;
+  }
 
   get limit(): AlarmLimit {
     return this.def;
@@ -81,8 +155,24 @@ export class AlarmStateMachine {
     return this.raisedAtMs;
   }
 
+  /** True while the alarm's condition holds (after its on-delay, until its off-delay ran out). */
+  get conditionHolds(): boolean {
+    return this.conditionActive;
+  }
+
+  /** Present value (the newest one evaluated). */
   get value(): number | null {
     return this.lastValue;
+  }
+
+  /** Value when the present raise happened; null while normal. */
+  get valueAtRaise(): number | null {
+    return this.raisedValue;
+  }
+
+  /** When the condition of the present raise began (before its on-delay); null while normal. */
+  get conditionSince(): number | null {
+    return this.conditionSinceMs;
   }
 
   get shelf(): Shelf | null {
@@ -110,7 +200,7 @@ export class AlarmStateMachine {
    */
   evaluate(value: number | undefined, nowMs: number, rampProgrammed: boolean): AlarmEvent[] {
     const events: AlarmEvent[] = [];
-    if (value !== undefined && Number.isFinite(value)) this.lastValue = value;
+    this.observe(value);
     if (this.shelfRecord && nowMs >= this.shelfRecord.until) {
       push(events, this.change('shelve-expired', nowMs, {}, () => this.updateSuppression(() => (this.shelfRecord = null))));
     }
@@ -121,8 +211,12 @@ export class AlarmStateMachine {
     }
     if (this.outOfService || value === undefined || !Number.isFinite(value)) return events;
     const edge = this.conditionEdge(value, nowMs);
-    if (edge === 'raise') push(events, this.change('raise', nowMs, {}, () => this.raise(nowMs)));
-    if (edge === 'clear') push(events, this.change('clear', nowMs, {}, () => this.clear()));
+    if (edge?.kind === 'raise') {
+      const raise = this.change('raise', nowMs, {}, () => this.raise(nowMs, edge.since, value));
+      if (raise) raise.conditionSince = edge.since;
+      push(events, raise);
+    }
+    if (edge?.kind === 'clear') push(events, this.change('clear', nowMs, {}, () => this.clear()));
     return events;
   }
 
@@ -195,7 +289,8 @@ export class AlarmStateMachine {
     if (this.suppression() === null && this.process === 'returned-unacknowledged') this.setProcess('normal');
   }
 
-  private conditionEdge(value: number, nowMs: number): 'raise' | 'clear' | null {
+  /** A raise or clear once its delay has passed; `since` is when the condition first wanted it. */
+  private conditionEdge(value: number, nowMs: number): { kind: 'raise' | 'clear'; since: number } | null {
     const { limit, deadband, level, onDelayMs, offDelayMs } = this.def;
     const high = isHighLevel(level);
     const wantsChange = this.conditionActive
@@ -209,15 +304,17 @@ export class AlarmStateMachine {
       this.pendingSince = null;
       return null;
     }
-    this.pendingSince ??= nowMs;
-    if (nowMs - this.pendingSince < (this.conditionActive ? offDelayMs : onDelayMs)) return null;
+    const since = (this.pendingSince ??= nowMs);
+    if (nowMs - since < (this.conditionActive ? offDelayMs : onDelayMs)) return null;
     this.pendingSince = null;
     this.conditionActive = !this.conditionActive;
-    return this.conditionActive ? 'raise' : 'clear';
+    return { kind: this.conditionActive ? 'raise' : 'clear', since };
   }
 
-  private raise(nowMs: number): void {
+  private raise(nowMs: number, since: number, value: number): void {
     this.raisedAtMs = nowMs;
+    this.raisedValue = value;
+    this.conditionSinceMs = since;
     this.groupHead = null;
     this.setProcess('unacknowledged');
   }
@@ -234,6 +331,8 @@ export class AlarmStateMachine {
     this.process = next;
     if (next === 'normal') {
       this.raisedAtMs = null;
+      this.raisedValue = null;
+      this.conditionSinceMs = null;
       this.groupHead = null;
     }
   }

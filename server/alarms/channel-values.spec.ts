@@ -28,6 +28,7 @@ function live(overrides: Partial<LiveState> = {}): LiveState {
       lastFrameAt: new Date(NOW - 40).toISOString(),
     },
     prediction: null,
+    predictionStatus: { state: 'applies', fieldG: 10, minFieldG: 0.5, reason: null },
     ...overrides,
   };
 }
@@ -45,8 +46,8 @@ describe('channelValues', () => {
     expect(v).toMatchObject({ 'temperature.x': 41, 'flow.z': 2.9, waterSupply: 18, 'waterReturn.y': 21, fieldMagnitude: 10 });
   });
 
-  it('measures staleness as the time since the newest frame', () => {
-    expect(channelValues(live(), NOW).stale).toBe(40);
+  it('measures staleness as the time since the newest frame was heard', () => {
+    expect(channelValues(live(), NOW, { lastFrameAtMs: NOW - 40 }).stale).toBe(40);
   });
 
   it('leaves out everything the live state does not have yet, including staleness before the first frame', () => {

@@ -7,6 +7,8 @@ import type { ChannelValues } from './channels.js';
 export interface ChannelExtras {
   /** Target field direction in the trap frame (any length) while one is set; null otherwise. */
   targetDirection?: Vec3 | null;
+  /** Server time the newest telemetry frame was heard, Unix epoch ms; null or absent before the first. */
+  lastFrameAtMs?: number | null;
   /** Seconds the PostgreSQL server has been unreachable (0 while reachable); absent with PGlite. */
   databaseOutageS?: number;
 }
@@ -16,7 +18,7 @@ const DEG = 180 / Math.PI;
 /**
  * The channel values of the live state at server time `nowMs` (Unix epoch ms). Null-safe:
  * whatever the live state does not have yet is left out, so no alarm fires on missing data;
- * the `stale` channel (ms since `controller.lastFrameAt`) reports the loss of data instead.
+ * the `stale` channel (ms since `extras.lastFrameAtMs`) reports the loss of data instead.
  * `stale` itself is absent until the first frame arrives, so a server that starts before its
  * controller does not alarm on a controller that has not connected yet.
  */
@@ -40,8 +42,8 @@ export function channelValues(live: LiveState, nowMs: number, extras: ChannelExt
     if (target) setIfFinite(out, 'fieldAngleDeviation', angleBetweenDeg(live.field.vector, target));
   }
   setIfFinite(out, 'collapseRatio', live.prediction?.collapseRatio);
-  const lastFrameMs = live.controller.lastFrameAt === null ? NaN : Date.parse(live.controller.lastFrameAt);
-  if (Number.isFinite(lastFrameMs)) out.stale = Math.max(0, nowMs - lastFrameMs);
+  const lastFrameMs = extras.lastFrameAtMs;
+  if (finite(lastFrameMs)) out.stale = Math.max(0, nowMs - lastFrameMs);
   setIfFinite(out, 'databaseOutage', extras.databaseOutageS);
   return out;
 }

@@ -38,7 +38,7 @@ import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
-import type { AlarmState } from '../alarms/alarm-state.js';
+import type { AlarmMemory, AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
 import type { ConditionStatus } from '../interlock/trip-conditions.js';
 
@@ -406,6 +406,18 @@ export const logbookAttachments = pgTable(
   (t) => [index('logbook_attachments_entry').on(t.entryId)],
 );
 
+/**
+ * The state of each alarm that must survive a restart (acknowledged, latched, shelved with its
+ * expiry, out of service, raise time and value, first-out group): one row per alarm id, written
+ * with each operator action and with each stored batch of alarm transitions.
+ */
+export const alarmStates = pgTable('alarm_states', {
+  alarmId: text('alarm_id').primaryKey(),
+  memory: jsonb('memory').$type<AlarmMemory>().notNull(),
+  /** Server time of the write, Unix epoch ms. */
+  updatedAtMs: epochMs('updated_at_ms').notNull(),
+});
+
 export const schema = {
   users,
   calibrations,
@@ -424,4 +436,5 @@ export const schema = {
   shots,
   logbookEntries,
   logbookAttachments,
+  alarmStates,
 };

@@ -11,7 +11,7 @@ import type { ChannelsMessage, SeriesChunk, ServerMessage, SlowChunk } from '../
 import type { AccessControl, SignedInUser, SocketSession } from '../auth/access-control.js';
 import type { LiveStore } from '../live/live-store.js';
 import { appendSeriesChunk, appendSlowChunk, DECIMATED_RATE_HZ, emptySeriesChunk, emptySlowChunk } from '../live/series-chunk.js';
-import type { ChunkSink } from '../pipeline/telemetry-pipeline.js';
+import type { LiveSink } from '../live/live-sink.js';
 import type { AccountEvents } from '../users/account-events.js';
 
 export const WS_PATH = '/ws';
@@ -82,7 +82,7 @@ interface Viewer {
  * Connections are capped per client address (1013 beyond the cap), so idle sockets from one
  * place cannot lock out viewers elsewhere.
  */
-export class LiveFanout implements ChunkSink {
+export class LiveFanout implements LiveSink {
   private readonly wss = new WebSocketServer({ noServer: true, maxPayload: 8 * 1024 });
   private readonly viewers = new Set<Viewer>();
   private readonly waiting = new Map<WebSocket, NodeJS.Timeout>();
@@ -123,12 +123,22 @@ export class LiveFanout implements ChunkSink {
     this.recheckTimer.unref();
   }
 
-  publish(series: SeriesChunk | null, slow: SlowChunk | null): void {
+  publishSeries(series: SeriesChunk): void {
     for (const viewer of this.viewers) {
-      if (series) appendSeriesChunk(viewer.series, series);
-      if (slow) appendSlowChunk(viewer.slow, slow);
+      appendSeriesChunk(viewer.series, series);
       this.schedule(viewer);
     }
+  }
+
+  publishSlow(slow: SlowChunk): void {
+    for (const viewer of this.viewers) {
+      appendSlowChunk(viewer.slow, slow);
+      this.schedule(viewer);
+    }
+  }
+
+  publishStateChange(): void {
+    for (const viewer of this.viewers) this.schedule(viewer);
   }
 
   /**

@@ -1,8 +1,10 @@
 /**
  * `GET /api/interlock` (viewer): state, first-out, every condition with its value and margin,
  * the controller's hardware trip (shown apart, never reset from here) and the trip history.
- * `POST /api/interlock/reset` (operator) `{ reason }`: 200 and the ReleaseCommand once every
- * condition has cleared; 409 with the conditions still active; 400 without a reason.
+ * `POST /api/interlock/reset` (operator) `{ reason }`: the reset is decided, stored with its
+ * audit entry, and only then the ReleaseCommand goes out (200). 409 with the conditions still
+ * active, while the controller's own hardware trip is latched, or when nothing is tripped; 400
+ * without a reason; 503 when the reset could not be stored (the interlock stays tripped).
  */
 import type { InterlockResetRefusal, InterlockStatus } from '../../shared/alarms/alarm-api.js';
 import type { SupervisionLog } from '../alarms/supervision-log.js';
@@ -14,7 +16,7 @@ import type { LiveStore } from '../live/live-store.js';
 import type { Interlock } from './interlock.js';
 import { conditionBody, interlockBody } from './interlock-body.js';
 import type { Supervisor } from './supervisor.js';
-import { recentTrips, recordTripReset } from './trip-repository.js';
+import { recentTrips } from './trip-repository.js';
 
 /** Trips listed in `history`. */
 const HISTORY_TRIPS = 20;
@@ -29,26 +31,29 @@ export interface InterlockRouteDeps {
 
 export function interlockHandlers(deps: InterlockRouteDeps): Pick<RouteHandlers, 'interlock.status' | 'interlock.reset'> {
   const { db, interlock, live, supervisor, records } = deps;
+  const body = () => interlockBody(interlock.state(), live.snapshot().controller);
   return {
     'interlock.status': async (_req, res) => {
       await records.flush();
-      const body: InterlockStatus = { ...interlockBody(interlock.state(), live.snapshot().controller), history: await recentTrips(db, HISTORY_TRIPS) };
-      res.json(body);
+      const status: InterlockStatus = { ...body(), history: await recentTrips(db, HISTORY_TRIPS) };
+      res.json(status);
     },
     'interlock.reset': async (req, res) => {
-      const result = supervisor.resetInterlock(actorOf(req), (req.body as { reason?: unknown } | undefined)?.reason);
+      const result = await supervisor.resetInterlock(actorOf(req), (req.body as { reason?: unknown } | undefined)?.reason);
       if (!result.ok) {
         if (result.code === 'reason-required') throw new HttpError(400, result.message);
-        const refusal: InterlockResetRefusal = { error: result.message, conditions: result.code === 'conditions-active' ? result.active.map(conditionBody) : [] };
+        if (result.code === 'not-recorded') throw new HttpError(503, result.message);
+        const refusal: InterlockResetRefusal = {
+          error: result.message,
+          code: result.code,
+          conditions: result.code === 'conditions-active' ? result.active.map(conditionBody) : [],
+        };
         res.status(409).json(refusal);
         return;
       }
-      // The trip row may still wait in the queue: write it first, then the reset on it.
-      await records.flush();
-      await recordTripReset(db, result.reset);
       res.json({
         reset: { at: new Date(result.reset.at).toISOString(), actor: result.reset.actor, reason: result.reset.reason, trippedAt: new Date(result.reset.trip.at).toISOString() },
-        interlock: interlockBody(interlock.state(), live.snapshot().controller),
+        interlock: body(),
       });
     },
   };

@@ -77,7 +77,7 @@ describe('Interlock: trip conditions', () => {
   it('trips on a negative current beyond the trip level, since the supplies are bipolar', () => {
     const state = demoLive({ currents: { x: -20.4, y: 0, z: 0 } });
     const interlock = new Interlock();
-    const trip = interlock.evaluate(interlockInputs(state, channelValues(state, T0)), T0);
+    const trip = interlock.evaluate(interlockInputs(state, channelValues(state, T0, { lastFrameAtMs: T0 - 20 }), T0 - 20), T0);
     expect(trip?.firstOut).toMatchObject({ condition: 'over-current-x', channel: 'current.x', value: 20.4, limit: 20 });
   });
 
@@ -218,6 +218,42 @@ describe('Interlock: reset', () => {
     expect(interlock.evaluate(inputs(T0 + 6000, { 'current.z': 21 }), T0 + 6000)?.firstOut.condition).toBe('over-current-z');
   });
 
+  it("refuses a reset while the controller's hardware trip is latched, even with every condition clear", () => {
+    const interlock = trippedOnFlow();
+    interlock.evaluate(inputs(T0 + 5000, {}, { hardwareTripped: true }), T0 + 5000);
+    const result = interlock.reset('op', 'valve x reopened', T0 + 5100);
+    expect(result).toMatchObject({ ok: false, code: 'hardware-tripped' });
+    if (result.ok) throw new Error('expected a refusal');
+    expect(result.message).toMatch(/at the apparatus first/);
+    expect(interlock.state().state).toBe('tripped');
+    interlock.evaluate(inputs(T0 + 6000), T0 + 6000);
+    expect(interlock.reset('op', 'hardware trip cleared at the controller', T0 + 6100)).toMatchObject({ ok: true });
+  });
+
+  it('keeps the latch closed until a prepared reset is committed, and closed when it is cancelled', () => {
+    const interlock = trippedOnFlow();
+    interlock.evaluate(inputs(T0 + 5000), T0 + 5000);
+    const first = interlock.prepareReset('op', 'valve x reopened', T0 + 5100);
+    if (!first.ok) throw new Error(first.message);
+    expect(interlock.state().state).toBe('tripped');
+    expect(interlock.prepareReset('op', 'a second try', T0 + 5150)).toMatchObject({ ok: false, code: 'reset-in-progress' });
+    first.cancel();
+    expect(interlock.state()).toMatchObject({ state: 'tripped', lastReset: null });
+    const second = interlock.prepareReset('op', 'valve x reopened', T0 + 5200);
+    if (!second.ok) throw new Error(second.message);
+    second.commit();
+    expect(interlock.state()).toMatchObject({ state: 'ok', lastReset: { at: T0 + 5200 } });
+  });
+
+  it('latches a trip with an unknown first-out for a controller found holding at start', () => {
+    const interlock = armed();
+    const trip = interlock.foundAtStart(T0 + 50);
+    expect(trip).toMatchObject({ at: T0 + 50, firstOut: { condition: 'found-at-start', value: null } });
+    expect(trip?.reason).toMatch(/found at start/);
+    expect(interlock.state().state).toBe('tripped');
+    expect(interlock.foundAtStart(T0 + 60)).toBeNull();
+  });
+
   it('refuses a reset when nothing is tripped', () => {
     const interlock = armed();
     expect(interlock.reset('op', 'just checking', T0 + 10)).toMatchObject({ ok: false, code: 'not-tripped' });
@@ -271,6 +307,7 @@ function demoLive(overrides: Partial<LiveState>): LiveState {
       lastFrameAt: new Date(T0 - 10).toISOString(),
     },
     prediction: null,
+    predictionStatus: { state: 'applies', fieldG: 10, minFieldG: 0.5, reason: null },
     ...overrides,
   };
 }

@@ -7,6 +7,7 @@
  * Supervisory only: this software can fail, so the apparatus keeps its own hardware,
  * safety-rated interlocks, which Tiltwatch shows (`hardwareTripped`) but never resets.
  */
+import { FIRST_OUT_FOUND_AT_START } from '../../shared/alarms/alarm-api.js';
 import { DEMO_INTERLOCK_CONFIG, type InterlockConfig } from './interlock-config.js';
 import { FrameLossWindow } from './frame-loss.js';
 import {
@@ -55,10 +56,24 @@ export interface InterlockState {
   lastReset: ResetRecord | null;
 }
 
-export type ResetResult =
-  | { ok: true; reset: ResetRecord }
-  | { ok: false; code: 'reason-required' | 'not-tripped'; message: string }
+/** Why a reset was refused: 400 for a missing reason, 409 for the others. */
+export type ResetRefusal =
+  | { ok: false; code: 'reason-required' | 'not-tripped' | 'hardware-tripped' | 'reset-in-progress'; message: string }
   | { ok: false; code: 'conditions-active'; message: string; active: ConditionStatus[] };
+
+/**
+ * A reset decided but not yet in effect: store `reset` (with its audit entry), then `commit()`
+ * to open the latch, or `cancel()` when storing failed — the latch then stays closed.
+ */
+export interface PreparedReset {
+  ok: true;
+  reset: ResetRecord;
+  commit(): void;
+  cancel(): void;
+}
+
+export type ResetResult = { ok: true; reset: ResetRecord } | ResetRefusal;
+
 
 const MAX_TRIP_REASON_CHARS = 500;
 const MAX_RESET_REASON_CHARS = 500;
@@ -71,6 +86,7 @@ export class Interlock {
   private inputs: InterlockInputs | null = null;
   private trip: TripRecord | null = null;
   private lastReset: ResetRecord | null = null;
+  private resetting = false;
   /** Which conditions held at the last evaluation, one flag per condition. */
   private readonly holding: boolean[];
   private changes = 0;
@@ -153,6 +169,23 @@ export class Interlock {
     return this.changes;
   }
 
+  /**
+   * Latches a trip for a controller found holding at start with no trip on record (its record
+   * was lost, or it was tripped by a server that stopped before storing it). The cause is
+   * unknown; the returned record is stored like any trip. Null when already tripped.
+   */
+  foundAtStart(nowMs: number): TripRecord | null {
+    if (this.trip) return null;
+    this.trip = {
+      at: nowMs,
+      firstOut: { condition: FIRST_OUT_FOUND_AT_START, channel: 'controller.softwareHold', value: null, limit: 0, at: nowMs },
+      valuesAtTrip: this.conditions(),
+      reason: 'Software interlock tripped: the controller was found holding at start with no trip on record (first-out unknown, found at start)',
+    };
+    this.changes++;
+    return this.trip;
+  }
+
   /** Every condition as of the last evaluation. */
   conditions(): ConditionStatus[] {
     return this.defs.map((def, i) => conditionStatus(def, this.values[i]));
@@ -170,11 +203,14 @@ export class Interlock {
   }
 
   /**
-   * Resets the latch at `nowMs` (Unix epoch ms). Refused without a reason, when not tripped,
-   * or while any condition holds — measured again at `nowMs` from the last inputs, so time
-   * spent without telemetry counts. Role checks are the caller's (operator or above).
+   * Decides a reset at `nowMs` (Unix epoch ms) without opening the latch (see `PreparedReset`).
+   * Refused without a reason, when not tripped, while the controller's own hardware trip is
+   * latched (it must be cleared at the apparatus first, see server/alarms/README.md "Safe order
+   * of resets"), while another reset is being stored, or while any condition holds — measured
+   * again at `nowMs` from the last inputs, so time spent without telemetry counts. Role checks
+   * are the caller's (operator or above).
    */
-  reset(actor: string, reason: unknown, nowMs: number): ResetResult {
+  prepareReset(actor: string, reason: unknown, nowMs: number): PreparedReset | ResetRefusal {
     const why = typeof reason === 'string' ? reason.trim() : '';
     if (why === '') {
       return { ok: false, code: 'reason-required', message: 'a reason is required to reset the interlock: say what caused the trip and what was done' };
@@ -182,7 +218,17 @@ export class Interlock {
     if (why.length > MAX_RESET_REASON_CHARS) {
       return { ok: false, code: 'reason-required', message: `the reason must be at most ${MAX_RESET_REASON_CHARS} characters` };
     }
-    if (!this.trip) return { ok: false, code: 'not-tripped', message: 'the interlock is not tripped; there is nothing to reset' };
+    const trip = this.trip;
+    if (!trip) return { ok: false, code: 'not-tripped', message: 'the interlock is not tripped; there is nothing to reset' };
+    if (this.resetting) return { ok: false, code: 'reset-in-progress', message: 'another reset of the interlock is being recorded; look again in a moment' };
+    if (this.inputs?.hardwareTripped) {
+      return {
+        ok: false,
+        code: 'hardware-tripped',
+        message:
+          "the controller's own hardware trip is latched: clear its cause and reset the hardware trip at the apparatus first (Tiltwatch never resets it), then reset the software interlock here",
+      };
+    }
     if (this.inputs) this.evaluate(this.inputs, nowMs);
     const active = this.conditions().filter((c) => c.active);
     if (active.length > 0) {
@@ -193,10 +239,30 @@ export class Interlock {
         active,
       };
     }
-    const record: ResetRecord = { at: nowMs, actor, reason: why, trip: this.trip };
-    this.trip = null;
-    this.lastReset = record;
-    this.changes++;
-    return { ok: true, reset: record };
+    const record: ResetRecord = { at: nowMs, actor, reason: why, trip };
+    this.resetting = true;
+    const settle = () => {
+      if (!this.resetting) throw new Error('this reset was already committed or cancelled');
+      this.resetting = false;
+    };
+    return {
+      ok: true,
+      reset: record,
+      commit: () => {
+        settle();
+        if (this.trip === trip) this.trip = null;
+        this.lastReset = record;
+        this.changes++;
+      },
+      cancel: settle,
+    };
+  }
+
+  /** Decides and applies a reset at once, with nothing stored in between (tests, tools). */
+  reset(actor: string, reason: unknown, nowMs: number): ResetResult {
+    const prepared = this.prepareReset(actor, reason, nowMs);
+    if (!prepared.ok) return prepared;
+    prepared.commit();
+    return { ok: true, reset: prepared.reset };
   }
 }

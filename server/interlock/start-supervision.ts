@@ -1,14 +1,15 @@
 /**
  * Assembles alarms, the software interlock and on-call mail for the server: limits from the
- * database (seeded with the demo set), a latched trip restored from before a restart, the
- * background record writer, the mail path (a real SMTP server, or the local mailbox), the
- * supervisor and the routes. The owner calls `close()`.
+ * database (seeded with the demo set), the alarm states and a latched trip restored from
+ * before a restart, the record writer, the mail path (a real SMTP server, or the local
+ * mailbox), the supervisor and the routes. The owner calls `close()`.
  */
 import type { Logger } from 'pino';
 import { AlarmBook } from '../alarms/alarm-book.js';
 import { alarmLimitHandlers } from '../alarms/alarm-limit-routes.js';
 import { loadAlarmLimits } from '../alarms/alarm-limit-repository.js';
 import { alarmHandlers, type AlarmRoutes } from '../alarms/alarm-routes.js';
+import { loadAlarmStates } from '../alarms/alarm-state-repository.js';
 import { SupervisionLog } from '../alarms/supervision-log.js';
 import type { ServerConfig } from '../config.js';
 import type { Db } from '../db/database.js';
@@ -17,7 +18,7 @@ import type { LiveStore } from '../live/live-store.js';
 import { composeChannelBands } from '../../shared/levels/channel-bands.js';
 import type { ChannelBands } from '../../shared/live/channels.js';
 import { levelHandlers, type LevelRoutes } from '../levels/level-routes.js';
-import { LevelStore } from '../levels/level-store.js';
+import type { LevelStore } from '../levels/level-store.js';
 import { parseNoticeOptions } from '../notify/compose-notice.js';
 import { LocalMailbox } from '../notify/local-mailbox.js';
 import { Mailer } from '../notify/mailer.js';
@@ -67,14 +68,16 @@ export async function startSupervision(deps: {
   sink: SupervisionSink;
   config: ServerConfig;
   log: Logger;
+  /** The lead-set levels (trip levels, bands, settings), loaded once for the whole server. */
+  levels: LevelStore;
   /** Seconds the PostgreSQL server has been unreachable (the `databaseOutage` alarm); absent with PGlite. */
   databaseOutageS?: () => number;
   /** The target in force and whether a ramp is programmed (steering). */
   steering?: SteeringContext;
 }): Promise<Supervision> {
-  const { db, live, sink, config, log, steering } = deps;
+  const { db, live, sink, config, log, levels, steering } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
-  const levels = await LevelStore.load(db);
+  book.restore(await loadAlarmStates(db));
   const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs, ...interlockTrips(levels.inForce().levels.trips) }));
   // One source: the level set in force feeds the interlock's trip levels and the gauges' bands.
   const publishBands = () => sink.publishChannels(composeChannelBands(levels.inForce(), book.limits()));
@@ -100,7 +103,10 @@ export async function startSupervision(deps: {
     }
   };
   try {
-    const records = new SupervisionLog(db, { onError: (error) => log.error({ err: error }, 'storing alarm events or trips failed') });
+    const records = new SupervisionLog(db, {
+      statesOf: (ids) => book.memories(ids),
+      onError: (error) => log.error({ err: error }, 'storing alarm events or trips failed'),
+    });
     closers.push(() => records.close());
     const mailbox = config.mail.smtpUrl === null ? await LocalMailbox.start({ port: config.mail.mailboxPort, log }) : null;
     if (mailbox) {

@@ -20,12 +20,11 @@ export interface InterlockInputs {
   hardwareTripped: boolean;
 }
 
-/** Interlock inputs from the live state and its channel values. */
-export function interlockInputs(live: LiveState, values: ChannelValues): InterlockInputs {
-  const last = live.controller.lastFrameAt === null ? NaN : Date.parse(live.controller.lastFrameAt);
+/** Interlock inputs from the live state, its channel values and when its newest frame was heard (Unix epoch ms). */
+export function interlockInputs(live: LiveState, values: ChannelValues, lastFrameAtMs: number | null): InterlockInputs {
   return {
     values,
-    lastFrameAtMs: Number.isFinite(last) ? last : null,
+    lastFrameAtMs,
     controllerOnline: live.controller.online,
     hardwareTripped: live.controller.hardwareTripped,
   };

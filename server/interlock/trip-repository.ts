@@ -8,6 +8,7 @@ import type { ResetRecord, TripRecord } from './interlock.js';
 import { conditionBody, firstOutBody } from './interlock-body.js';
 
 type Writer = Pick<Db, 'insert'>;
+type Updater = Pick<Db, 'insert' | 'update'>;
 
 /** Appends trips; pass a transaction to join a larger write. A trip stored before is skipped. */
 export async function insertTrips(db: Writer, trips: readonly TripRecord[]): Promise<void> {
@@ -19,25 +20,23 @@ export async function insertTrips(db: Writer, trips: readonly TripRecord[]): Pro
 }
 
 /**
- * Stores the reset on its trip's row and the audit entry together. The trip row must exist
- * already (flush the queued trip first); a missing row is written now.
+ * Stores the reset on its trip's row and its audit entry; run it inside a transaction. A trip
+ * row not stored yet (its write failed) is written first.
  */
-export async function recordTripReset(db: Db, reset: ResetRecord): Promise<void> {
-  await db.transaction(async (tx) => {
-    await insertTrips(tx, [reset.trip]);
-    await tx
-      .update(interlockTrips)
-      .set({ resetAtMs: reset.at, resetBy: reset.actor, resetReason: reset.reason })
-      .where(eq(interlockTrips.trippedAtMs, reset.trip.at));
-    await appendAudit(tx, {
-      actor: reset.actor,
-      action: 'interlock.reset',
-      subject: 'interlock',
-      oldValue: { state: 'tripped', firstOut: reset.trip.firstOut },
-      newValue: { state: 'ok' },
-      reason: reset.reason,
-      at: new Date(reset.at),
-    });
+export async function recordTripReset(tx: Updater, reset: ResetRecord): Promise<void> {
+  await insertTrips(tx, [reset.trip]);
+  await tx
+    .update(interlockTrips)
+    .set({ resetAtMs: reset.at, resetBy: reset.actor, resetReason: reset.reason })
+    .where(eq(interlockTrips.trippedAtMs, reset.trip.at));
+  await appendAudit(tx, {
+    actor: reset.actor,
+    action: 'interlock.reset',
+    subject: 'interlock',
+    oldValue: { state: 'tripped', firstOut: reset.trip.firstOut },
+    newValue: { state: 'ok' },
+    reason: reset.reason,
+    at: new Date(reset.at),
   });
 }
 

@@ -1,7 +1,7 @@
 import type { Calibration } from '../../shared/field/calibration.js';
 import type { FieldUncertainty } from '../../shared/field/field-uncertainty.js';
 import type { FieldState } from '../../shared/field/field-vector.js';
-import type { LivePrediction, LiveState, PerAxis } from '../../shared/live/live-state.js';
+import type { LivePrediction, LiveState, PerAxis, PredictionStatus } from '../../shared/live/live-state.js';
 import type { ControllerStatus, FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
 
 /**
@@ -31,8 +31,10 @@ export class LiveStore {
       lastFrameAt: null,
     },
     prediction: null,
+    predictionStatus: { state: 'no-telemetry', fieldG: null, minFieldG: null, reason: 'No telemetry yet.' },
   };
   private newestSampleMs = -Infinity;
+  private lastFrameMs: number | null = null;
 
   /**
    * Takes a fast frame: mean currents (A) and voltages (V) of the frame, the field of the mean
@@ -61,6 +63,12 @@ export class LiveStore {
       calibration: { id: calibration.id, version: calibration.version, label: calibration.label },
       controller: { ...this.state.controller, lastFrameAt: new Date(receivedAtMs).toISOString() },
     });
+    this.lastFrameMs = receivedAtMs;
+  }
+
+  /** Server time the newest fast frame arrived, Unix epoch ms; null before the first. */
+  lastFrameAtMs(): number | null {
+    return this.lastFrameMs;
   }
 
   applySlow(frame: SlowFrame): void {
@@ -89,6 +97,11 @@ export class LiveStore {
   /** Takes the newest prediction for the measured field direction (null: none available). */
   applyPrediction(prediction: LivePrediction | null): void {
     this.update({ prediction });
+  }
+
+  /** Takes whether the prediction describes the gas now. */
+  applyPredictionStatus(predictionStatus: PredictionStatus): void {
+    this.update({ predictionStatus });
   }
 
   /**

@@ -1,26 +1,37 @@
+import type { Calibration } from '../../shared/field/calibration.js';
 import { fieldUncertainty } from '../../shared/field/field-uncertainty.js';
-import { fieldFromCurrents } from '../../shared/field/field-vector.js';
-import type { SeriesChunk, SlowChunk } from '../../shared/live/live-state.js';
+import { fieldFromCurrents, type Vec3 } from '../../shared/field/field-vector.js';
+import type { LiveState } from '../../shared/live/live-state.js';
 import type { ControllerStatus, FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
 import type { CalibrationCache } from '../field/calibration-cache.js';
 import type { AdmittedMessage } from '../ingest/frame-gate.js';
 import { BlockDecimator } from '../live/block-decimator.js';
+import type { LiveSink } from '../live/live-sink.js';
 import type { LiveStore } from '../live/live-store.js';
 import { mean } from '../live/live-store.js';
 import { appendSeriesPoint, appendSlowPoint, DECIMATION_BLOCK_MS, emptySeriesChunk, emptySlowChunk } from '../live/series-chunk.js';
-import type { LivePredictionFeed } from '../prediction/live-prediction-feed.js';
 import type { RollupAccumulator } from '../storage/rollup-accumulator.js';
 import type { TelemetryWriter } from '../storage/telemetry-writer.js';
 
-/** Where the pipeline's chart points go (the WebSocket fan-out). */
-export interface ChunkSink {
-  publish(series: SeriesChunk | null, slow: SlowChunk | null): void;
+/** A message the pipeline applied, with what it produced: passed on to supervision as values. */
+export interface AppliedMessage {
+  message: AdmittedMessage;
+  /** The live state after the message. */
+  live: LiveState;
+  /** Server time the newest fast frame arrived, Unix epoch ms; null before the first. */
+  lastFrameAtMs: number | null;
+}
+
+/** What the pipeline hands each fast frame's mean currents to (the live prediction feed). */
+export interface FrameDirectionSink {
+  addFrame(calibration: Calibration, meanCurrentA: Vec3, sampleTimeMs: number): void;
 }
 
 /**
  * The one-way flow after the edge: validated frame → field (active calibration) → live state
- * and the prediction feed → roll-ups and storage → fan-out. Runs synchronously in the MQTT message handler and never
- * awaits, so nothing downstream (database, browsers) can hold ingest up.
+ * and the prediction feed → roll-ups and storage → fan-out, and the result returned for
+ * supervision. Runs synchronously in the MQTT message handler and never awaits, so nothing
+ * downstream (database, browsers) can hold ingest up.
  */
 export class TelemetryPipeline {
   private readonly decimator = new BlockDecimator(DECIMATION_BLOCK_MS);
@@ -31,22 +42,27 @@ export class TelemetryPipeline {
       live: LiveStore;
       rollups: RollupAccumulator;
       writer: TelemetryWriter;
-      fanout: ChunkSink;
+      fanout: LiveSink;
       /** Takes each frame's mean currents for the live prediction (it only hands over to a worker). */
-      prediction: Pick<LivePredictionFeed, 'addFrame'>;
+      prediction: FrameDirectionSink;
       now?: () => number;
     },
   ) {}
 
-  handle(message: AdmittedMessage): void {
+  handle(message: AdmittedMessage): AppliedMessage {
     switch (message.kind) {
       case 'fast':
-        return this.handleFast(message.frame);
+        this.handleFast(message.frame);
+        break;
       case 'slow':
-        return this.handleSlow(message.frame);
+        this.handleSlow(message.frame);
+        break;
       case 'status':
-        return this.handleStatus(message.status);
+        this.handleStatus(message.status);
+        break;
     }
+    const { live } = this.deps;
+    return { message, live: live.snapshot(), lastFrameAtMs: live.lastFrameAtMs() };
   }
 
   private handleFast(frame: FastFrame): void {
@@ -66,7 +82,7 @@ export class TelemetryPipeline {
     prediction.addFrame(calibration, meanCurrent, frame.t0Ms);
     rollups.addFast(frame);
     writer.addFast(frame, calibration.id);
-    if (series.t.length > 0) fanout.publish(series, null);
+    if (series.t.length > 0) fanout.publishSeries(series);
   }
 
   private handleSlow(frame: SlowFrame): void {
@@ -76,11 +92,11 @@ export class TelemetryPipeline {
     writer.addSlow(frame);
     const slow = emptySlowChunk();
     appendSlowPoint(slow, frame.tMs, frame.coilTempC, frame.flowLpm);
-    fanout.publish(null, slow);
+    fanout.publishSlow(slow);
   }
 
   private handleStatus(status: ControllerStatus): void {
     this.deps.live.applyStatus(status);
-    this.deps.fanout.publish(null, null);
+    this.deps.fanout.publishStateChange();
   }
 }

@@ -3,9 +3,13 @@ import type { Vec3 } from '../../shared/field/field-vector.js';
 import type { ProfileRecord } from '../../shared/profiles/profile-record.js';
 import { profileTrapField } from '../../shared/profiles/trap-orientation.js';
 import type { LiveStore } from '../live/live-store.js';
-import type { ChunkSink } from '../pipeline/telemetry-pipeline.js';
+import type { LiveSink } from '../live/live-sink.js';
 import type { PredictionEngine } from './prediction-engine.js';
 import type { PredictionHistoryRing } from './prediction-history.js';
+import { predictionStatus, sameStatus } from './prediction-status.js';
+
+/** How often the feed checks, without frames, whether telemetry went stale, ms. */
+const STATUS_CHECK_MS = 100;
 
 type FieldCalibration = Pick<CalibrationBody, 'gaussPerAmp' | 'offsetGauss'>;
 
@@ -15,20 +19,52 @@ type FieldCalibration = Pick<CalibrationBody, 'gaussPerAmp' | 'offsetGauss'>;
  * frame (the profile's orientation, not the calibration's, see trap-orientation.ts); each new
  * prediction goes into the live state, the history ring and the WebSocket fan-out. Called in
  * the ingest path, so it only does a matrix product and hands over: the engine thresholds,
- * coalesces and solves in its worker thread.
+ * coalesces and solves in its worker thread. It also keeps the live state's `predictionStatus`:
+ * whether the prediction describes the gas now (|B| strong enough to orient the dipoles, as
+ * the lead sets it in the level set, and telemetry not stale), checked on every frame and on a timer.
+ * The owner calls `close()`.
  */
 export class LivePredictionFeed {
   private profile: ProfileRecord | null = null;
-  private lastFrame: { calibration: FieldCalibration; meanCurrentA: Vec3 } | null = null;
+  private lastFrame: { calibration: FieldCalibration; meanCurrentA: Vec3; fieldG: number; atMs: number } | null = null;
+  private readonly timer: NodeJS.Timeout;
+  private readonly now: () => number;
+  private minOrientingFieldG: number;
 
   constructor(
-    private readonly deps: { engine: PredictionEngine; live: LiveStore; history: PredictionHistoryRing; fanout: ChunkSink },
+    private readonly deps: {
+      engine: PredictionEngine;
+      live: LiveStore;
+      history: PredictionHistoryRing;
+      fanout: Pick<LiveSink, 'publishStateChange'>;
+      /** Telemetry older than this is stale, ms (the interlock's stale limit). */
+      staleMs: number;
+      /** The least field that orients the dipoles, G, until `setMinOrientingField`. */
+      minOrientingFieldG: number;
+      /** Server clock, Unix epoch ms (default `Date.now`). */
+      now?: () => number;
+    },
   ) {
+    this.now = deps.now ?? Date.now;
+    this.minOrientingFieldG = deps.minOrientingFieldG;
     deps.engine.onPrediction((p) => {
       deps.live.applyPrediction(p);
       deps.history.push(p);
-      deps.fanout.publish(null, null);
+      deps.fanout.publishStateChange();
     });
+    this.timer = setInterval(() => this.updateStatus(), STATUS_CHECK_MS);
+    this.timer.unref();
+  }
+
+  /** Takes a new least field that orients the dipoles, G (a lead changed the level set). */
+  setMinOrientingField(fieldG: number): void {
+    this.minOrientingFieldG = fieldG;
+    this.updateStatus();
+  }
+
+  /** Stops the staleness check. */
+  close(): void {
+    clearInterval(this.timer);
   }
 
   /** The active profile, or null before the first `setProfile`. */
@@ -49,7 +85,8 @@ export class LivePredictionFeed {
   setProfile(record: ProfileRecord): void {
     this.profile = record;
     this.deps.live.applyPrediction(null);
-    this.deps.fanout.publish(null, null);
+    this.deps.fanout.publishStateChange();
+    this.updateStatus();
     const measured = this.lastFrame ? this.trapAngles(this.lastFrame.calibration, this.lastFrame.meanCurrentA) : null;
     this.deps.engine.setProfile(record.id, record.profile, measured ?? undefined);
   }
@@ -60,9 +97,28 @@ export class LivePredictionFeed {
    * and is skipped.
    */
   addFrame(calibration: FieldCalibration, meanCurrentA: Vec3, sampleTimeMs: number): void {
-    this.lastFrame = { calibration, meanCurrentA };
-    const angles = this.trapAngles(calibration, meanCurrentA);
-    if (angles) this.deps.engine.updateDirection(angles, sampleTimeMs);
+    // |B| does not depend on the frame; without a profile the coil frame gives it.
+    const field = profileTrapField(calibration, this.profile?.profile ?? {}, meanCurrentA);
+    this.lastFrame = { calibration, meanCurrentA, fieldG: field.magnitude, atMs: this.now() };
+    if (this.profile && field.thetaDeg !== null && field.phiDeg !== null) {
+      this.deps.engine.updateDirection({ thetaDeg: field.thetaDeg, phiDeg: field.phiDeg }, sampleTimeMs);
+    }
+    this.updateStatus();
+  }
+
+  /** Publishes whether the prediction applies now, when that changed. */
+  private updateStatus(): void {
+    const last = this.lastFrame;
+    const next = predictionStatus({
+      fieldG: last?.fieldG ?? null,
+      lastFrameAtMs: last?.atMs ?? null,
+      nowMs: this.now(),
+      staleMs: this.deps.staleMs,
+      minFieldG: this.minOrientingFieldG,
+    });
+    if (sameStatus(next, this.deps.live.snapshot().predictionStatus)) return;
+    this.deps.live.applyPredictionStatus(next);
+    this.deps.fanout.publishStateChange();
   }
 
   /** Field direction in the active profile's trap frame, degrees; null without a profile or a field. */

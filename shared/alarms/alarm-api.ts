@@ -31,9 +31,14 @@ export interface ActiveAlarm {
   state: AlarmStateName | string;
   /** ISO 8601 UTC. */
   raisedAt: string;
+  /** When the condition began (before the on-delay), ISO 8601 UTC; first-out groups are ordered by it. */
+  conditionSince?: string;
+  /** Present value (channel unit), live. */
   value: number | null;
+  /** Value when the alarm was raised. */
+  valueAtRaise?: number | null;
   limit: number;
-  /** True when later alarms are grouped under this one (it came first). */
+  /** True when later alarms are grouped under this one (its condition began first). */
   firstOut?: boolean;
   /** Id of the first-out alarm this one is grouped under. */
   firstOutOf?: string;
@@ -51,8 +56,12 @@ export interface AlarmListItem {
   state: AlarmStateName;
   /** ISO 8601 UTC; null while normal. */
   raisedAt: string | null;
+  /** When the condition of the present raise began, ISO 8601 UTC; null while normal. */
+  conditionSince: string | null;
   /** Present value (channel unit), null before the first one. */
   value: number | null;
+  /** Value when the alarm was raised; null while normal. */
+  valueAtRaise: number | null;
   limit: number;
   firstOut: boolean;
   firstOutOf?: string;
@@ -100,6 +109,12 @@ export interface AlarmHealthReport {
   stale: { alarmId: string; raisedAt: string; activeForMs: number }[];
   rules: { intervalMinutes: number; floodAbove: number; chatterRaises: number; chatterWindowS: number; staleAfterHours: number };
 }
+
+/**
+ * `InterlockFirstOut.condition` of a trip found at start: the controller was holding, but no
+ * trip was on record (its record was lost); the cause is unknown.
+ */
+export const FIRST_OUT_FOUND_AT_START = 'found-at-start';
 
 export interface InterlockFirstOut {
   condition: string;
@@ -155,15 +170,25 @@ export interface InterlockStatus {
   caution?: string;
 }
 
-/** 409 body of `POST /api/interlock/reset` while a trip condition holds (or nothing is tripped). */
+/** 409 body of `POST /api/interlock/reset` when the reset is refused. */
 export interface InterlockResetRefusal {
   error: string;
+  /**
+   * Why: `conditions-active` (see `conditions`), `hardware-tripped` (the controller's own trip
+   * must be cleared at the apparatus first), `not-tripped`, `reset-in-progress`.
+   */
+  code?: 'conditions-active' | 'hardware-tripped' | 'not-tripped' | 'reset-in-progress';
   conditions: InterlockCondition[];
 }
 
 /** WebSocket message sent when the interlock or the active alarm list changes (and after hello). */
 export interface AlarmsMessage {
   type: 'alarms';
+  /**
+   * Goes up whenever the interlock state or the active list changes; messages between such
+   * changes only refresh present values (at most four times a second).
+   */
+  revision: number;
   interlock: InterlockStatus;
   active: ActiveAlarm[];
 }

@@ -38,6 +38,25 @@ export interface LiveState {
   };
   /** Live prediction for the measured field direction and the active sample profile. */
   prediction: LivePrediction | null;
+  /** Whether that prediction describes the gas now. */
+  predictionStatus: PredictionStatus;
+}
+
+/**
+ * Whether the live prediction describes the gas now: `applies` with fresh telemetry and a
+ * field strong enough to orient the dipoles; `weak-field` while |B| is below the lead-set
+ * `minOrientingFieldG` of the level set in force; `stale` while no telemetry arrived for longer than the
+ * stale limit; `no-telemetry` before the first frame. Screens grey the prediction out unless
+ * it applies.
+ */
+export interface PredictionStatus {
+  state: 'applies' | 'weak-field' | 'stale' | 'no-telemetry';
+  /** |B| of the newest frame, G; null before the first. */
+  fieldG: number | null;
+  /** The least field that orients the dipoles, G (lead-set in the level set in force); null until known. */
+  minFieldG: number | null;
+  /** Why the prediction does not apply, in one sentence; null when it applies. */
+  reason: string | null;
 }
 
 /** An ellipse as the camera sees it: semi-axes and the major axis angle from u towards v. */

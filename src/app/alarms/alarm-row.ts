@@ -13,10 +13,15 @@ export interface ListedAlarm {
   channel: string;
   priority: AlarmPriority;
   state: string;
+  /** Present value, live. */
   value: number | null;
+  /** Value when the alarm was raised; null or absent while normal. */
+  valueAtRaise?: number | null;
   limit: number;
   /** ISO 8601 UTC; null while normal. */
   raisedAt: string | null;
+  /** When the condition began (before the on-delay), ISO 8601 UTC. */
+  conditionSince?: string | null;
   level?: string;
   firstOutOf?: string;
   /** Extra line under the state, e.g. who shelved it until when. */
@@ -29,8 +34,9 @@ export interface AlarmActionRequest {
 }
 
 /**
- * One alarm: priority as shape and word, ISA-18.2 state in words, value and limit with units,
- * raised time in local time, and the actions the signed-in role may take (none for a viewer).
+ * One alarm: priority as shape and word, ISA-18.2 state in words, the present value (live) and
+ * the value at the raise apart, the limit with units, raised time in local time, and the actions
+ * the signed-in role may take (none for a viewer).
  */
 @Component({
   selector: 'tw-alarm-row',

@@ -9,15 +9,15 @@ import { AlarmsPage } from './alarms-page';
 const ALARMS: AlarmListItem[] = [
   {
     id: 'flow.x.L', channel: 'flow.x', level: 'L', priority: 'high', state: 'unacknowledged', raisedAt: '2026-03-02T22:14:04.000Z',
-    value: 0.8, limit: 1.5, firstOut: true, shelf: null,
+    conditionSince: '2026-03-02T22:14:03.000Z', value: 0.8, valueAtRaise: 1.3, limit: 1.5, firstOut: true, shelf: null,
   },
   {
     id: 'temperature.x.H', channel: 'temperature.x', level: 'H', priority: 'medium', state: 'unacknowledged', raisedAt: '2026-03-02T22:14:09.000Z',
-    value: 56.2, limit: 55, firstOut: false, firstOutOf: 'flow.x.L', shelf: null,
+    conditionSince: '2026-03-02T22:14:08.000Z', value: 56.2, valueAtRaise: 55.4, limit: 55, firstOut: false, firstOutOf: 'flow.x.L', shelf: null,
   },
   {
     id: 'current.y.H', channel: 'current.y', level: 'H', priority: 'medium', state: 'normal', raisedAt: null,
-    value: 3.1, limit: 18, firstOut: false, shelf: null,
+    conditionSince: null, value: 3.1, valueAtRaise: null, limit: 18, firstOut: false, shelf: null,
   },
 ];
 

@@ -21,6 +21,9 @@ import { ReasonDialog, type ReasonDialogData } from './reason-dialog';
 /** Longest shelving offered, minutes (one shift; the server enforces its own maximum). */
 export const MAX_SHELVE_MINUTES = 480;
 
+/** How often the alarms set aside are read again while the page is open, ms. */
+const SET_ASIDE_REFRESH_MS = 1000;
+
 const ANNUNCIATED = new Set(['unacknowledged', 'acknowledged', 'returned-unacknowledged', 'latched']);
 const SET_ASIDE = new Set(['shelved', 'suppressed', 'out-of-service']);
 const PRIORITY_RANK: Record<string, number> = { high: 0, medium: 1, low: 2 };
@@ -56,7 +59,11 @@ export class AlarmsPage {
     const fetched = this.all.hasValue() ? this.all.value().alarms : [];
     return fetched
       .filter((a) => ANNUNCIATED.has(a.state))
-      .sort((a, b) => PRIORITY_RANK[a.priority] - PRIORITY_RANK[b.priority] || Date.parse(a.raisedAt ?? '') - Date.parse(b.raisedAt ?? ''));
+      .sort(
+        (a, b) =>
+          PRIORITY_RANK[a.priority] - PRIORITY_RANK[b.priority] ||
+          Date.parse(a.conditionSince ?? a.raisedAt ?? '') - Date.parse(b.conditionSince ?? b.raisedAt ?? ''),
+      );
   });
 
   protected readonly setAside = computed<ListedAlarm[]>(() => {
@@ -68,11 +75,23 @@ export class AlarmsPage {
   protected readonly problem = signal<string | null>(null);
 
   constructor() {
+    // A new revision is a change of state (raise, clear, action): read the lists again. Pushes
+    // between revisions only carry present values, which the active list takes as they come.
     effect(() => {
-      if (!this.feed.alarms()) return;
+      if (this.feed.alarmsRevision() === null) return;
       untracked(() => {
         this.all.reload();
         this.health.reload();
+      });
+    });
+    // The alarms set aside are not pushed: their present values are read again every second.
+    let lastRead = Date.now();
+    effect(() => {
+      const now = this.feed.clock();
+      if (now - lastRead < SET_ASIDE_REFRESH_MS) return;
+      lastRead = now;
+      untracked(() => {
+        if (!this.all.isLoading()) this.all.reload();
       });
     });
   }

@@ -63,6 +63,11 @@ export class LiveFeed {
    * change; rare, so published at once rather than with the summary). Null until the first.
    */
   readonly alarms = this.latestAlarms.asReadonly();
+  /**
+   * The `revision` of the newest `alarms` message: changes only when the interlock state or the
+   * active list changed, not when a push merely refreshes present values. Null until the first.
+   */
+  readonly alarmsRevision = computed(() => this.latestAlarms()?.revision ?? null);
   /** Display bands in force as the server last pushed them (after hello and on every change). */
   readonly channels = this.latestChannels.asReadonly();
   /** Browser-clock time of the next reconnect attempt while offline. */

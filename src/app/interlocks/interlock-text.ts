@@ -1,12 +1,26 @@
 /** Sentences about the software interlock, shared by the banner and the Interlocks page. */
-import type { InterlockCondition, InterlockFirstOut, InterlockStatus } from '../../../shared/alarms/alarm-api';
+import { FIRST_OUT_FOUND_AT_START, type InterlockCondition, type InterlockFirstOut, type InterlockStatus } from '../../../shared/alarms/alarm-api';
 import { isChannelId } from '../../../shared/alarms/channels';
 import { channelUnit, defaultDigits, quantityText } from '../alarms/channel-text';
 import { formatLocalTime } from '../readout/format-quantity';
 
+/** Words for a trip found at start, whose cause is unknown. */
+const FOUND_AT_START_WORDS = 'unknown, found at start';
+
 /** A condition name in words: "low-flow-x" → "low flow x". */
 export function conditionWords(name: string): string {
-  return name.replace(/-/g, ' ');
+  return name === FIRST_OUT_FOUND_AT_START ? FOUND_AT_START_WORDS : name.replace(/-/g, ' ');
+}
+
+/**
+ * The cause of a trip in words: "low flow x on flow.x: 0.42 L/min, trip level 1.00 L/min", or
+ * for a trip found at start why nothing more is known.
+ */
+export function tripCauseText(firstOut: InterlockFirstOut, condition: Pick<InterlockCondition, 'channel' | 'unit' | 'tripsWhen'>): string {
+  if (firstOut.condition === FIRST_OUT_FOUND_AT_START) {
+    return `${FOUND_AT_START_WORDS} (the controller was holding with no trip on record)`;
+  }
+  return `${conditionOnChannel(firstOut.condition, firstOut.channel)}: ${readingAgainstLimit(firstOut, condition)}`;
 }
 
 /** Unit of a condition's value: the one the server sent, else its channel's. */
@@ -48,6 +62,7 @@ export function conditionOnChannel(name: string, channel: string): string {
 export function firstOutText(firstOut: InterlockFirstOut, conditions: readonly InterlockCondition[]): string {
   const condition = conditions.find((c) => c.name === firstOut.condition) ?? { channel: firstOut.channel };
   const at = formatLocalTime(Date.parse(firstOut.at));
+  if (firstOut.condition === FIRST_OUT_FOUND_AT_START) return `first out: ${tripCauseText(firstOut, condition)}, at ${at}`;
   return `first out: ${conditionOnChannel(firstOut.condition, firstOut.channel)} at ${at} (${readingAgainstLimit(firstOut, condition)})`;
 }
 

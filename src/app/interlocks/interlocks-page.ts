@@ -15,7 +15,7 @@ import { Session } from '../auth/session';
 import { LiveFeed } from '../feed/live-feed';
 import { formatLocalDateTime } from '../readout/format-quantity';
 import { InterlockCautions } from './interlock-cautions';
-import { conditionOnChannel, conditionUnit, conditionWords, firstOutText, readingAgainstLimit } from './interlock-text';
+import { conditionOnChannel, conditionUnit, conditionWords, firstOutText, readingAgainstLimit, tripCauseText } from './interlock-text';
 
 /** How often the present values are re-read while the page is open, ms. */
 const REFRESH_MS = 1000;
@@ -79,7 +79,7 @@ export class InterlocksPage {
     });
     // A pushed change (trip, reset by someone else) is shown at once.
     effect(() => {
-      if (this.feed.alarms()) untracked(() => this.status.reload());
+      if (this.feed.alarmsRevision() !== null) untracked(() => this.status.reload());
     });
   }
 
@@ -104,8 +104,7 @@ export class InterlocksPage {
   /** "low flow x on flow.x: 0.42 L/min, trip level 1.00 L/min". */
   protected tripCause(trip: InterlockTripRecord): string {
     const { condition, channel } = trip.firstOut;
-    const then = trip.valuesAtTrip.find((v) => v.name === condition) ?? { channel };
-    return `${conditionOnChannel(condition, channel)}: ${readingAgainstLimit(trip.firstOut, then)}`;
+    return tripCauseText(trip.firstOut, trip.valuesAtTrip.find((v) => v.name === condition) ?? { channel });
   }
 
   protected localTime(iso: string): string {

@@ -97,6 +97,22 @@ describe('PredictionPanel', () => {
     expect(text()).toContain('Stale since 21:04:13');
   });
 
+  it('says why the prediction does not apply and greys it, instead of calling the gas stable', async () => {
+    await show(STABLE);
+    fixture.componentRef.setInput('status', {
+      state: 'weak-field',
+      fieldG: 0.12,
+      minFieldG: 0.5,
+      reason: '|B| = 0.12 G is below 0.50 G, too weak to orient the dipoles: the prediction does not apply.',
+    });
+    await fixture.whenStable();
+    const status = flat(host.querySelector('[role="status"]')!);
+    expect(status).toContain('Does not apply now.');
+    expect(status).toContain('too weak to orient the dipoles');
+    expect(status).not.toContain('Stable');
+    expect(host.classList).toContain('stale');
+  });
+
   it('says there is no prediction yet instead of showing numbers', async () => {
     await show(null);
     expect(text()).toContain('No prediction yet');

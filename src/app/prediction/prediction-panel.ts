@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input, signal } from '@angular/core';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
-import type { LivePrediction } from '../../../shared/live/live-state';
+import type { LivePrediction, PredictionStatus } from '../../../shared/live/live-state';
 import type { ProfileRecord } from '../../../shared/profiles/profile-record';
 import { formatNumber } from '../readout/format-quantity';
 import { cameraAxes } from './camera-axes';
@@ -12,7 +12,9 @@ import { readPrediction } from './prediction-readout';
 /**
  * The live prediction for the present field direction: Fermi-surface and cloud shape, the TOF
  * image the camera should record, and the distance to collapse, with a sketch of the three
- * ellipses. A collapsed gas is reported with its collapse ratio and nothing is drawn.
+ * ellipses. A collapsed gas is reported with its collapse ratio and nothing is drawn. While the
+ * prediction does not apply (field too weak to orient the dipoles, telemetry stale) the panel
+ * says why instead of a stability verdict and greys its numbers.
  */
 @Component({
   selector: 'tw-prediction-panel',
@@ -20,7 +22,7 @@ import { readPrediction } from './prediction-readout';
   templateUrl: './prediction-panel.html',
   styleUrl: './prediction-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  host: { role: 'region', 'aria-label': 'Prediction', '[class.stale]': 'staleNote() !== null' },
+  host: { role: 'region', 'aria-label': 'Prediction', '[class.stale]': 'staleNote() !== null || notApplying() !== null' },
 })
 export class PredictionPanel {
   readonly prediction = input<LivePrediction | null>(null);
@@ -28,6 +30,14 @@ export class PredictionPanel {
   readonly profile = input<ProfileRecord | null>(null);
   /** Set while the data is not current, e.g. "Stale since 21:04:13". */
   readonly staleNote = input<string | null>(null);
+  /** Whether the prediction describes the gas now (the server's judgement); null when unknown. */
+  readonly status = input<PredictionStatus | null>(null);
+
+  /** Why the prediction does not describe the gas now (field too weak, telemetry stale); null while it does. */
+  protected readonly notApplying = computed(() => {
+    const status = this.status();
+    return status && status.state !== 'applies' ? status.reason ?? 'The prediction does not apply now.' : null;
+  });
 
   protected readonly factors = EXAGGERATION_FACTORS;
   protected readonly factor = signal<number>(DEFAULT_EXAGGERATION);

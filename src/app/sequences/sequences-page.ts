@@ -122,6 +122,8 @@ export class SequencesPage {
   }
 
   protected async runEnded(): Promise<void> {
+    // The run panel says how it ended; the "started" notice no longer applies.
+    this.notice.set(null);
     await this.load();
   }
 
