@@ -3,6 +3,7 @@ import { Passport } from 'passport';
 import { ExtractJwt, Strategy as JwtStrategy } from 'passport-jwt';
 import { hasRole, type Role } from '../../shared/auth/roles.js';
 import type { Db } from '../db/database.js';
+import { isConnectionFailure } from '../db/database-health.js';
 import { HttpError } from '../http/http-error.js';
 import { claimsOf, type TokenIssuer, type VerifiedClaims } from './tokens.js';
 import { findUserById, isDemoAccount } from './users-repository.js';
@@ -37,6 +38,7 @@ declare global {
  */
 export class AccessControl {
   private readonly passport = new Passport();
+  private readonly lastRead = new Map<number, NonNullable<Awaited<ReturnType<typeof findUserById>>>>();
 
   constructor(
     private readonly db: Db,
@@ -85,9 +87,27 @@ export class AccessControl {
 
   private async userFor(claims: VerifiedClaims | null): Promise<SignedInUser | null> {
     if (!claims) return null;
-    const user = await findUserById(this.db, claims.userId);
+    const user = await this.findUser(claims.userId);
     if (!user || user.email !== claims.email || user.disabled || user.tokenVersion !== claims.tokenVersion) return null;
     if (!this.demoAccounts && isDemoAccount(user.email)) return null;
     return { id: user.id, email: user.email, role: user.role };
+  }
+
+  /**
+   * The account as the database has it. While the database cannot be reached, the account as it
+   * was last read (nothing can change it meanwhile through this server), so people keep seeing
+   * the apparatus during an outage; what needs the database still answers 503.
+   */
+  private async findUser(id: number): Promise<Awaited<ReturnType<typeof findUserById>>> {
+    try {
+      const user = await findUserById(this.db, id);
+      if (user) this.lastRead.set(id, user);
+      else this.lastRead.delete(id);
+      return user;
+    } catch (error) {
+      const known = this.lastRead.get(id);
+      if (known && isConnectionFailure(error)) return known;
+      throw error;
+    }
   }
 }

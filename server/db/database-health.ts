@@ -21,7 +21,7 @@ export interface DatabaseHealthOptions {
 
 /**
  * Watches the connection to a PostgreSQL server: pings it on a timer and takes failures
- * reported by the pool (`noteFailure`), so an outage shows on `/api/health` and as the
+ * reported by the pool (`noteFailure`, which pings at once), so an outage shows on `/api/health` and as the
  * `databaseOutage` alarm channel within about one interval, and its end likewise.
  */
 export class DatabaseHealth {
@@ -54,17 +54,22 @@ export class DatabaseHealth {
       await this.opts.ping();
       this.set('up');
     } catch (error) {
-      this.noteFailure(error);
+      this.lastError = describeDatabaseError(error);
+      this.set('unreachable');
     } finally {
       this.pinging = false;
     }
     return this.state;
   }
 
-  /** A connection-level failure seen elsewhere (the pool's `error` event, a failed write). */
+  /**
+   * A connection-level failure seen elsewhere (the pool's `error` event, a connection ended by
+   * the server): pings at once, and the ping decides, so one stale connection ending after the
+   * server came back does not count as a new outage.
+   */
   noteFailure(error: unknown): void {
     this.lastError = describeDatabaseError(error);
-    this.set('unreachable');
+    void this.check();
   }
 
   /** Seconds the database has been unreachable, 0 while up. */
@@ -126,4 +131,18 @@ function driverError(error: unknown): unknown {
     err = err.cause as typeof err;
   }
   return err;
+}
+
+/**
+ * The result of `read`, or `fallback` when it fails because the database cannot be reached:
+ * for the parts of an answer that are a bonus (history beside a live state), so the live part
+ * still shows during an outage.
+ */
+export async function unlessDatabaseDown<T, F>(read: () => Promise<T>, fallback: F): Promise<T | F> {
+  try {
+    return await read();
+  } catch (error) {
+    if (isConnectionFailure(error)) return fallback;
+    throw error;
+  }
 }

@@ -80,6 +80,9 @@ async function openPostgres(url: string, opts: OpenDatabaseOptions): Promise<Ope
   // An idle connection ended by the server (restart, admin shutdown) is reported here; without
   // a listener the pool's 'error' event would end the process.
   pool.on('error', (error) => health.noteFailure(error));
+  // A connection checked out between two queries (inside a transaction) that the server ends
+  // reports on the client itself; unheard, that too would end the process.
+  pool.on('connect', (client) => client.on('error', (error) => health.noteFailure(error)));
   const db = drizzlePg({ client: pool, schema });
   for (let attempt = 1; ; attempt++) {
     try {

@@ -92,15 +92,18 @@ export async function startIngest(opts: IngestOptions): Promise<RunningIngest> {
 
 function firstConnection(client: mqtt.MqttClient, url: string, timeoutMs: number): Promise<void> {
   return new Promise((resolve, reject) => {
+    let lastError: string | null = null;
     const timer = setTimeout(() => {
       finish();
-      reject(new Error(`Cannot reach the MQTT broker at ${url} within ${timeoutMs / 1000} s: check MQTT_URL and that the broker runs`));
+      const why = lastError ? ` (${lastError})` : '';
+      reject(new Error(`Cannot reach the MQTT broker at ${url} within ${timeoutMs / 1000} s${why}: check MQTT_URL and that the broker runs`));
     }, timeoutMs);
     const onConnect = () => {
       finish();
       resolve();
     };
     const onError = (error: Error & { code?: number }) => {
+      lastError = error.message;
       // Bad user name or password / not authorised (either protocol version): retrying will not help.
       if (isCredentialsRefusal(error.code)) {
         finish();

@@ -17,6 +17,7 @@ import type { Interlock } from './interlock.js';
 import { conditionBody, interlockBody } from './interlock-body.js';
 import type { Supervisor } from './supervisor.js';
 import { recentTrips } from './trip-repository.js';
+import { unlessDatabaseDown } from '../db/database-health.js';
 
 /** Trips listed in `history`. */
 const HISTORY_TRIPS = 20;
@@ -34,8 +35,13 @@ export function interlockHandlers(deps: InterlockRouteDeps): Pick<RouteHandlers,
   const body = () => interlockBody(interlock.state(), live.snapshot().controller);
   return {
     'interlock.status': async (_req, res) => {
-      await records.flush();
-      const status: InterlockStatus = { ...body(), history: await recentTrips(db, HISTORY_TRIPS) };
+      // The live state comes from memory: it still answers while the database is unreachable.
+      const history = await unlessDatabaseDown(async () => {
+        await records.flush();
+        return recentTrips(db, HISTORY_TRIPS);
+      }, null);
+      const status: InterlockStatus = { ...body(), history: history ?? [] };
+      if (history === null) status.historyUnavailable = true;
       res.json(status);
     },
     'interlock.reset': async (req, res) => {

@@ -6,6 +6,9 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { ConfigError } from '../config.js';
 import { lockDataFolder } from '../data-folder/data-folder-lock.js';
 import { openDatabase } from '../db/database.js';
+import { pino } from 'pino';
+import { FrameGate } from '../ingest/frame-gate.js';
+import { startIngest } from '../ingest/mqtt-ingest.js';
 import { projectRoot } from '../project-root.js';
 import { startServer } from '../server.js';
 import { makeDataDir, makeEmptyDir, removeDataDir, testConfig } from '../testing/test-server.js';
@@ -108,6 +111,19 @@ describe('configuration errors name the variable', () => {
     expect(error).toBeInstanceOf(ConfigError);
     expect(String(error)).toMatch(/MQTT_HOST="no-such-host\.invalid" is not an address of this machine\. Set MQTT_HOST/);
     expect(readdirSync(dir)).toEqual([]);
+  });
+
+  it('names MQTT_URL with the real reason when an external broker cannot be reached', async () => {
+    const error = await startIngest({
+      url: 'mqtt://no-such-broker.invalid:1883',
+      username: null,
+      password: null,
+      gate: new FrameGate(),
+      deliver: () => {},
+      log: pino({ level: 'silent' }),
+      connectTimeoutMs: 3000,
+    }).catch((e: unknown) => e);
+    expect(String(error)).toMatch(/Cannot reach the MQTT broker at mqtt:\/\/no-such-broker\.invalid:1883 within 3 s \(.*ENOTFOUND.*\): check MQTT_URL/);
   });
 
   it('refuses a data folder that is a file', async () => {

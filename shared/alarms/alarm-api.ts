@@ -166,6 +166,8 @@ export interface InterlockStatus {
   trip?: InterlockTripRecord | null;
   /** The newest trips, newest first (`GET /api/interlock` only). */
   history?: InterlockTripRecord[];
+  /** True when the history could not be read (the database is unreachable); `history` is then empty. */
+  historyUnavailable?: boolean;
   /** The software interlock is supervisory: the caution to show beside it. */
   caution?: string;
 }
