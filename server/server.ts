@@ -31,6 +31,8 @@ import { LiveStore } from './live/live-store.js';
 import { liveHandlers } from './live/live-routes.js';
 import { createLogger } from './logging/logger.js';
 import { logbookHandlers } from './logbook/logbook-routes.js';
+import { handoverHandlers } from './handover/handover-routes.js';
+import { HandoverWorkflow } from './handover/handover-workflow.js';
 import { TelemetryPipeline } from './pipeline/telemetry-pipeline.js';
 import { LevelStore } from './levels/level-store.js';
 import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
@@ -274,6 +276,11 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...supervision.handlers,
         ...steering.handlers,
         ...logbookHandlers({ db, targets: { db, alarmIds: () => supervision.book.limits().map((l) => l.id) } }),
+        ...handoverHandlers({
+          workflow: new HandoverWorkflow({ db, live, book: supervision.book, interlock: supervision.interlock, flush: () => supervision.flushRecords() }),
+          mailer: supervision.mailer,
+          notice: supervision.notice,
+        }),
       },
       access,
       webRoot: WEB_ROOT,

@@ -31,6 +31,7 @@ import {
 } from 'drizzle-orm/pg-core';
 import type { AlarmEventKind, AlarmSuppression } from '../../shared/alarms/alarm-api.js';
 import type { LogbookLinkKind } from '../../shared/logbook/logbook-api.js';
+import type { HandoverItem, HandoverNotes, HandoverRecord, HandoverStatus } from '../../shared/handover/handover-api.js';
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
 import type { CalibrationFitReport, CalibrationKind, CalibrationState, FitPoint } from '../../shared/field/calibration-record.js';
@@ -407,6 +408,49 @@ export const logbookAttachments = pgTable(
 );
 
 /**
+ * Shift handovers: a draft filled from the records of the shift (`record`), the outgoing
+ * person's additions (`summary`, `notes`, `newItems`), submission and acceptance. At most one
+ * handover is not yet accepted; an accepted one is frozen (a trigger refuses any change), with
+ * the open items as they stood at acceptance in `itemsAtAcceptance`.
+ */
+export const handovers = pgTable('handovers', {
+  id: serial('id').primaryKey(),
+  status: text('status').$type<HandoverStatus>().notNull(),
+  author: text('author').notNull(),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  periodFrom: timestamp('period_from', { withTimezone: true }).notNull(),
+  periodTo: timestamp('period_to', { withTimezone: true }).notNull(),
+  record: jsonb('record').$type<HandoverRecord>().notNull(),
+  summary: text('summary').notNull().default(''),
+  notes: jsonb('notes').$type<HandoverNotes>().notNull().default({}),
+  /** Items added in this handover; they become open items when it is submitted. */
+  newItems: jsonb('new_items').$type<{ text: string }[]>().notNull().default([]),
+  /** Open items carried in from earlier handovers (ids of `handover_items`). */
+  carriedItemIds: jsonb('carried_item_ids').$type<number[]>().notNull().default([]),
+  submittedBy: text('submitted_by'),
+  submittedAt: timestamp('submitted_at', { withTimezone: true }),
+  acceptedBy: text('accepted_by'),
+  acceptedAt: timestamp('accepted_at', { withTimezone: true }),
+  acceptComment: text('accept_comment'),
+  itemsAtAcceptance: jsonb('items_at_acceptance').$type<HandoverItem[]>(),
+});
+
+/** Open items handed from shift to shift until someone closes them with a note. */
+export const handoverItems = pgTable('handover_items', {
+  id: serial('id').primaryKey(),
+  text: text('text').notNull(),
+  /** The handover that opened it. */
+  handoverId: integer('handover_id')
+    .notNull()
+    .references(() => handovers.id),
+  openedBy: text('opened_by').notNull(),
+  openedAt: timestamp('opened_at', { withTimezone: true }).notNull().defaultNow(),
+  closedBy: text('closed_by'),
+  closedAt: timestamp('closed_at', { withTimezone: true }),
+  closeNote: text('close_note'),
+});
+
+/**
  * The state of each alarm that must survive a restart (acknowledged, latched, shelved with its
  * expiry, out of service, raise time and value, first-out group): one row per alarm id, written
  * with each operator action and with each stored batch of alarm transitions.
@@ -436,5 +480,7 @@ export const schema = {
   shots,
   logbookEntries,
   logbookAttachments,
+  handovers,
+  handoverItems,
   alarmStates,
 };

@@ -71,6 +71,13 @@ export const API_ROUTES = [
   { id: 'logbook.write', method: 'post', path: '/api/logbook/entries', minRole: 'operator', summary: 'Write a logbook entry: JSON { text, tags?, at?, link?, amends? } or multipart with files "file" → 201 { id }' },
   { id: 'logbook.list', method: 'get', path: '/api/logbook/entries', minRole: 'viewer', summary: 'Logbook entries, newest first (?q=&from=&to=&tag=&limit=) → { entries }' },
   { id: 'logbook.attachment', method: 'get', path: '/api/logbook/attachments/:id', minRole: 'viewer', summary: 'One attachment, served as its checked type' },
+  { id: 'handovers.list', method: 'get', path: '/api/handovers', minRole: 'viewer', summary: 'Shift handovers, newest first → { handovers }' },
+  { id: 'handovers.create', method: 'post', path: '/api/handovers', minRole: 'operator', summary: 'Start a handover draft filled from the records since the last accepted one → 201 { handover }' },
+  { id: 'handovers.get', method: 'get', path: '/api/handovers/:id', minRole: 'viewer', summary: 'One handover with its sections, open items and both names → { handover }' },
+  { id: 'handovers.update', method: 'put', path: '/api/handovers/:id', minRole: 'operator', summary: 'Edit a draft (its author or a lead): { summary?, notes?, openItems? }' },
+  { id: 'handovers.submit', method: 'post', path: '/api/handovers/:id/submit', minRole: 'operator', summary: 'Submit a draft (its author or a lead)' },
+  { id: 'handovers.accept', method: 'post', path: '/api/handovers/:id/accept', minRole: 'operator', summary: 'Accept a submitted handover (never its submitter): { comment? }' },
+  { id: 'handover-items.close', method: 'post', path: '/api/handover-items/:id/close', minRole: 'operator', summary: 'Close an open item: { note }' },
   { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mailbox' },
 ] as const satisfies readonly RouteSpec[];
 

@@ -19,7 +19,7 @@ import { composeChannelBands } from '../../shared/levels/channel-bands.js';
 import type { ChannelBands } from '../../shared/live/channels.js';
 import { levelHandlers, type LevelRoutes } from '../levels/level-routes.js';
 import type { LevelStore } from '../levels/level-store.js';
-import { parseNoticeOptions } from '../notify/compose-notice.js';
+import { parseNoticeOptions, type NoticeOptions } from '../notify/compose-notice.js';
 import { LocalMailbox } from '../notify/local-mailbox.js';
 import { Mailer } from '../notify/mailer.js';
 import { OnCallNotifier } from '../notify/on-call-notifier.js';
@@ -48,8 +48,11 @@ export interface Supervision {
   book: AlarmBook;
   /** The software interlock (its state goes into the handover draft). */
   interlock: Interlock;
-  /** On-call mail (the handover summary goes out through it). */
+  /** On-call mail and its recipients (the handover summary goes out through it). */
   mailer: Mailer;
+  notice: NoticeOptions;
+  /** Writes queued alarm events and trips (before reading them back). */
+  flushRecords(): Promise<void>;
   /** The level set in force (steering's pre-flight reads its trip levels and operating settings). */
   levels: LevelStore;
   handlers: Pick<RouteHandlers, SupervisionRoutes>;
@@ -126,6 +129,8 @@ export async function startSupervision(deps: {
       book,
       interlock,
       mailer,
+      notice,
+      flushRecords: () => records.flush(),
       levels,
       handlers: {
         ...alarmHandlers({ db, book, records, announce: () => supervisor.announce() }),

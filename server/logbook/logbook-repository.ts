@@ -3,7 +3,7 @@
  * its files and its audit record are written in one transaction; search uses PostgreSQL text
  * search on the GIN-indexed `search` column.
  */
-import { and, asc, desc, eq, gte, inArray, lte, sql, type SQL } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, gte, inArray, lte, sql, type SQL } from 'drizzle-orm';
 import type { LogbookAttachment, LogbookEntry, LogbookLinkKind } from '../../shared/logbook/logbook-api.js';
 import { appendAudit } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
@@ -17,8 +17,13 @@ export interface EntryQuery {
   from?: Date;
   to?: Date;
   tag?: string;
-  /** Most entries returned, newest first. */
+  /** Written after `writtenFrom` and at or before `writtenTo` (a shift's entries). */
+  writtenFrom?: Date;
+  writtenTo?: Date;
+  /** Most entries returned. */
   limit: number;
+  /** Oldest first (default newest first). */
+  oldestFirst?: boolean;
 }
 
 /** Stores an entry with its files and the audit record; returns its id. */
@@ -69,6 +74,9 @@ export async function findEntries(db: Db, query: EntryQuery): Promise<LogbookEnt
   if (query.from) where.push(gte(logbookEntries.at, query.from));
   if (query.to) where.push(lte(logbookEntries.at, query.to));
   if (query.tag) where.push(sql`${logbookEntries.tags} @> ARRAY[${query.tag}]::text[]`);
+  if (query.writtenFrom) where.push(gt(logbookEntries.createdAt, query.writtenFrom));
+  if (query.writtenTo) where.push(lte(logbookEntries.createdAt, query.writtenTo));
+  const order = query.oldestFirst ? [asc(logbookEntries.at), asc(logbookEntries.id)] : [desc(logbookEntries.at), desc(logbookEntries.id)];
   const rows = await db
     .select({
       id: logbookEntries.id,
@@ -83,7 +91,7 @@ export async function findEntries(db: Db, query: EntryQuery): Promise<LogbookEnt
     })
     .from(logbookEntries)
     .where(and(...where))
-    .orderBy(desc(logbookEntries.at), desc(logbookEntries.id))
+    .orderBy(...order)
     .limit(query.limit);
   return withDetails(db, rows);
 }

@@ -103,7 +103,7 @@ export function composeAlarmNotice(event: AlarmEvent, limit: AlarmLimit, options
   };
 }
 
-function timeLines(label: string, atMs: number, timeZone: string | undefined): string[] {
+export function timeLines(label: string, atMs: number, timeZone: string | undefined): string[] {
   const local = new Intl.DateTimeFormat('en-GB', {
     timeZone,
     year: 'numeric',

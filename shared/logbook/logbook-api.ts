@@ -62,8 +62,3 @@ export const MAX_TAG_CHARS = 40;
 
 /** The attachment types accepted, as the screen names them. */
 export const ATTACHMENT_TYPES_TEXT = 'images (PNG, JPEG, GIF, WebP), PDF or CSV';
-
-/** `kind:ref` text of a link, e.g. `alarm:flow.x.LL` (the form the API accepts). */
-export function linkText(link: LogbookLink): string {
-  return `${link.kind}:${link.ref}`;
-}

@@ -37,6 +37,8 @@ export const routes: Routes = [
         title: 'Interlocks · Tiltwatch',
         loadComponent: () => import('./interlocks/interlocks-page').then((m) => m.InterlocksPage),
       },
+      { path: 'logbook', title: 'Logbook · Tiltwatch', loadComponent: () => import('./logbook/logbook-page').then((m) => m.LogbookPage) },
+      { path: 'handover', title: 'Handover · Tiltwatch', loadComponent: () => import('./handover/handover-page').then((m) => m.HandoverPage) },
       {
         path: 'users',
         title: 'Users · Tiltwatch',

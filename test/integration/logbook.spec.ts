@@ -61,6 +61,8 @@ describe('logbook API', () => {
     expect(await write({ text: 'x', at: new Date(Date.now() + 86_400_000).toISOString() })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/future/) } });
     expect(await write({ text: 'x', link: 'alarm:no.such.alarm' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no alarm/) } });
     expect(await write({ text: 'x', link: 'trip:2020-01-01T00:00:00Z' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no interlock trip/) } });
+    expect(await write({ text: 'x', link: 'run:999' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no run number 999/) } });
+    expect(await write({ text: 'x', link: 'shot:none-such' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no shot/) } });
     expect(await write({ text: 'x', amends: 999_999 })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Corrects entry .*no entry 999999/) } });
     expect(await write({ text: 'x', colour: 'red' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/Unknown field/) } });
     expect(await write({ text: 123 })).toMatchObject({ status: 400 });
@@ -133,7 +135,7 @@ describe('logbook API', () => {
     const res = await fetch(`${server.url}/api/logbook/entries`, { method: 'POST', headers: { authorization: `Bearer ${tokens.get('operator')}` }, body: form });
     expect(res.status).toBe(400);
     expect(((await res.json()) as { error: string }).error).toMatch(/form field "file"/);
-  });
+  }, 180_000);
 
   it('keeps a corrected entry and shows the correction beside it (append-only)', async () => {
     const original = await write({ text: 'Trap depth set to 12 kHz for the evening runs.', tags: ['trap'] });
