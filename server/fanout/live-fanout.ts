@@ -61,20 +61,18 @@ interface Viewer {
   user: SignedInUser;
   token: string;
   expiryTimer: NodeJS.Timeout;
-  series: SeriesChunk;
-  slow: SlowChunk;
-  lastSentAt: number;
-  timer: NodeJS.Timeout | null;
   slowSince: number | null;
 }
 
 /**
  * WebSocket fan-out of the live state on `/ws` of the HTTP server. Protocol: the client's
  * first message is `{"type":"auth","token":…}` within 5 s (else close 4401); the server
- * answers `hello`, then sends `live` messages carrying the chart points gathered since that
- * client's previous message, at most one per `minIntervalMs`. A client whose send buffer is
- * over the bound has updates skipped, and is dropped if that lasts; the pipeline only appends
- * to per-client buffers, so no browser can slow ingest.
+ * answers `hello` and the present state, then `live` messages carrying the chart points
+ * gathered since the previous message, at most one per `minIntervalMs`, the same text for every
+ * client (serialised once). A client whose send buffer is over the bound has updates skipped
+ * (their points are gone for it; the charts reload history) and is dropped if that lasts; the
+ * pipeline only appends to one shared chunk, so neither the number of browsers nor a slow one
+ * can slow ingest.
  *
  * Sessions: a socket is closed (4401) when its token expires, and re-checked when its account
  * changes (disabled, role or password changed, removed: the token is revoked → 4401; a role
@@ -91,6 +89,11 @@ export class LiveFanout implements LiveSink {
   private readonly recheckTimer: NodeJS.Timeout;
   private readonly stopAccountEvents: () => void;
   private readonly counts = { messagesSent: 0, skippedUpdates: 0, droppedClients: 0 };
+  /** Chart points gathered since the last `live` message, the same for every client. */
+  private series = emptySeriesChunk();
+  private slow = emptySlowChunk();
+  private lastTickAt = -Infinity;
+  private tickTimer: NodeJS.Timeout | null = null;
   private readonly opts: Required<FanoutOptions>;
   private closing: Promise<void> | undefined;
   /** The newest `alarms` message, sent to each client right after `hello`. */
@@ -123,22 +126,23 @@ export class LiveFanout implements LiveSink {
     this.recheckTimer.unref();
   }
 
+  /**
+   * Takes a frame's chart points. The work per frame is the same however many clients watch:
+   * the points join one shared chunk, and a single timer sends it to everyone.
+   */
   publishSeries(series: SeriesChunk): void {
-    for (const viewer of this.viewers) {
-      appendSeriesChunk(viewer.series, series);
-      this.schedule(viewer);
-    }
+    appendSeriesChunk(this.series, series);
+    this.schedule();
   }
 
   publishSlow(slow: SlowChunk): void {
-    for (const viewer of this.viewers) {
-      appendSlowChunk(viewer.slow, slow);
-      this.schedule(viewer);
-    }
+    appendSlowChunk(this.slow, slow);
+    this.schedule();
   }
 
+  /** The live state changed without new chart points (a status, a prediction): the next `live` message carries it. */
   publishStateChange(): void {
-    for (const viewer of this.viewers) this.schedule(viewer);
+    this.schedule();
   }
 
   /**
@@ -176,6 +180,8 @@ export class LiveFanout implements LiveSink {
   }
 
   private async shutDown(): Promise<void> {
+    if (this.tickTimer) clearTimeout(this.tickTimer);
+    this.tickTimer = null;
     this.server.off('upgrade', this.onUpgrade);
     this.stopAccountEvents();
     clearInterval(this.recheckTimer);
@@ -254,13 +260,13 @@ export class LiveFanout implements LiveSink {
     if (!hasRole(user.role, WATCH_ROLE)) return this.refuse(ws, WS_CLOSE_FORBIDDEN, `watching needs the ${WATCH_ROLE} role`);
     const expiresInMs = Math.min(MAX_TIMER_MS, Math.max(0, session.expiresAt - Date.now()));
     const expiryTimer = setTimeout(() => this.end(viewer, WS_CLOSE_UNAUTHENTICATED, 'session expired: sign in again'), expiresInMs);
-    const viewer: Viewer = { ws, user, token, expiryTimer, series: emptySeriesChunk(), slow: emptySlowChunk(), lastSentAt: -Infinity, timer: null, slowSince: null };
+    const viewer: Viewer = { ws, user, token, expiryTimer, slowSince: null };
     this.viewers.add(viewer);
     ws.on('close', () => this.forget(viewer));
     this.hello(viewer);
     if (this.alarms) this.sendMessage(ws, this.alarms);
     if (this.channels) this.sendMessage(ws, this.channels);
-    this.send(viewer);
+    this.sendMessage(ws, { type: 'live', live: this.live.snapshot(), series: emptySeriesChunk(), slow: emptySlowChunk() });
   }
 
   private hello(viewer: Viewer): void {
@@ -305,27 +311,37 @@ export class LiveFanout implements LiveSink {
     if (ws.readyState === WebSocket.OPEN) ws.close(code, reason);
   }
 
-  private schedule(viewer: Viewer): void {
-    if (viewer.timer) return;
-    const wait = viewer.lastSentAt + this.opts.minIntervalMs - performance.now();
+  private schedule(): void {
+    if (this.tickTimer) return;
+    const wait = this.lastTickAt + this.opts.minIntervalMs - performance.now();
     if (wait <= 0) {
-      this.send(viewer);
+      this.tick();
       return;
     }
-    viewer.timer = setTimeout(() => {
-      viewer.timer = null;
-      this.send(viewer);
+    this.tickTimer = setTimeout(() => {
+      this.tickTimer = null;
+      this.tick();
     }, wait);
   }
 
-  private send(viewer: Viewer): void {
+  /** One `live` message with the points gathered since the last one, serialised once, to every client that keeps up. */
+  private tick(): void {
+    const now = performance.now();
+    this.lastTickAt = now;
+    const message: ServerMessage = { type: 'live', live: this.live.snapshot(), series: this.series, slow: this.slow };
+    this.series = emptySeriesChunk();
+    this.slow = emptySlowChunk();
+    if (this.viewers.size === 0) return;
+    const text = JSON.stringify(message);
+    for (const viewer of this.viewers) this.deliver(viewer, text, now);
+  }
+
+  /** Sends `text` unless the client's send buffer is over the bound (skipped; dropped if that lasts). */
+  private deliver(viewer: Viewer, text: string, now: number): void {
     const { ws } = viewer;
     if (ws.readyState !== WebSocket.OPEN) return;
-    const now = performance.now();
     if (ws.bufferedAmount > this.opts.maxBufferedBytes) {
       this.counts.skippedUpdates++;
-      viewer.series = emptySeriesChunk();
-      viewer.slow = emptySlowChunk();
       viewer.slowSince ??= now;
       if (now - viewer.slowSince > this.opts.maxSlowMs) {
         this.counts.droppedClients++;
@@ -335,10 +351,8 @@ export class LiveFanout implements LiveSink {
       return;
     }
     viewer.slowSince = null;
-    this.sendMessage(ws, { type: 'live', live: this.live.snapshot(), series: viewer.series, slow: viewer.slow });
-    viewer.series = emptySeriesChunk();
-    viewer.slow = emptySlowChunk();
-    viewer.lastSentAt = now;
+    ws.send(text);
+    this.counts.messagesSent++;
   }
 
   private sendMessage(ws: WebSocket, message: ServerMessage): void {
@@ -348,8 +362,6 @@ export class LiveFanout implements LiveSink {
 
   private forget(viewer: Viewer): void {
     clearTimeout(viewer.expiryTimer);
-    if (viewer.timer) clearTimeout(viewer.timer);
-    viewer.timer = null;
     this.viewers.delete(viewer);
   }
 }

@@ -36,7 +36,7 @@ describe('TelemetryStore over PGlite', () => {
     dir = await makeDataDir();
     await seedPglite(dir);
     database = await openDatabase({ dataDir: dir, databaseUrl: null, pgliteFolder: 'telemetry' });
-  });
+  }, 120_000); // may build the migrated template cluster first: slow on a loaded machine
   afterAll(async () => {
     await database?.close();
     removeDataDir(dir);

@@ -46,6 +46,12 @@ export const routes: Routes = [
       { path: 'logbook', title: 'Logbook · Tiltwatch', loadComponent: () => import('./logbook/logbook-page').then((m) => m.LogbookPage) },
       { path: 'handover', title: 'Handover · Tiltwatch', loadComponent: () => import('./handover/handover-page').then((m) => m.HandoverPage) },
       {
+        path: 'users',
+        title: 'Users · Tiltwatch',
+        canActivate: [roleAtLeast('admin')],
+        loadComponent: () => import('./users/users-page').then((m) => m.UsersPage),
+      },
+      {
         path: 'setup/calibration',
         title: 'Calibration · Tiltwatch',
         loadComponent: () => import('./calibration/calibration-page').then((m) => m.CalibrationPage),

@@ -64,11 +64,25 @@ export class Session {
   /** Signs in; rejects with the server's error (an `HttpErrorResponse`) on failure. */
   async signIn(email: string, password: string): Promise<SessionUser> {
     const body = await firstValueFrom(this.http.post<LoginResponse>('/api/auth/login', { email, password }));
+    this.replaceToken(body);
+    return body.user;
+  }
+
+  /**
+   * Changes the signed-in user's password. The server revokes every earlier token of the
+   * account and answers with a fresh one, which this session takes over (so this browser stays
+   * signed in while other sign-ins of the account end). Rejects with the server's error.
+   */
+  async changePassword(currentPassword: string, newPassword: string): Promise<void> {
+    const body = await firstValueFrom(this.http.post<LoginResponse>('/api/auth/password', { currentPassword, newPassword }));
+    this.replaceToken(body);
+  }
+
+  private replaceToken(body: LoginResponse): void {
     const session: StoredSession = { token: body.token, user: body.user, expiresAt: tokenExpiry(body.token) };
     localStorage.setItem(SESSION_STORAGE_KEY, JSON.stringify(session));
     this.notice.set(null);
     this.adopt(session);
-    return body.user;
   }
 
   /** Re-reads the user (and so the role) from the server, which may have changed it. */

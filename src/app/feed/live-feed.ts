@@ -141,6 +141,9 @@ export class LiveFeed {
       this.socket = null;
       this.linkOpen.set(false);
       if (event.code === CLOSE_NOT_SIGNED_IN) {
+        // A new token (after a password change) replaced the one this socket signed in with.
+        const current = this.session.token();
+        if (current !== null && current !== token) return this.connect();
         this.stop();
         this.session.expire('The live feed no longer accepts your sign-in. Sign in again to continue.');
         return;

@@ -2,13 +2,17 @@ import { BreakpointObserver } from '@angular/cdk/layout';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatListModule } from '@angular/material/list';
+import { MatMenuModule } from '@angular/material/menu';
 import { MatSidenavModule } from '@angular/material/sidenav';
+import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatToolbarModule } from '@angular/material/toolbar';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { map } from 'rxjs';
 import { hasRole } from '../../../shared/auth/roles';
+import { ChangePasswordDialog } from '../account/change-password-dialog';
 import { awaitsAcknowledgement } from '../alarms/alarm-look';
 import { Session } from '../auth/session';
 import { LiveFeed } from '../feed/live-feed';
@@ -23,7 +27,7 @@ const WIDE_SCREEN = '(min-width: 1000px)';
 @Component({
   selector: 'tw-shell',
   imports: [
-    ConnectionIndicator, InterlockBanner, MatButtonModule, MatIconModule, MatListModule, MatSidenavModule, MatToolbarModule,
+    ConnectionIndicator, InterlockBanner, MatButtonModule, MatIconModule, MatListModule, MatMenuModule, MatSidenavModule, MatToolbarModule,
     RouterLink, RouterLinkActive, RouterOutlet, SafetyNote,
   ],
   templateUrl: './shell.html',
@@ -32,6 +36,8 @@ const WIDE_SCREEN = '(min-width: 1000px)';
 })
 export class Shell {
   private readonly session = inject(Session);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
   protected readonly feed = inject(LiveFeed);
 
   protected readonly user = this.session.user;
@@ -65,6 +71,15 @@ export class Shell {
 
   protected closeNavigationOnNarrowScreen(): void {
     if (!this.wide()) this.navToggled.set(false);
+  }
+
+  protected changePassword(): void {
+    this.dialog
+      .open(ChangePasswordDialog, { width: '440px' })
+      .afterClosed()
+      .subscribe((changed) => {
+        if (changed) this.snackBar.open('Password changed. Your other sign-ins have ended.', 'OK', { duration: 6000 });
+      });
   }
 
   protected signOut(): void {

@@ -1,7 +1,7 @@
 /**
  * Publish → viewer latency of every frame: the first `live` message whose newest sample time
  * reaches the frame's last sample carries it; its arrival minus the frame's publish time is the
- * latency (both on the epoch clock shared by the processes). A frame no message reached is missing.
+ * latency (both on the wall clock the processes share). A frame no message reached is missing.
  */
 export interface Published {
   sentAt: number[];

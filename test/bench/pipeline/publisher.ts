@@ -7,8 +7,8 @@
  * never runs ahead of the server's clock. Sequence numbers start at `seqBase`.
  *
  * Arguments: one JSON object { mqttUrl, username, password, rate, seconds, seqBase, out }.
- * Writes { fast, slow, sentAt, lastSampleMs } to `out` (sentAt on the shared epoch clock,
- * performance.timeOrigin + performance.now(), ms) and exits.
+ * Writes { fast, slow, sentAt, lastSampleMs } to `out` (sentAt on the wall clock the
+ * processes share, ms) and exits.
  */
 import { writeFileSync } from 'node:fs';
 import mqtt from 'mqtt';
@@ -28,7 +28,10 @@ interface Args {
 
 const args = JSON.parse(process.argv[2]) as Args;
 const FRAME_MS = 20;
-const epochNow = () => performance.timeOrigin + performance.now();
+// The wall clock both processes share (Date.now, to the millisecond), read through the monotonic
+// clock; performance.timeOrigin alone can differ between processes by tens of milliseconds.
+const clockOffset = Date.now() - performance.now();
+const epochNow = () => performance.now() + clockOffset;
 
 const wallStart = Date.now();
 const sim = new Simulation({

@@ -1,6 +1,6 @@
 /**
  * The viewer process of the pipeline benchmark: signs in as the viewer, opens the WebSocket and
- * records, for every `live` message, when it arrived (shared epoch clock, ms) and the newest
+ * records, for every `live` message, when it arrived (the wall clock the processes share, ms) and the newest
  * sample time it carries. Prints `ready` once greeted; on SIGTERM writes { receivedAt,
  * liveTimeMs } to the file given as the second argument and exits.
  *
@@ -12,7 +12,10 @@ import type { ServerMessage } from '../../../shared/live/live-state.js';
 import { TEST_PASSWORD } from '../../../server/testing/test-server.js';
 
 const [baseUrl, out] = process.argv.slice(2);
-const epochNow = () => performance.timeOrigin + performance.now();
+// The wall clock both processes share (Date.now, to the millisecond), read through the monotonic
+// clock; performance.timeOrigin alone can differ between processes by tens of milliseconds.
+const clockOffset = Date.now() - performance.now();
+const epochNow = () => performance.now() + clockOffset;
 const res = await fetch(`${baseUrl}/api/auth/login`, {
   method: 'POST',
   headers: { 'content-type': 'application/json' },

@@ -1,0 +1,91 @@
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
+import { DEMO_PASSWORD, startStack, type Stack } from '../support/stack.js';
+
+describe('Accounts in Chromium', () => {
+  let stack: Stack;
+  let chrome: TestBrowser;
+
+  beforeAll(async () => {
+    stack = await startStack({ simulator: false });
+    chrome = await launchBrowser();
+  });
+  afterAll(async () => {
+    await chrome?.close();
+    await stack?.close();
+  });
+
+  async function signIn(email: string, password: string) {
+    const page = await chrome.browser.newPage();
+    await page.goto(stack.server.url);
+    // Pages of one browser share the stored session: start signed out.
+    await page.evaluate('localStorage.clear()');
+    await page.goto(stack.server.url);
+    await page.getByLabel('Email').fill(email);
+    await page.getByLabel('Password').fill(password);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByRole('navigation', { name: 'Pages' }).waitFor();
+    return page;
+  }
+
+  it('an admin adds an account and disables another on the Users page; sign-in delays show there', async () => {
+    // Three wrong guesses and one more put a delay on the lead account: a security event.
+    for (let i = 0; i < 4; i++) {
+      await fetch(`${stack.server.url}/api/auth/login`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify({ email: 'lead@tiltwatch.example', password: `wrong guess ${i}` }),
+      });
+    }
+    const page = await signIn('admin@tiltwatch.example', DEMO_PASSWORD);
+    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Users' }).click();
+    await page.getByRole('heading', { name: 'Accounts' }).waitFor();
+
+    await page.getByRole('button', { name: 'Add account' }).click();
+    const add = page.getByRole('dialog');
+    await add.getByLabel('E-mail').fill('night.operator@lindqvist-hall.example');
+    await add.getByRole('combobox', { name: 'Role' }).click();
+    await page.getByRole('option', { name: /^operator/ }).click();
+    await add.getByLabel('First password').fill('night shift pass phrase');
+    await add.getByLabel('Note for the audit trail (optional)').fill('joins the night shift');
+    await add.getByRole('button', { name: 'Add account' }).click();
+    await add.waitFor({ state: 'detached' });
+    const row = page.getByRole('row', { name: /night\.operator@lindqvist-hall\.example/ });
+    await row.waitFor();
+
+    await page.getByRole('button', { name: 'Disable viewer@tiltwatch.example' }).click();
+    const disable = page.getByRole('dialog');
+    await disable.getByLabel('Reason').fill('account not used on this apparatus');
+    await disable.getByRole('button', { name: 'Disable' }).click();
+    await disable.waitFor({ state: 'detached' });
+    await expect.poll(() => page.getByRole('row', { name: /viewer@tiltwatch\.example/ }).innerText()).toMatch(/Disabled/);
+
+    await page.getByRole('button', { name: 'Refresh' }).click();
+    await expect.poll(() => page.getByRole('region', { name: 'Sign-in security' }).innerText()).toMatch(/Account lead@tiltwatch\.example/);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'users-page.png'), fullPage: true });
+    expect((await row.innerText()).toLowerCase()).toContain('operator');
+  });
+
+  it('a signed-in operator changes their own password from the account menu and stays signed in', async () => {
+    const page = await signIn('operator@tiltwatch.example', DEMO_PASSWORD);
+    await page.getByRole('button', { name: /Your account/ }).click();
+    await page.getByRole('menuitem', { name: /Change password/ }).click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByLabel('Current password').fill(DEMO_PASSWORD);
+    await dialog.getByLabel('New password', { exact: true }).fill('operator night pass phrase');
+    await dialog.getByLabel('New password again').fill('operator night pass phrase');
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'change-password.png') });
+    await dialog.getByRole('button', { name: 'Change password' }).click();
+    await dialog.waitFor({ state: 'detached' });
+    await page.getByText('Password changed. Your other sign-ins have ended.').waitFor();
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'change-password-done.png') });
+    expect(page.url()).not.toMatch(/sign-in/);
+    const res = await fetch(`${stack.server.url}/api/auth/login`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ email: 'operator@tiltwatch.example', password: 'operator night pass phrase' }),
+    });
+    expect(res.status).toBe(200);
+  });
+});
