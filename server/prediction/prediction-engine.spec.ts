@@ -135,7 +135,9 @@ describe('PredictionEngine (real worker thread)', () => {
       expect(p.reason).toMatch(/collapsed/);
       expect(p.collapseRatio).toBeGreaterThan(1);
     };
-    e.setProfile(1, { ...DEMO_PROFILE, atomNumber: 1e15 });
+    // 10⁸ 167Er atoms in a 10 kHz trap (the largest the profile ranges allow): ε_dd ≈ 2.9, far
+    // beyond the threshold (the model's own CLI on the same case).
+    e.setProfile(1, { ...DEMO_PROFILE, atomNumber: 1e8, trapHz: [10_000, 10_000, 10_000] });
     e.updateDirection({ thetaDeg: 0, phiDeg: 0 }, 0);
     collapsed(await predictionWhere(e, () => true));
 
@@ -177,9 +179,9 @@ describe('PredictionEngine (real worker thread)', () => {
     expect(e.counters().predictions).toBe(1);
   });
 
-  it('refuses a bad profile with a message naming the key to fix', () => {
+  it('refuses a bad profile with a message naming the input as the form labels it', () => {
     const e = engine();
-    expect(() => e.setProfile(1, { ...DEMO_PROFILE, trapHz: [350, -80, 400] })).toThrow(/trapHz\[1\].*positive/);
+    expect(() => e.setProfile(1, { ...DEMO_PROFILE, trapHz: [350, -80, 400] })).toThrow(/Frequency along y must lie between/);
     expect(() => e.updateDirection({ thetaDeg: Number.NaN, phiDeg: 0 }, 0)).toThrow(/finite thetaDeg and phiDeg/);
   });
 });
