@@ -84,8 +84,12 @@ export async function startSimulator(opts: SimulatorOptions): Promise<RunningSim
   });
   const publisher = new TelemetryPublisher(client, sim.plant.faults);
 
+  // Set once close() begins: the offline status is the last word, so no command or status after it
+  // (a command answered while closing would publish `online` again after the offline status).
+  let stopping = false;
   let lastStatusKey = '';
   const publishStatusIfChanged = (force = false): void => {
+    if (stopping) return;
     const status = statusAt(true);
     const key = JSON.stringify({ ...status, tMs: 0 });
     if (!force && key === lastStatusKey) return;
@@ -106,6 +110,7 @@ export async function startSimulator(opts: SimulatorOptions): Promise<RunningSim
   });
   client.on('error', (error) => log('MQTT error', { error: error.message }));
   client.on('message', (topic, payload) => {
+    if (stopping) return;
     const outcome = handleCommand(sim, topic, payload);
     if (outcome === 'invalid') {
       commands.invalid++;
@@ -175,6 +180,7 @@ export async function startSimulator(opts: SimulatorOptions): Promise<RunningSim
     controlUrl: control.url,
     close() {
       closing ??= (async () => {
+        stopping = true;
         clearInterval(timer);
         if (client.connected) {
           await publisher.publishStatus(statusAt(false)).catch((error: Error) => log('offline status failed', { error: error.message }));

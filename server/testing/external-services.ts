@@ -48,23 +48,31 @@ export function databaseUrlFor(dataDir: string): string | null {
   return databases.get(dataDir) ?? null;
 }
 
+/**
+ * The PostgreSQL database of the server on `dataDir` in the external pass (created on first use,
+ * the same one for every later server on that folder); null in the ordinary pass.
+ */
+export async function testDatabaseUrl(dataDir: string): Promise<string | null> {
+  const adminUrl = process.env.TILTWATCH_TEST_DATABASE_URL;
+  if (!adminUrl) return null;
+  let database = databases.get(dataDir);
+  if (!database) {
+    const name = `tiltwatch_t${process.pid}_${databases.size + 1}_${Math.random().toString(36).slice(2, 8)}`;
+    await createDatabase(adminUrl, name);
+    const url = new URL(adminUrl);
+    url.pathname = `/${name}`;
+    database = url.toString();
+    databases.set(dataDir, database);
+  }
+  return database;
+}
+
 /** Starts what the external pass asks for a server on `dataDir` (nothing in the ordinary pass). */
 export async function externalServices(dataDir: string): Promise<ExternalServices> {
   const env: Record<string, string> = {};
   const closers: (() => Promise<void>)[] = [];
-  const adminUrl = process.env.TILTWATCH_TEST_DATABASE_URL;
-  if (adminUrl) {
-    let database = databases.get(dataDir);
-    if (!database) {
-      const name = `tiltwatch_t${process.pid}_${databases.size + 1}_${Math.random().toString(36).slice(2, 8)}`;
-      await createDatabase(adminUrl, name);
-      const url = new URL(adminUrl);
-      url.pathname = `/${name}`;
-      database = url.toString();
-      databases.set(dataDir, database);
-    }
-    env.DATABASE_URL = database;
-  }
+  const database = await testDatabaseUrl(dataDir);
+  if (database) env.DATABASE_URL = database;
   let brokerCredentials: BrokerCredentials | null = null;
   if (usesExternalBroker()) {
     const broker = await startMosquitto();

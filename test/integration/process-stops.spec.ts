@@ -14,6 +14,7 @@ import type { AlarmListItem, InterlockStatus } from '../../shared/alarms/alarm-a
 import type { Role } from '../../shared/auth/roles.js';
 import { projectRoot } from '../../server/project-root.js';
 import type { RunningServer } from '../../server/server.js';
+import { testDatabaseUrl } from '../../server/testing/external-services.js';
 import { startControllerFeed } from '../../server/testing/controller-feed.js';
 import { makeDataDir, removeDataDir, startTestServer, signIn, callApi, TEST_PASSWORD } from '../../server/testing/test-server.js';
 import { waitFor } from '../support/stack.js';
@@ -27,6 +28,8 @@ interface ServerProcess {
 
 /** Starts `server/main.ts` (with `args`) as a process group of its own on free ports in `dir`. */
 async function spawnServer(dir: string, args: string[]): Promise<ServerProcess> {
+  // In the external pass the process stores in the PostgreSQL database that later in-process servers on `dir` use too.
+  const database = await testDatabaseUrl(dir);
   const child = spawn(process.execPath, ['--import', 'tsx', path.join('server', 'main.ts'), ...args], {
     cwd: projectRoot(),
     env: {
@@ -37,6 +40,7 @@ async function spawnServer(dir: string, args: string[]): Promise<ServerProcess> 
       TILTWATCH_DATA_DIR: dir,
       TILTWATCH_DEMO_PASSWORD: TEST_PASSWORD,
       LOG_LEVEL: 'info',
+      ...(database ? { DATABASE_URL: database } : {}),
     },
     // Its own group, as a terminal runs a foreground job: Ctrl-C goes to the whole group.
     detached: true,
@@ -53,11 +57,27 @@ async function health(url: string): Promise<{ frames: { acceptedByKind: { fast: 
   return (await fetch(`${url}/api/health`)).json() as Promise<{ frames: { acceptedByKind: { fast: number } } }>;
 }
 
+const staffEmail = (role: Role) => `${role}.night@lindqvist-hall.example`;
+
+/** Without --demo the demo accounts cannot sign in: a first in-process start adds ordinary accounts for the process to use. */
+async function addStaffAccounts(dir: string): Promise<void> {
+  const first = await startTestServer(dir);
+  try {
+    const admin = await signIn(first, 'admin');
+    for (const role of ['operator', 'lead', 'viewer'] as const) {
+      const added = await callApi(first, admin, 'POST', '/api/admin/users', { email: staffEmail(role), role, password: TEST_PASSWORD, reason: 'night shift account' });
+      expect(added.status).toBeLessThan(300);
+    }
+  } finally {
+    await first.close();
+  }
+}
+
 async function login(url: string, role: Role): Promise<string> {
   const res = await fetch(`${url}/api/auth/login`, {
     method: 'POST',
     headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ email: `${role}@tiltwatch.example`, password: TEST_PASSWORD }),
+    body: JSON.stringify({ email: staffEmail(role), password: TEST_PASSWORD }),
   });
   return ((await res.json()) as { token: string }).token;
 }
@@ -108,6 +128,7 @@ describe('stopping the server process', () => {
 
   it('keeps a trip and acknowledged, shelved and out-of-service alarms after kill -9 during ingest', async () => {
     dir = await makeDataDir();
+    await addStaffAccounts(dir);
     const proc = await spawnServer(dir, []);
     child = proc.child;
     const credentials = JSON.parse(readFileSync(path.join(dir, 'mqtt-credentials.json'), 'utf8')) as { controller: { username: string; password: string } };
