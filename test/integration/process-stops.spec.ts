@@ -4,7 +4,7 @@
  * mail, and the next start is not tripped; and a kill -9 during ingest must lose nothing that
  * was reported done (a trip, acknowledged, shelved and out-of-service alarms).
  */
-import { spawn, type ChildProcessWithoutNullStreams } from 'node:child_process';
+import { execFileSync, spawn, type ChildProcessWithoutNullStreams } from 'node:child_process';
 import { once } from 'node:events';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
@@ -53,11 +53,24 @@ async function health(url: string): Promise<{ frames: { acceptedByKind: { fast: 
   return (await fetch(`${url}/api/health`)).json() as Promise<{ frames: { acceptedByKind: { fast: number } } }>;
 }
 
+/** A real (non-demo) account per role, as a lab makes them: with the users command. */
+const accountOf = (role: Role) => `${role}.on-shift@lindqvist-hall.example`;
+
+function addAccounts(dir: string, roles: Role[]): void {
+  for (const role of roles) {
+    execFileSync(process.execPath, ['--import', 'tsx', path.join('server', 'users', 'users-cli.ts'), 'add', accountOf(role), '--role', role], {
+      cwd: projectRoot(),
+      env: { ...process.env, TILTWATCH_DATA_DIR: dir, LOG_LEVEL: 'warn' },
+      input: `${TEST_PASSWORD}\n`,
+    });
+  }
+}
+
 async function login(url: string, role: Role): Promise<string> {
   const res = await fetch(`${url}/api/auth/login`, {
     method: 'POST',
     headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ email: `${role}@tiltwatch.example`, password: TEST_PASSWORD }),
+    body: JSON.stringify({ email: accountOf(role), password: TEST_PASSWORD }),
   });
   return ((await res.json()) as { token: string }).token;
 }
@@ -82,9 +95,10 @@ describe('stopping the server process', () => {
     child = server = dir = null;
   });
 
-  async function restartInProcess(): Promise<{ interlock: InterlockStatus; alarms: AlarmListItem[] }> {
+  /** Restarts in this process; `realViewer` signs in with the users command's viewer account. */
+  async function restartInProcess(realViewer = false): Promise<{ interlock: InterlockStatus; alarms: AlarmListItem[] }> {
     server = await startTestServer(dir!);
-    const token = await signIn(server, 'viewer');
+    const token = realViewer ? await login(server.url, 'viewer') : await signIn(server, 'viewer');
     const interlock = (await callApi<InterlockStatus>(server, token, 'GET', '/api/interlock')).body;
     const alarms = (await callApi<{ alarms: AlarmListItem[] }>(server, token, 'GET', '/api/alarms?state=all')).body.alarms;
     return { interlock, alarms };
@@ -108,6 +122,8 @@ describe('stopping the server process', () => {
 
   it('keeps a trip and acknowledged, shelved and out-of-service alarms after kill -9 during ingest', async () => {
     dir = await makeDataDir();
+    // Without --demo the demo accounts do not sign in: the lab's own accounts do.
+    addAccounts(dir, ['viewer', 'operator', 'lead']);
     const proc = await spawnServer(dir, []);
     child = proc.child;
     const credentials = JSON.parse(readFileSync(path.join(dir, 'mqtt-credentials.json'), 'utf8')) as { controller: { username: string; password: string } };
@@ -136,7 +152,7 @@ describe('stopping the server process', () => {
       await client.endAsync(true);
     }
 
-    const { interlock, alarms } = await restartInProcess();
+    const { interlock, alarms } = await restartInProcess(true);
     expect(interlock).toMatchObject({ state: 'tripped', firstOut: { condition: 'over-current-y' } });
     const byId = new Map(alarms.map((a) => [a.id, a]));
     expect(byId.get('current.x.H')).toMatchObject({ state: 'acknowledged', valueAtRaise: 19 });
