@@ -46,7 +46,7 @@ describe('Screens during a fault in Chromium', () => {
     expect((await control('POST', '/faults', { kind: 'cooling-loss', axis: 'x' })).status).toBe(201);
     await open(/Alarms/);
     const active = page.getByRole('list', { name: 'Active alarms' });
-    const lowFlow = active.getByRole('article', { name: 'flow.x.L' });
+    const lowFlow = active.getByRole('article', { name: 'flow.x.L', exact: true }); // not flow.x.LL
     await expect
       .poll(
         async () => {

@@ -4,7 +4,7 @@
  * mail, and the next start is not tripped; and a kill -9 during ingest must lose nothing that
  * was reported done (a trip, acknowledged, shelved and out-of-service alarms).
  */
-import { spawn, type ChildProcessWithoutNullStreams } from 'node:child_process';
+import { execFileSync, spawn, type ChildProcessWithoutNullStreams } from 'node:child_process';
 import { once } from 'node:events';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
@@ -57,19 +57,17 @@ async function health(url: string): Promise<{ frames: { acceptedByKind: { fast: 
   return (await fetch(`${url}/api/health`)).json() as Promise<{ frames: { acceptedByKind: { fast: number } } }>;
 }
 
-const staffEmail = (role: Role) => `${role}.night@lindqvist-hall.example`;
+/** A real (non-demo) account per role, as a lab makes them: with the users command. */
+const accountOf = (role: Role) => `${role}.on-shift@lindqvist-hall.example`;
 
-/** Without --demo the demo accounts cannot sign in: a first in-process start adds ordinary accounts for the process to use. */
-async function addStaffAccounts(dir: string): Promise<void> {
-  const first = await startTestServer(dir);
-  try {
-    const admin = await signIn(first, 'admin');
-    for (const role of ['operator', 'lead', 'viewer'] as const) {
-      const added = await callApi(first, admin, 'POST', '/api/admin/users', { email: staffEmail(role), role, password: TEST_PASSWORD, reason: 'night shift account' });
-      expect(added.status).toBeLessThan(300);
-    }
-  } finally {
-    await first.close();
+async function addAccounts(dir: string, roles: Role[]): Promise<void> {
+  const database = await testDatabaseUrl(dir);
+  for (const role of roles) {
+    execFileSync(process.execPath, ['--import', 'tsx', path.join('server', 'users', 'users-cli.ts'), 'add', accountOf(role), '--role', role], {
+      cwd: projectRoot(),
+      env: { ...process.env, TILTWATCH_DATA_DIR: dir, LOG_LEVEL: 'warn', ...(database ? { DATABASE_URL: database } : {}) },
+      input: `${TEST_PASSWORD}\n`,
+    });
   }
 }
 
@@ -77,7 +75,7 @@ async function login(url: string, role: Role): Promise<string> {
   const res = await fetch(`${url}/api/auth/login`, {
     method: 'POST',
     headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ email: staffEmail(role), password: TEST_PASSWORD }),
+    body: JSON.stringify({ email: accountOf(role), password: TEST_PASSWORD }),
   });
   return ((await res.json()) as { token: string }).token;
 }
@@ -102,9 +100,10 @@ describe('stopping the server process', () => {
     child = server = dir = null;
   });
 
-  async function restartInProcess(): Promise<{ interlock: InterlockStatus; alarms: AlarmListItem[] }> {
+  /** Restarts in this process; `realViewer` signs in with the users command's viewer account. */
+  async function restartInProcess(realViewer = false): Promise<{ interlock: InterlockStatus; alarms: AlarmListItem[] }> {
     server = await startTestServer(dir!);
-    const token = await signIn(server, 'viewer');
+    const token = realViewer ? await login(server.url, 'viewer') : await signIn(server, 'viewer');
     const interlock = (await callApi<InterlockStatus>(server, token, 'GET', '/api/interlock')).body;
     const alarms = (await callApi<{ alarms: AlarmListItem[] }>(server, token, 'GET', '/api/alarms?state=all')).body.alarms;
     return { interlock, alarms };
@@ -128,7 +127,8 @@ describe('stopping the server process', () => {
 
   it('keeps a trip and acknowledged, shelved and out-of-service alarms after kill -9 during ingest', async () => {
     dir = await makeDataDir();
-    await addStaffAccounts(dir);
+    // Without --demo the demo accounts do not sign in: the lab's own accounts do.
+    await addAccounts(dir, ['viewer', 'operator', 'lead']);
     const proc = await spawnServer(dir, []);
     child = proc.child;
     const credentials = JSON.parse(readFileSync(path.join(dir, 'mqtt-credentials.json'), 'utf8')) as { controller: { username: string; password: string } };
@@ -157,7 +157,7 @@ describe('stopping the server process', () => {
       await client.endAsync(true);
     }
 
-    const { interlock, alarms } = await restartInProcess();
+    const { interlock, alarms } = await restartInProcess(true);
     expect(interlock).toMatchObject({ state: 'tripped', firstOut: { condition: 'over-current-y' } });
     const byId = new Map(alarms.map((a) => [a.id, a]));
     expect(byId.get('current.x.H')).toMatchObject({ state: 'acknowledged', valueAtRaise: 19 });
