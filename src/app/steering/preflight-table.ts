@@ -1,12 +1,13 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import type { PreflightCheck } from '../../../shared/steering/steering-api';
+import { SymbolText } from '../readout/symbol-text';
 import { CHECK_LABELS, checkLimitText, checkValueText } from './check-text';
 
 /** The pre-flight checks as a table: each with pass/fails (icon and word), worst value, limit and the server's sentence. */
 @Component({
   selector: 'tw-preflight-table',
-  imports: [MatIconModule],
+  imports: [MatIconModule, SymbolText],
   template: `
     <table class="checks" [attr.aria-label]="caption()">
       <thead>
@@ -15,14 +16,14 @@ import { CHECK_LABELS, checkLimitText, checkValueText } from './check-text';
       <tbody>
         @for (c of checks(); track c.name) {
           <tr [class.fails]="!c.ok">
-            <th scope="row">{{ labels[c.name] }}</th>
+            <th scope="row"><tw-symbol-text [text]="labels[c.name]" /></th>
             <td class="result">
               <mat-icon aria-hidden="true" inline>{{ c.ok ? 'check_circle' : 'cancel' }}</mat-icon>
               {{ c.ok ? 'passes' : 'fails' }}
             </td>
             <td class="num">{{ value(c) }}</td>
             <td class="num">{{ limit(c) }}</td>
-            <td class="message">{{ c.message }}</td>
+            <td class="message"><tw-symbol-text [text]="c.message" /></td>
           </tr>
         }
       </tbody>
