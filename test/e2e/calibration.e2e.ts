@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { join, resolve } from 'node:path';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
+import { ARTIFACT_DIR, launchBrowser, type TestBrowser, signInOnPage } from '../support/browser.js';
 import { DEMO_PASSWORD, startStack, type Stack } from '../support/stack.js';
 
 const EXAMPLE = resolve('server/calibration/examples/lindqvist-field-magnitude.csv');
@@ -21,9 +21,7 @@ describe('Calibration page in Chromium', () => {
   it('lets a lead fit a measurement file, read the report, approve it with a reason, and see the uncertainty on Live', async () => {
     const page = await chrome.browser.newPage();
     await page.goto(stack.server.url);
-    await page.getByLabel('Email').fill('lead@tiltwatch.example');
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+    await signInOnPage(page, 'lead@tiltwatch.example', DEMO_PASSWORD);
     await page.getByRole('region', { name: 'Field' }).waitFor();
     // Live shows σ beside the angles from the demo calibration's covariance.
     await expect.poll(() => page.getByRole('region', { name: 'Field' }).innerText(), { timeout: 15_000 }).toMatch(/±\s*[\d.]+°/);

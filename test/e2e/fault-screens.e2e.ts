@@ -8,7 +8,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { InterlockResetRefusal, InterlockStatus } from '../../shared/alarms/alarm-api.js';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
+import { ARTIFACT_DIR, launchBrowser, type TestBrowser, signInOnPage } from '../support/browser.js';
 import { DEMO_PASSWORD, signIn, startStack, waitFor, type Stack } from '../support/stack.js';
 
 describe('Screens during a fault in Chromium', () => {
@@ -22,9 +22,7 @@ describe('Screens during a fault in Chromium', () => {
     chrome = await launchBrowser();
     page = await chrome.browser.newPage();
     await page.goto(stack.server.url);
-    await page.getByLabel('Email').fill('operator@tiltwatch.example');
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+    await signInOnPage(page, 'operator@tiltwatch.example', DEMO_PASSWORD);
     await waitFor(async () => (/live/i.test(await page.getByRole('status', { name: 'Connection' }).innerText()) ? true : undefined), 'the live feed', 15_000);
   });
   afterAll(async () => {

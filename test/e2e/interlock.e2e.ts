@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { join } from 'node:path';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
+import { ARTIFACT_DIR, launchBrowser, type TestBrowser, signInOnPage } from '../support/browser.js';
 import { DEMO_PASSWORD, startStack, waitFor, type Stack } from '../support/stack.js';
 
 /** `GET {controlUrl}/state`: the part of the simulated controller's front panel this test reads. */
@@ -34,9 +34,7 @@ describe('Software interlock in Chromium', () => {
   it('trips on a cooling loss, shows it on every screen, and resets with a reason once the flow is back', async () => {
     const page = await chrome.browser.newPage();
     await page.goto(stack.server.url);
-    await page.getByLabel('Email').fill('operator@tiltwatch.example');
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+    await signInOnPage(page, 'operator@tiltwatch.example', DEMO_PASSWORD);
     await expect.poll(async () => page.getByRole('status', { name: 'Connection' }).innerText(), { timeout: 15_000 }).toMatch(/live/i);
     const banner = page.getByRole('alert', { name: 'Software interlock' });
     expect(await banner.count()).toBe(0);

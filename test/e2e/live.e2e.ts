@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { join } from 'node:path';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
+import { ARTIFACT_DIR, launchBrowser, type TestBrowser, signInOnPage } from '../support/browser.js';
 import { DEMO_PASSWORD, startStack, type Stack } from '../support/stack.js';
 
 describe('Live page in Chromium', () => {
@@ -19,9 +19,7 @@ describe('Live page in Chromium', () => {
   it('shows moving values and charts to a signed-in operator', async () => {
     const page = await chrome.browser.newPage();
     await page.goto(stack.server.url);
-    await page.getByLabel('Email').fill('operator@tiltwatch.example');
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+    await signInOnPage(page, 'operator@tiltwatch.example', DEMO_PASSWORD);
 
     const field = page.getByRole('region', { name: 'Field' });
     await field.waitFor();

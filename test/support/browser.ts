@@ -6,7 +6,7 @@ import { mkdtemp, rm, mkdir } from 'node:fs/promises';
 import { existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { chromium, type Browser, type BrowserContext } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 
 export const ARTIFACT_DIR = resolve('test-artifacts');
 
@@ -47,3 +47,10 @@ export async function launchBrowser(): Promise<TestBrowser> {
 }
 
 export type { Browser };
+
+/** Signs in on the sign-in screen that `page` shows, as a person would type it. */
+export async function signInOnPage(page: Page, email: string, password: string): Promise<void> {
+  await page.getByLabel('Email').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
