@@ -23,6 +23,8 @@ export class FieldPanel {
   readonly uncertainty = input<FieldUncertainty | null>(null);
   /** Set while the data is not current, e.g. "Stale since 21:04:13". */
   readonly staleNote = input<string | null>(null);
+  /** Set on the Replay page: history does not say which calibration produced each sample. */
+  readonly replay = input(false);
 
   protected readonly readout = computed(() => readField(this.field()));
   /** "± 0.21°" beside each reading, or null when the calibration carries no uncertainty. */
@@ -38,6 +40,7 @@ export class FieldPanel {
   });
   protected readonly calibrationText = computed(() => {
     const cal = this.calibration();
-    return cal ? `v${cal.version} · ${cal.label}` : 'not known';
+    if (cal) return `v${cal.version} · ${cal.label}`;
+    return this.replay() ? 'in force then: see the calibration marks on the timeline' : 'not known';
   });
 }
