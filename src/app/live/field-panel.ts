@@ -27,6 +27,8 @@ export class FieldPanel {
   readonly replay = input(false);
 
   protected readonly readout = computed(() => readField(this.field()));
+  /** Why the angles are not shown; in a replay a missing sample is explained by the stale note instead. */
+  protected readonly angleNote = computed(() => (this.replay() && !this.field() ? null : this.readout().angleNote));
   /** "± 0.21°" beside each reading, or null when the calibration carries no uncertainty. */
   protected readonly sigmas = computed(() => {
     const u = this.uncertainty();

@@ -8,7 +8,7 @@ import { SymbolText } from '../readout/symbol-text';
 import { cameraAxes } from './camera-axes';
 import { CameraSketch } from './camera-sketch';
 import { DEFAULT_EXAGGERATION, EXAGGERATION_FACTORS } from './ellipse-drawing';
-import { readPrediction, readRecordedPrediction, type RecordedPrediction } from './prediction-readout';
+import { readPrediction } from './prediction-readout';
 
 /**
  * The live prediction for the present field direction: Fermi-surface and cloud shape, the TOF
@@ -33,11 +33,6 @@ export class PredictionPanel {
   readonly staleNote = input<string | null>(null);
   /** Whether the prediction describes the gas now (the server's judgement); null when unknown. */
   readonly status = input<PredictionStatus | null>(null);
-  /**
-   * In a replay, the prediction recorded at the replayed moment instead of `prediction`: only its
-   * aspect ratios are shown, and the parts history does not keep are said to be missing.
-   */
-  readonly recorded = input<RecordedPrediction | null>(null);
   /** Set on the Replay page, so a missing prediction is explained as not recorded. */
   readonly replay = input(false);
 
@@ -49,18 +44,7 @@ export class PredictionPanel {
 
   protected readonly factors = EXAGGERATION_FACTORS;
   protected readonly factor = signal<number>(DEFAULT_EXAGGERATION);
-  protected readonly readout = computed(() => {
-    const recorded = this.recorded();
-    return recorded ? readRecordedPrediction(recorded) : readPrediction(this.prediction());
-  });
-  /** Whether there is anything to show, live or recorded. */
-  protected readonly shown = computed(() => this.prediction() !== null || this.recorded() !== null);
-  /** Whether the shape numbers (β, cloud and TOF aspect) are shown. */
-  protected readonly shapeShown = computed(() => {
-    const recorded = this.recorded();
-    if (recorded) return recorded.fermiSurfaceAspect !== null || recorded.cloudAspect !== null || recorded.tofAspect !== null;
-    return this.prediction()?.stable ?? false;
-  });
+  protected readonly readout = computed(() => readPrediction(this.prediction()));
 
   /** The profile record, only when it is the one the prediction was computed with. */
   private readonly matchingProfile = computed(() => {
@@ -95,7 +79,7 @@ export class PredictionPanel {
 
   /** The sketch, only for a stable gas with a camera view; a collapsed gas has no shape to draw. */
   protected readonly sketch = computed(() => {
-    const prediction = this.recorded() ? null : this.prediction();
+    const prediction = this.prediction();
     return prediction?.stable && prediction.camera ? { camera: prediction.camera, theta: prediction.thetaDeg, phi: prediction.phiDeg } : null;
   });
 

@@ -49,7 +49,7 @@ export function readPrediction(prediction: LivePrediction | null): PredictionRea
   const computedAtMs = Date.parse(prediction.computedAt);
   return {
     beta: plain(beta, 4),
-    betaDeviation: deviationText(beta),
+    betaDeviation: beta === null ? NO_VALUE : `${beta >= 1 ? '+' : ''}${formatNumber((beta - 1) * 100, 2)}\u00a0%`,
     cloudAspect: stable ? plain(prediction.cloudAspect, 3) : NO_VALUE,
     tofAspect: stable ? plain(prediction.tofAspect, 4) : NO_VALUE,
     tofAngle: !stable || prediction.tofAspect === null ? NO_VALUE : prediction.tofMajorAngleDeg === null ? 'round' : formatQuantity(prediction.tofMajorAngleDeg, '°', 1),
@@ -60,47 +60,6 @@ export function readPrediction(prediction: LivePrediction | null): PredictionRea
     direction: `θ ${formatQuantity(prediction.thetaDeg, '°', 1)}, φ ${formatQuantity(prediction.phiDeg, '°', 1)}`,
     computedAt: Number.isFinite(computedAtMs) ? formatLocalTime(computedAtMs) : NO_VALUE,
   };
-}
-
-/** The prediction a replay has at a moment: history keeps the three aspect ratios only. */
-export interface RecordedPrediction {
-  fermiSurfaceAspect: number | null;
-  cloudAspect: number | null;
-  tofAspect: number | null;
-  /** When it was computed, Unix epoch ms. */
-  computedAtMs: number;
-}
-
-/** Shown for a number history does not keep. */
-export const NOT_RECORDED = 'not recorded';
-
-/**
- * Formats a recorded prediction. What history does not keep (ε_dd, the collapse ratio, the
- * TOF angle, the field direction it was computed for) reads "not recorded", never a number.
- */
-export function readRecordedPrediction(recorded: RecordedPrediction): PredictionReadout {
-  const beta = recorded.fermiSurfaceAspect;
-  const hasShape = beta !== null || recorded.cloudAspect !== null || recorded.tofAspect !== null;
-  return {
-    beta: plain(beta, 4),
-    betaDeviation: deviationText(beta),
-    cloudAspect: plain(recorded.cloudAspect, 3),
-    tofAspect: plain(recorded.tofAspect, 4),
-    tofAngle: NOT_RECORDED,
-    epsDd: NOT_RECORDED,
-    collapseRatio: NOT_RECORDED,
-    stability: 'unknown',
-    stabilityText: hasShape
-      ? 'History keeps the aspect ratios; stability, ε_dd and the camera view are not recorded.'
-      : 'No shape was recorded for this moment (a collapsed gas has none).',
-    direction: NO_VALUE,
-    computedAt: formatLocalTime(recorded.computedAtMs),
-  };
-}
-
-/** (β − 1) in percent with its sign, e.g. "+2.05 %". */
-function deviationText(beta: number | null): string {
-  return beta === null ? NO_VALUE : `${beta >= 1 ? '+' : ''}${formatNumber((beta - 1) * 100, 2)}\u00a0%`;
 }
 
 /** A dimensionless number, or the no-value mark. */

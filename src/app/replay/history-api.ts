@@ -1,37 +1,78 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { SeriesChunk, SlowChunk } from '../../../shared/live/live-state';
+import type { LivePrediction, SeriesChunk, SlowChunk } from '../../../shared/live/live-state';
 
-/** What a timeline mark stands for. */
-export type HistoryEventKind = 'alarm' | 'trip' | 'reset' | 'note' | 'shot' | 'run' | 'calibration' | 'profile' | 'steer';
-
-/** One recorded event of a window: its time and kind, and whatever text the server gives with it. */
-export interface HistoryEvent {
-  /** ISO 8601 time, or Unix epoch ms. */
-  at: string | number;
-  kind: HistoryEventKind;
-  [detail: string]: unknown;
+/** Chart points of the field with one standard deviation of |B|, θ, φ from the calibration's covariance (null without one). */
+export interface HistorySeries extends SeriesChunk {
+  sigmaBMagG: (number | null)[];
+  sigmaThetaDeg: (number | null)[];
+  sigmaPhiDeg: (number | null)[];
 }
 
-/** The recorded prediction: one entry per computed prediction, each standing until the next. */
+/**
+ * The live predictions as they were shown: each holds from its `t` until the next one. The
+ * first entry may be older than the window: it is the prediction in force at its start.
+ */
 export interface HistoryPrediction {
   t: number[];
+  profileId: number[];
+  /** Field direction in the profile's trap frame the prediction was made for, degrees. */
+  thetaDeg: number[];
+  phiDeg: number[];
+  stable: boolean[];
+  reason: (string | null)[];
+  epsDd: number[];
   fermiSurfaceAspect: (number | null)[];
   cloudAspect: (number | null)[];
   tofAspect: (number | null)[];
+  tofMajorAngleDeg: (number | null)[];
+  collapseRatio: (number | null)[];
+  camera: LivePrediction['camera'][];
 }
 
-/** Body of `GET /api/history`; `t` arrays in Unix epoch ms. */
+export type HistoryEventKind = 'alarm' | 'trip' | 'reset' | 'note' | 'shot' | 'run' | 'calibration' | 'profile' | 'steer';
+
+/** A record in the window, for the timeline's marks. */
+export interface HistoryEvent {
+  /** ISO 8601 UTC. */
+  at: string;
+  /** The same moment, Unix epoch ms. */
+  t: number;
+  kind: HistoryEventKind;
+  /** The record's id in its own list (alarm id, trip time, logbook entry, shot id, run id, calibration or profile id, audit entry). */
+  id: string;
+  /** One line for the mark's tooltip. */
+  label: string;
+  /** Who did it, when a person did. */
+  actor: string | null;
+  /** The reason or text given with it, if any. */
+  detail: string | null;
+}
+
+/** The run a `?run=ID` window was taken for. */
+export interface HistoryRun {
+  id: number;
+  label: string;
+  state: string;
+  startedAt: string;
+  endedAt: string | null;
+}
+
 export interface HistoryResponse {
+  /** The window, ISO 8601 UTC. */
   from: string;
   to: string;
-  /** Spacing of the returned samples, ms (raw samples or roll-ups). */
+  /** Length of the time block each series point is the mean of, ms (10 for raw data at most). */
   resolutionMs: number;
-  series: SeriesChunk;
+  /** `raw` while the 1 kHz samples are kept, `rollup` (1 s statistics) for older or long windows. */
+  source: 'raw' | 'rollup';
+  series: HistorySeries;
   slow: SlowChunk;
   prediction: HistoryPrediction;
   events: HistoryEvent[];
+  /** The run, for `?run=ID`; null for a time window. */
+  run: HistoryRun | null;
 }
 
 /** What to load: a window by its ends, or a run (its window with a margin). */

@@ -39,10 +39,18 @@ describe('toReplayData and momentAt', () => {
     expect(momentAt(data, FIXTURE_FROM + 31_000).field).not.toBeNull(); // within the hold after the last sample
   });
 
-  it('holds each recorded prediction until the next, which may be shapeless', () => {
-    expect(momentAt(data, FIXTURE_FROM + 19_999).prediction).toEqual({ fermiSurfaceAspect: 1.02, cloudAspect: 4.9, tofAspect: 1.019, computedAtMs: FIXTURE_FROM });
-    expect(momentAt(data, FIXTURE_FROM + 25_000).prediction).toEqual({ fermiSurfaceAspect: null, cloudAspect: null, tofAspect: null, computedAtMs: FIXTURE_FROM + 20_000 });
-    expect(momentAt(data, FIXTURE_FROM - 1).prediction).toBeNull();
+  it('holds each recorded prediction until the next, the first one from before the window', () => {
+    const first = momentAt(data, FIXTURE_FROM).prediction;
+    expect(first).toMatchObject({ stable: true, fermiSurfaceAspect: 1.02, tofAspect: 1.019, thetaDeg: 10, computedAt: new Date(FIXTURE_FROM - 5000).toISOString() });
+    expect(first?.camera?.tofUm.major).toBe(270);
+    expect(momentAt(data, FIXTURE_FROM + 19_999).prediction?.stable).toBe(true);
+    expect(momentAt(data, FIXTURE_FROM + 25_000).prediction).toMatchObject({ stable: false, fermiSurfaceAspect: null, collapseRatio: 1.12, camera: null });
+    expect(momentAt(data, FIXTURE_FROM - 6000).prediction).toBeNull();
+  });
+
+  it('carries the calibration uncertainty of the sample', () => {
+    expect(momentAt(data, FIXTURE_FROM + 5000).fieldUncertainty).toEqual({ magnitudeGauss: 0.004, thetaDeg: 0.2, phiDeg: 0.3 });
+    expect(momentAt(data, FIXTURE_FROM + 35_000).fieldUncertainty).toBeNull();
   });
 
   it('leaves what history does not keep empty', () => {

@@ -1,15 +1,15 @@
+import type { FieldUncertainty } from '../../../shared/field/field-uncertainty';
 import type { FieldState } from '../../../shared/field/field-vector';
 import { directionFromAngles } from '../../../shared/field/field-vector';
-import type { PerAxis } from '../../../shared/live/live-state';
+import type { LivePrediction, PerAxis } from '../../../shared/live/live-state';
 import { RingBuffer } from '../charts/ring-buffer';
 import { FAST, SLOW, appendChunks } from '../charts/telemetry-history';
-import { resampleHistory } from '../prediction/prediction-series';
 import type { CoilReadings } from '../live/coil-strip';
-import type { RecordedPrediction } from '../prediction/prediction-readout';
-import type { HistoryEvent, HistoryResponse } from './history-api';
+import { resampleHistory } from '../prediction/prediction-series';
+import type { HistoryEvent, HistoryPrediction, HistoryResponse } from './history-api';
 
-/** Columns of `ReplayData.prediction`: the recorded aspect ratios (NaN where none, e.g. collapsed). */
-export const RECORDED = { fermiSurfaceAspect: 0, cloudAspect: 1, tofAspect: 2 } as const;
+/** Columns of `ReplayData.sigma`: one standard deviation of |B|, θ, φ (NaN without one). */
+const SIGMA = { magnitude: 0, theta: 1, phi: 2 } as const;
 
 /** Points of the predicted-shape chart over a whole replay window. */
 const PREDICTED_POINTS = 3000;
@@ -24,10 +24,13 @@ export interface ReplayData {
   resolutionMs: number;
   /** Field and currents, `FAST` columns; every returned sample. */
   fast: RingBuffer;
+  /** σ of |B|, θ, φ at the same times as `fast`. */
+  sigma: RingBuffer;
   /** Coil temperatures and flows, `SLOW` columns. */
   slow: RingBuffer;
-  /** The recorded predictions, `RECORDED` columns; each stands until the next. */
-  prediction: RingBuffer;
+  /** Times of the recorded predictions (no columns); each stands until the next. */
+  predictionTimes: RingBuffer;
+  prediction: HistoryPrediction;
   /** (β − 1) and (TOF aspect − 1) in percent, `PREDICTED` columns, for the chart. */
   predicted: RingBuffer;
   events: HistoryEvent[];
@@ -37,30 +40,34 @@ export interface ReplayData {
 export interface ReplayMoment {
   timeMs: number;
   field: FieldState | null;
+  fieldUncertainty: FieldUncertainty | null;
   coils: CoilReadings;
-  prediction: RecordedPrediction | null;
+  /** The prediction shown live at that moment, as recorded. */
+  prediction: LivePrediction | null;
 }
 
 /** Keeps a window's answer in typed arrays (one pass, no thinning). */
 export function toReplayData(response: HistoryResponse): ReplayData {
-  const fast = new RingBuffer(Math.max(1, response.series.t.length), 6);
+  const { series, prediction } = response;
+  const fast = new RingBuffer(Math.max(1, series.t.length), 6);
   const slow = new RingBuffer(Math.max(1, response.slow.t.length), 6);
-  appendChunks({ fast, slow }, response.series, response.slow, 0);
-  const p = response.prediction;
-  const prediction = new RingBuffer(Math.max(1, p.t.length), 3);
+  appendChunks({ fast, slow }, series, response.slow, 0);
+  const sigma = new RingBuffer(Math.max(1, series.t.length), 3);
   const row = new Float64Array(3);
-  for (let i = 0; i < p.t.length; i++) {
-    row[RECORDED.fermiSurfaceAspect] = p.fermiSurfaceAspect[i] ?? Number.NaN;
-    row[RECORDED.cloudAspect] = p.cloudAspect[i] ?? Number.NaN;
-    row[RECORDED.tofAspect] = p.tofAspect[i] ?? Number.NaN;
-    prediction.push(p.t[i], row);
+  for (let i = 0; i < series.t.length; i++) {
+    row[SIGMA.magnitude] = series.sigmaBMagG[i] ?? Number.NaN;
+    row[SIGMA.theta] = series.sigmaThetaDeg[i] ?? Number.NaN;
+    row[SIGMA.phi] = series.sigmaPhiDeg[i] ?? Number.NaN;
+    sigma.push(series.t[i], row);
   }
+  const predictionTimes = new RingBuffer(Math.max(1, prediction.t.length), 0);
+  for (const t of prediction.t) predictionTimes.push(t, []);
   const fromMs = Date.parse(response.from);
   const toMs = Date.parse(response.to);
-  const points = resampleHistory(p, Math.max(1, (toMs - fromMs) / PREDICTED_POINTS), toMs + 1);
+  const points = resampleHistory(prediction, Math.max(1, (toMs - fromMs) / PREDICTED_POINTS), toMs + 1);
   const predicted = new RingBuffer(Math.max(1, points.length), 2);
   for (const point of points) predicted.push(point.t, point.values);
-  return { fromMs, toMs, resolutionMs: response.resolutionMs, fast, slow, prediction, predicted, events: response.events };
+  return { fromMs, toMs, resolutionMs: response.resolutionMs, fast, sigma, slow, predictionTimes, prediction, predicted, events: response.events };
 }
 
 /**
@@ -77,13 +84,12 @@ export function momentAt(data: ReplayData, timeMs: number): ReplayMoment {
   const hold = holdMs(data.resolutionMs);
   const fastIndex = recentIndex(data.fast, timeMs, hold);
   const slowIndex = recentIndex(data.slow, timeMs, hold);
-  const predictionIndex = data.prediction.indexAtOrBefore(timeMs);
   const fast = (column: number) => (fastIndex < 0 ? Number.NaN : data.fast.valueAt(fastIndex, column));
   const slow = (column: number) => (slowIndex < 0 ? Number.NaN : data.slow.valueAt(slowIndex, column));
-  const recorded = (column: number) => orNull(data.prediction.valueAt(predictionIndex, column));
   return {
     timeMs,
     field: fastIndex < 0 ? null : fieldState(fast(FAST.bMag), orNull(fast(FAST.theta)), orNull(fast(FAST.phi))),
+    fieldUncertainty: fastIndex < 0 ? null : uncertaintyAt(data.sigma, fastIndex),
     coils: {
       currents: perAxis(fast, FAST.currentX),
       temperatureC: perAxis(slow, SLOW.temperatureX),
@@ -93,15 +99,7 @@ export function momentAt(data: ReplayData, timeMs: number): ReplayMoment {
       waterSupplyC: null,
       waterReturnC: null,
     },
-    prediction:
-      predictionIndex < 0
-        ? null
-        : {
-            fermiSurfaceAspect: recorded(RECORDED.fermiSurfaceAspect),
-            cloudAspect: recorded(RECORDED.cloudAspect),
-            tofAspect: recorded(RECORDED.tofAspect),
-            computedAtMs: data.prediction.timeAt(predictionIndex),
-          },
+    prediction: predictionAt(data, data.predictionTimes.indexAtOrBefore(timeMs)),
   };
 }
 
@@ -109,6 +107,33 @@ export function momentAt(data: ReplayData, timeMs: number): ReplayMoment {
 function recentIndex(buffer: RingBuffer, timeMs: number, hold: number): number {
   const i = buffer.indexAtOrBefore(timeMs);
   return i >= 0 && timeMs - buffer.timeAt(i) <= hold ? i : -1;
+}
+
+function uncertaintyAt(sigma: RingBuffer, index: number): FieldUncertainty | null {
+  const magnitudeGauss = sigma.valueAt(index, SIGMA.magnitude);
+  if (Number.isNaN(magnitudeGauss)) return null;
+  return { magnitudeGauss, thetaDeg: orNull(sigma.valueAt(index, SIGMA.theta)), phiDeg: orNull(sigma.valueAt(index, SIGMA.phi)) };
+}
+
+/** The `index`-th recorded prediction as the live state carried it. */
+function predictionAt(data: ReplayData, index: number): LivePrediction | null {
+  if (index < 0) return null;
+  const p = data.prediction;
+  return {
+    stable: p.stable[index],
+    reason: p.reason[index],
+    fermiSurfaceAspect: p.fermiSurfaceAspect[index],
+    cloudAspect: p.cloudAspect[index],
+    tofAspect: p.tofAspect[index],
+    tofMajorAngleDeg: p.tofMajorAngleDeg[index],
+    collapseRatio: p.collapseRatio[index],
+    epsDd: p.epsDd[index],
+    profileId: p.profileId[index],
+    thetaDeg: p.thetaDeg[index],
+    phiDeg: p.phiDeg[index],
+    computedAt: new Date(p.t[index]).toISOString(),
+    camera: p.camera[index],
+  };
 }
 
 function orNull(value: number): number | null {

@@ -30,6 +30,7 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
     http.expectOne('/api/runs').flush({ runs: [RUN] });
     // The coils' bands are not under test here.
     http.expectOne('/api/channels').flush({ error: 'not in this test' }, { status: 503, statusText: 'Unavailable' });
+    http.expectOne('/api/profiles/active').flush({ error: 'not in this test' }, { status: 404, statusText: 'Not Found' });
     await fixture.whenStable();
   });
 
@@ -60,7 +61,7 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
   it('jumps to a mark, steps with the arrow keys and shows the recorded values there', async () => {
     await loadFixtureWindow();
     const alarm = host.querySelector<HTMLButtonElement>('.mark[data-kind="alarm"]')!;
-    expect(alarm.getAttribute('aria-label')).toMatch(/^Jump to Alarm \d\d:\d\d:\d\d: X coil temperature high$/);
+    expect(alarm.getAttribute('aria-label')).toMatch(/^Jump to Alarm at \d\d:\d\d:\d\d — Alarm temperature\.x\.H/);
     expect(text('tw-replay-timeline .legend')).toContain('Alarm');
     alarm.click();
     await fixture.whenStable();
@@ -99,13 +100,15 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
     expect(text('button.play')).toContain('Play');
   });
 
-  it('shows the recorded prediction and says what history does not keep', async () => {
+  it('shows the prediction as it was shown live at the moment, camera view included', async () => {
     await loadFixtureWindow();
-    const panel = text('tw-prediction-panel');
-    expect(panel).toContain('Recorded prediction.');
-    expect(panel).toContain('1.0200');
-    expect(panel).toContain('Camera view not available in replay');
-    expect(panel).toContain('not recorded');
+    const panel = () => text('tw-prediction-panel');
+    expect(panel()).toContain('1.0200');
+    expect(host.querySelector('tw-prediction-panel tw-camera-sketch')).not.toBeNull();
+    host.querySelector<HTMLButtonElement>('.mark[data-kind="shot"]')!.click(); // 50 s: the collapsed prediction from 20 s
+    await fixture.whenStable();
+    expect(panel()).toContain('Collapsed');
+    expect(host.querySelector('tw-prediction-panel tw-camera-sketch')).toBeNull();
   });
 
   it('loads a run from the list by its id', async () => {

@@ -15,6 +15,7 @@ import { ChannelBandsSource } from '../gauges/channel-bands';
 import { CoilStrip } from '../live/coil-strip';
 import { FieldPanel } from '../live/field-panel';
 import { PredictionPanel } from '../prediction/prediction-panel';
+import { ActiveProfile } from '../profiles/active-profile';
 import { formatLocalDateTime, formatLocalTime } from '../readout/format-quantity';
 import { SPEEDS } from './playback-clock';
 import { holdMs } from './replay-data';
@@ -42,6 +43,8 @@ import { readWindow, windowBefore, type WindowForm } from './window-pick';
 export class ReplayPage {
   protected readonly player = inject(ReplayPlayer);
   protected readonly bands = inject(ChannelBandsSource);
+  /** Names the profile of a recorded prediction when it is the one active now (else its id is shown). */
+  protected readonly activeProfile = inject(ActiveProfile).record;
   protected readonly speeds = SPEEDS;
   protected readonly runs = httpResource<{ runs: RunRecord[] }>(() => '/api/runs');
   protected readonly runChoices = computed(() =>

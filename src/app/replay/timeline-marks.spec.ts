@@ -2,16 +2,20 @@ import { describe, expect, it } from 'vitest';
 import type { HistoryEvent } from './history-api';
 import { MARK_LOOK, placeMarks } from './timeline-marks';
 
+function event(t: number, kind: HistoryEvent['kind'], label: string): HistoryEvent {
+  return { at: Number.isFinite(t) ? new Date(t).toISOString() : 'not a time', t, kind, id: '1', label, actor: null, detail: null };
+}
+
 const FROM = Date.parse('2026-12-01T21:00:00Z');
 const TO = FROM + 600_000;
 
 describe('placeMarks', () => {
   it('places events by time along the window, oldest first, with kind word and text', () => {
     const events: HistoryEvent[] = [
-      { at: new Date(FROM + 450_000).toISOString(), kind: 'trip', reason: 'X coil temperature beyond trip level' },
-      { at: FROM + 150_000, kind: 'alarm', message: 'X coil temperature high' },
-      { at: new Date(FROM).toISOString(), kind: 'run', label: 'θ scan' },
-      { at: new Date(TO).toISOString(), kind: 'shot' },
+      event(FROM + 450_000, 'trip', 'Interlock trip, first out: X coil temperature'),
+      event(FROM + 150_000, 'alarm', 'Alarm temperature.x.H (medium): raise'),
+      event(FROM, 'run', 'Run 7 started: sequence "θ scan" version 3'),
+      event(TO, 'shot', ''),
     ];
     const marks = placeMarks(events, FROM, TO);
     expect(marks.map((m) => [m.kind, m.percent])).toEqual([
@@ -20,18 +24,13 @@ describe('placeMarks', () => {
       ['trip', 75],
       ['shot', 100],
     ]);
-    expect(marks[1].text).toMatch(/^Alarm \d\d:\d\d:\d\d: X coil temperature high$/);
-    expect(marks[2].text).toMatch(/^Trip .*beyond trip level$/);
-    expect(marks[3].text).toMatch(/^Shot \d\d:\d\d:\d\d$/);
+    expect(marks[1].text).toMatch(/^Alarm at \d\d:\d\d:\d\d — Alarm temperature\.x\.H \(medium\): raise$/);
+    expect(marks[2].text).toMatch(/^Trip at .* — Interlock trip, first out: X coil temperature$/);
+    expect(marks[3].text).toMatch(/^Shot at \d\d:\d\d:\d\d — Shot$/);
   });
 
   it('leaves out events outside the window, of unreadable time or of an unknown kind', () => {
-    const events = [
-      { at: FROM - 1, kind: 'alarm' },
-      { at: TO + 1, kind: 'note' },
-      { at: 'not a time', kind: 'note' },
-      { at: FROM + 1, kind: 'weather' },
-    ] as unknown as HistoryEvent[];
+    const events = [event(FROM - 1, 'alarm', 'early'), event(TO + 1, 'note', 'late'), event(Number.NaN, 'note', 'no time'), event(FROM + 1, 'weather' as HistoryEvent['kind'], 'odd')];
     expect(placeMarks(events, FROM, TO)).toEqual([]);
   });
 

@@ -27,25 +27,8 @@ export interface TimelineMark {
   /** Position along the timeline, 0 (window start) to 100 (window end). */
   percent: number;
   icon: string;
-  /** Spoken and shown text, e.g. "Alarm 21:04:13: X coil temperature high". */
+  /** Spoken and shown text: local time and the event's own line, e.g. "Note at 21:04:13 — Logbook: θ scan started". */
   text: string;
-}
-
-/** Fields of an event that may carry its text, in the order they are tried. */
-const TEXT_FIELDS = ['label', 'text', 'title', 'message', 'summary', 'name', 'reason'];
-
-/** Unix epoch ms of an event's `at` (ISO text or a number); NaN when unreadable. */
-export function eventTimeMs(event: HistoryEvent): number {
-  return typeof event.at === 'number' ? event.at : Date.parse(event.at);
-}
-
-/** The event's own words, if it has any. */
-export function eventDetail(event: HistoryEvent): string | null {
-  for (const key of TEXT_FIELDS) {
-    const value = event[key];
-    if (typeof value === 'string' && value.trim()) return value.trim();
-  }
-  return null;
 }
 
 /**
@@ -56,17 +39,14 @@ export function placeMarks(events: readonly HistoryEvent[], fromMs: number, toMs
   const span = toMs - fromMs;
   if (!(span > 0)) return [];
   return events
-    .map((event) => ({ event, timeMs: eventTimeMs(event), look: MARK_LOOK[event.kind] }))
-    .filter(({ timeMs, look }) => look !== undefined && timeMs >= fromMs && timeMs <= toMs)
+    .map((event) => ({ event, timeMs: event.t, look: MARK_LOOK[event.kind] }))
+    .filter(({ timeMs, look }) => look !== undefined && Number.isFinite(timeMs) && timeMs >= fromMs && timeMs <= toMs)
     .sort((a, b) => a.timeMs - b.timeMs)
-    .map(({ event, timeMs, look }) => {
-      const detail = eventDetail(event);
-      return {
-        kind: event.kind,
-        timeMs,
-        percent: ((timeMs - fromMs) / span) * 100,
-        icon: look.icon,
-        text: `${look.label} ${formatLocalTime(timeMs)}${detail ? `: ${detail}` : ''}`,
-      };
-    });
+    .map(({ event, timeMs, look }) => ({
+      kind: event.kind,
+      timeMs,
+      percent: ((timeMs - fromMs) / span) * 100,
+      icon: look.icon,
+      text: `${look.label} at ${formatLocalTime(timeMs)} — ${event.label.trim() || look.label}`,
+    }));
 }
