@@ -83,3 +83,11 @@ export function queryNumber(opts: NumberOptions) {
   const message = rangeMessage(opts);
   return z.coerce.number({ error: message }).refine((n) => inRange(n, opts), message);
 }
+
+/** A date and time in a query string (ISO 8601, e.g. 2026-12-02T06:00:00Z), as a Date; `label` starts the message. */
+export function queryTime(label: string) {
+  return z
+    .string()
+    .refine((v) => /^\d{4}-\d{2}-\d{2}/.test(v) && !Number.isNaN(new Date(v).getTime()), `${label}: must be a date and time such as 2026-12-02T06:00:00Z`)
+    .transform((v) => new Date(v));
+}
