@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { queryNumber, queryTime } from '../http/fields.js';
+import { isoTime, queryNumber } from '../http/fields.js';
 import { HttpError } from '../http/http-error.js';
 import { parseInput } from '../http/validate.js';
 
@@ -13,8 +13,8 @@ export const CSV_MAX_POINTS = 100_000;
 export const HISTORY_MAX_WINDOW_MS = 7 * 86_400_000;
 
 const Query = z.object({
-  from: queryTime('from').optional(),
-  to: queryTime('to').optional(),
+  from: isoTime().optional(),
+  to: isoTime().optional(),
   run: queryNumber({ min: 1, max: 2_147_483_647, integer: true }).optional(),
   points: queryNumber({ min: 2, max: CSV_MAX_POINTS, integer: true }).optional(),
   format: z.enum(['json', 'csv'], { error: 'must be json or csv' }).default('json'),

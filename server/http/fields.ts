@@ -84,10 +84,11 @@ export function queryNumber(opts: NumberOptions) {
   return z.coerce.number({ error: message }).refine((n) => inRange(n, opts), message);
 }
 
-/** A date and time in a query string (ISO 8601, e.g. 2026-12-02T06:00:00Z), as a Date; `label` starts the message. */
-export function queryTime(label: string) {
+/** A date and time in ISO 8601 (query-string or body text), as a Date. */
+export function isoTime() {
+  const message = 'must be a date and time such as 2026-12-02T06:00:00Z';
   return z
-    .string()
-    .refine((v) => /^\d{4}-\d{2}-\d{2}/.test(v) && !Number.isNaN(new Date(v).getTime()), `${label}: must be a date and time such as 2026-12-02T06:00:00Z`)
+    .string({ error: message })
+    .refine((v) => /^\d{4}-\d{2}-\d{2}T/.test(v) && !Number.isNaN(new Date(v).getTime()), message)
     .transform((v) => new Date(v));
 }

@@ -13,7 +13,6 @@ import { MAX_ATTACHMENT_BYTES, MAX_ATTACHMENTS, MAX_ENTRY_CHARS, type LogbookCre
 import { actorOf } from '../alarms/alarm-routes.js';
 import type { Db } from '../db/database.js';
 import { HttpError } from '../http/http-error.js';
-import { queryTime } from '../http/fields.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { parseInput } from '../http/validate.js';
 import { checkAttachment, contentDisposition, type CheckedFile } from './attachment-check.js';
@@ -49,6 +48,13 @@ const multipart: RequestHandler = (req, res, next) => {
   });
 };
 
+const isoTime = (label: string) =>
+  z
+    .string()
+    .refine((v) => /^\d{4}-\d{2}-\d{2}/.test(v) && !Number.isNaN(new Date(v).getTime()), `${label}: must be a date and time such as 2026-12-02T06:00:00Z`)
+    .transform((v) => new Date(v))
+    .optional();
+
 const ListQuery = z.object({
   q: z
     .string()
@@ -56,8 +62,8 @@ const ListQuery = z.object({
     .refine((v) => textProblem(v) === null, 'Search: must be plain text')
     .transform((v) => v.trim())
     .optional(),
-  from: queryTime('From').optional(),
-  to: queryTime('To').optional(),
+  from: isoTime('From'),
+  to: isoTime('To'),
   tag: z.string().max(40, 'Tag: at most 40 characters').transform((v) => v.trim().toLowerCase()).optional(),
   limit: z.coerce.number().int('Limit: a whole number').min(1, 'Limit: at least 1').max(MAX_LIMIT, `Limit: at most ${MAX_LIMIT}`).default(DEFAULT_LIMIT),
 });
