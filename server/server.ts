@@ -240,12 +240,14 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
       const frames = { ...gate.counters(), deliveryErrors: ingest.deliveryErrors() };
       const storage = writer.counters();
       const databaseHealth = database.health?.report() ?? null;
+      const records = supervision.records();
       const problems = healthProblems({
         nowMs: Date.now(),
         frames,
         lastRejectedAtMs: gate.lastRejectedAtMs(),
         lastDeliveryErrorAtMs: ingest.lastDeliveryErrorAtMs(),
         storage,
+        supervision: records,
         database: databaseHealth,
       });
       return {
@@ -260,6 +262,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         mqttConnected: ingest.connected(),
         fanout: fanoutCounters,
         storage,
+        supervision: records,
         eventLoop: eventLoop.report(),
       };
     };
