@@ -48,6 +48,7 @@ import { seriesHandlers } from './series/series-routes.js';
 import { RollupAccumulator } from './storage/rollup-accumulator.js';
 import { startSteering } from './steering/start-steering.js';
 import { TelemetryWriter } from './storage/telemetry-writer.js';
+import { listenForAccountChanges } from './users/account-change-listener.js';
 import { AccountEvents } from './users/account-events.js';
 import { UserAccounts } from './users/user-accounts.js';
 import { userHandlers } from './users/user-routes.js';
@@ -182,6 +183,12 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
 
     const access = new AccessControl(db, tokens, demo);
     const accountEvents = new AccountEvents();
+    if (config.databaseUrl !== null) {
+      // Changes by the `users` command in another process are heard at once (the minute's re-check stays as fallback).
+      const listener = listenForAccountChanges(config.databaseUrl, accountEvents, log);
+      closers.push(() => listener.close());
+      await listener.ready;
+    }
     const accounts = new UserAccounts(db, accountEvents, demo);
     const security = new SecurityLog(db, log);
     closers.push(() => security.drain());
