@@ -14,6 +14,7 @@ import { SecurityLog } from './auth/security-log.js';
 import { DEFAULT_THROTTLE_RULES, SignInThrottle } from './auth/sign-in-throttle.js';
 import { hasEnabledAdmin, seedDemoAccounts } from './auth/users-repository.js';
 import { calibrationHandlers } from './calibration/calibration-routes.js';
+import { shotHandlers } from './shots/shot-routes.js';
 import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
 import { lockDataFolder } from './data-folder/data-folder-lock.js';
@@ -285,6 +286,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...predictionHandlers(history),
         ...supervision.handlers,
         ...steering.handlers,
+        ...shotHandlers({ db }),
         ...logbookHandlers({ db, targets: { db, alarmIds: () => supervision.book.limits().map((l) => l.id) } }),
         ...handoverHandlers({
           workflow: new HandoverWorkflow({ db, live, book: supervision.book, interlock: supervision.interlock, flush: () => supervision.flushRecords() }),

@@ -92,6 +92,9 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   'runs.list': {},
   'runs.get': { path: '/api/runs/999', allowedStatus: 404 },
   'runs.abort': { path: '/api/runs/999/abort', body: { reason: 'route access check' }, allowedStatus: 404 },
+  'shots.list': { query: '?from=2026-01-01T00:00:00Z&to=2026-01-02T00:00:00Z' },
+  // A JSON request carries no file: the role check passes, then 400.
+  'shots.measurements': { body: { file: 'not a file' }, allowedStatus: 400 },
 };
 
 describe('sign-in and roles', () => {

@@ -358,6 +358,25 @@ export const shots = pgTable(
   (t) => [index('shots_run').on(t.runId)],
 );
 
+/**
+ * The TOF image of a shot as the imaging analysis measured it: one row per shot, replaced by a
+ * later upload (the audit log keeps the earlier value).
+ */
+export const shotMeasurements = pgTable('shot_measurements', {
+  shotId: text('shot_id')
+    .primaryKey()
+    .references(() => shots.id),
+  /** Long over short axis of the column density, ≥ 1. */
+  tofAspect: doublePrecision('tof_aspect').notNull(),
+  /** Angle of the long axis in the camera frame, degrees. */
+  tofAngleDeg: doublePrecision('tof_angle_deg').notNull(),
+  /** One standard deviation of `tofAspect`; null when the file gave none. */
+  sigma: doublePrecision('sigma'),
+  sourceName: text('source_name').notNull(),
+  uploadedBy: text('uploaded_by').notNull(),
+  uploadedAt: timestamp('uploaded_at', { withTimezone: true }).notNull(),
+});
+
 /** PostgreSQL text-search document (written by the database, never by the application). */
 const tsvector = customType<{ data: string }>({ dataType: () => 'tsvector' });
 const bytea = customType<{ data: Uint8Array; driverData: Uint8Array }>({ dataType: () => 'bytea' });
@@ -505,6 +524,7 @@ export const schema = {
   sequences,
   runs,
   shots,
+  shotMeasurements,
   logbookEntries,
   logbookAttachments,
   handovers,
