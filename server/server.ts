@@ -12,6 +12,7 @@ import { LoginUseCase } from './auth/login.js';
 import { TokenIssuer } from './auth/tokens.js';
 import { SecurityLog } from './auth/security-log.js';
 import { DEFAULT_THROTTLE_RULES, SignInThrottle } from './auth/sign-in-throttle.js';
+import { SignInThrottleStore } from './auth/sign-in-throttle-store.js';
 import { hasEnabledAdmin, seedDemoAccounts } from './auth/users-repository.js';
 import { calibrationHandlers } from './calibration/calibration-routes.js';
 import { shotHandlers } from './shots/shot-routes.js';
@@ -193,10 +194,19 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     const accounts = new UserAccounts(db, accountEvents, demo);
     const security = new SecurityLog(db, log);
     closers.push(() => security.drain());
-    const throttle = new SignInThrottle({ ...DEFAULT_THROTTLE_RULES, addressFailures: config.loginAttemptsPerMinute }, (event) => {
-      const { kind, ...detail } = event;
-      security.record({ kind, email: 'email' in event ? event.email : null, address: event.address, detail });
-    });
+    const throttleRules = { ...DEFAULT_THROTTLE_RULES, addressFailures: config.loginAttemptsPerMinute };
+    const throttleStore = new SignInThrottleStore(db, log);
+    closers.push(() => throttleStore.drain());
+    const throttle = new SignInThrottle(
+      throttleRules,
+      (event) => {
+        const { kind, ...detail } = event;
+        security.record({ kind, email: 'email' in event ? event.email : null, address: event.address, detail });
+      },
+      Date.now,
+      (change) => throttleStore.save(change),
+    );
+    throttle.restore(await throttleStore.load(throttleRules, Date.now()));
     const live = new LiveStore();
     const httpServer = createServer();
     const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout, accountEvents);
