@@ -21,6 +21,7 @@ import {
   integer,
   jsonb,
   pgTable,
+  primaryKey,
   real,
   serial,
   smallint,
@@ -512,6 +513,32 @@ export const alarmStates = pgTable('alarm_states', {
   updatedAtMs: epochMs('updated_at_ms').notNull(),
 });
 
+/**
+ * Supervision records (trips, alarm transitions) taken from the journal in the data folder
+ * (server/alarms/supervision-journal.ts): the id of each record written, in the same
+ * transaction as the record, so a replay after a write whose confirmation was lost skips it.
+ */
+export const supervisionRecordsApplied = pgTable('supervision_records_applied', {
+  id: text('id').primaryKey(),
+  /** Server time of the write, Unix epoch ms. */
+  appliedAtMs: epochMs('applied_at_ms').notNull(),
+});
+
+/**
+ * Sign-in throttles that outlive a restart (server/auth/sign-in-throttle.ts): per account the
+ * failures and the time of the next attempt, per client address the failure times in the window.
+ */
+export const signInThrottles = pgTable(
+  'sign_in_throttles',
+  {
+    scope: text('scope').$type<'account' | 'address'>().notNull(),
+    key: text('key').notNull(),
+    /** Account: { failures, lastFailureAt, nextAttemptAt }; address: failure times, Unix epoch ms. */
+    state: jsonb('state').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.scope, t.key] })],
+);
+
 export const schema = {
   users,
   calibrations,
@@ -535,4 +562,6 @@ export const schema = {
   handovers,
   handoverItems,
   alarmStates,
+  supervisionRecordsApplied,
+  signInThrottles,
 };
