@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import type { HistoryResponse } from '../../shared/history/history-api.js';
+import type { LiveState } from '../../shared/live/live-state.js';
 import { ARTIFACT_DIR, launchBrowser, signInOnPage, type TestBrowser } from '../support/browser.js';
 import { signIn, startStack, waitFor, type Stack } from '../support/stack.js';
 
@@ -18,10 +19,7 @@ function timeText(ms: number): string {
 describe('Replay page in Chromium', () => {
   let stack: Stack;
   let chrome: TestBrowser;
-  let startedMs: number;
-
   beforeAll(async () => {
-    startedMs = Date.now();
     stack = await startStack();
     chrome = await launchBrowser();
   });
@@ -55,8 +53,12 @@ describe('Replay page in Chromium', () => {
   it('plays a recorded window: seeks by mark and timeline, changes speed, and shows what history holds', async () => {
     // Let the simulator run a while, with a logbook note in the middle as a mark.
     const operator = await signIn(stack.server.url, 'operator');
-    await waitFor(async () => (Date.now() - startedMs > 9000 ? true : undefined), 'nine seconds of telemetry', 30_000);
-    const noteAtMs = Date.now() - 4000;
+    const firstDataMs = await waitFor(async () => {
+      const live = (await (await fetch(`${stack.server.url}/api/live`, { headers: { authorization: `Bearer ${operator}` } })).json()) as LiveState;
+      return live.time ? Date.parse(live.time) : undefined;
+    }, 'the first telemetry', 30_000);
+    await waitFor(() => (Date.now() > firstDataMs + 10_000 ? true : undefined), 'ten seconds of telemetry', 30_000);
+    const noteAtMs = firstDataMs + 5000;
     const note = await fetch(`${stack.server.url}/api/logbook/entries`, {
       method: 'POST',
       headers: { 'content-type': 'application/json', authorization: `Bearer ${operator}` },
@@ -72,8 +74,8 @@ describe('Replay page in Chromium', () => {
     await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Replay' }).click();
 
     const windowForm = page.getByRole('form', { name: 'A time window' });
-    await windowForm.getByLabel('From date').fill(dateText(startedMs));
-    await windowForm.getByLabel('From time').fill(timeText(startedMs));
+    await windowForm.getByLabel('From date').fill(dateText(firstDataMs));
+    await windowForm.getByLabel('From time').fill(timeText(firstDataMs));
     await windowForm.getByLabel('To date').fill(dateText(toMs + 1000));
     await windowForm.getByLabel('To time').fill(timeText(toMs + 1000));
     const answer = page.waitForResponse((r) => r.url().includes('/api/history?') && r.status() === 200);
@@ -90,13 +92,24 @@ describe('Replay page in Chromium', () => {
     await expect.poll(() => clockMs(page)).toBe(Date.parse(history.events.find((e) => e.kind === 'note')!.at));
     await expectReadoutAtClock(page, history);
 
-    // Play at 20×, then pause: the clock moved on, and the readout is history's at the new moment.
+    // Play at 0.5×, then pause: the clock moved on, and the readout is history's at the new moment.
     const before = await clockMs(page);
-    await bar.getByRole('radio', { name: '20×' }).or(bar.getByRole('button', { name: '20×' })).first().click();
-    await bar.getByRole('button', { name: 'Play' }).click();
-    await expect.poll(() => clockMs(page), { timeout: 10_000 }).toBeGreaterThan(before + 1000);
-    await bar.getByRole('button', { name: 'Pause' }).click();
+    const speed = (label: string) => bar.getByRole('radio', { name: label, exact: true });
+    await speed('0.5×').click();
+    await bar.getByRole('button', { name: 'Play', exact: true }).click();
+    await expect.poll(() => clockMs(page), { timeout: 10_000 }).toBeGreaterThan(before + 500);
+    await bar.getByRole('button', { name: 'Pause', exact: true }).click();
     await expectReadoutAtClock(page, history);
+
+    // At 20× the whole window (about 11 s) plays in well under its own length, then stops at its end.
+    const toWindowEnd = Date.parse(history.to);
+    await page.getByRole('slider', { name: 'Replay position' }).press('Home');
+    await speed('20×').click();
+    const startedPlaying = Date.now();
+    await bar.getByRole('button', { name: 'Play', exact: true }).click();
+    await expect.poll(() => clockMs(page), { timeout: 8000 }).toBe(toWindowEnd);
+    expect(Date.now() - startedPlaying).toBeLessThan(toWindowEnd - Date.parse(history.from));
+    await expect.poll(() => bar.getByRole('button', { name: 'Play', exact: true }).count()).toBe(1);
 
     // Click the timeline a quarter of the way along; step with the keyboard.
     const track = page.getByRole('slider', { name: 'Replay position' });

@@ -227,6 +227,7 @@ export class ChartPanel {
     ctx.save();
     ctx.strokeStyle = stroke;
     ctx.lineWidth = 2 * devicePixelRatio;
+    ctx.setLineDash([]); // solid, unlike the dashed and dotted series drawn before it
     ctx.beginPath();
     ctx.moveTo(x, top);
     ctx.lineTo(x, top + height);

@@ -6,7 +6,7 @@ import { RingBuffer } from '../charts/ring-buffer';
 import { FAST, SLOW, appendChunks } from '../charts/telemetry-history';
 import type { CoilReadings } from '../live/coil-strip';
 import { resampleHistory } from '../prediction/prediction-series';
-import type { HistoryEvent, HistoryPrediction, HistoryResponse } from './history-api';
+import type { HistoryEvent, HistoryPrediction, HistoryResponse } from '../../../shared/history/history-api';
 
 /** Columns of `ReplayData.sigma`: one standard deviation of |B|, θ, φ (NaN without one). */
 const SIGMA = { magnitude: 0, theta: 1, phi: 2 } as const;

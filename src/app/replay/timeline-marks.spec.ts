@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { HistoryEvent } from './history-api';
+import type { HistoryEvent } from '../../../shared/history/history-api';
 import { MARK_LOOK, placeMarks } from './timeline-marks';
 
 function event(t: number, kind: HistoryEvent['kind'], label: string): HistoryEvent {

@@ -1,5 +1,5 @@
 import { formatLocalTime } from '../readout/format-quantity';
-import type { HistoryEvent, HistoryEventKind } from './history-api';
+import type { HistoryEvent, HistoryEventKind } from '../../../shared/history/history-api';
 
 /** How a kind of event looks on the timeline: a Material Symbols icon (its own shape) and a word. */
 export interface MarkLook {

@@ -1,4 +1,4 @@
-import type { HistoryEvent, HistoryResponse } from '../history-api';
+import type { HistoryEvent, HistoryResponse } from '../../../../shared/history/history-api';
 
 /** Start of the fixture window, Unix epoch ms. */
 export const FIXTURE_FROM = Date.parse('2026-12-01T21:00:00Z');
