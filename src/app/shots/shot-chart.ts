@@ -17,6 +17,9 @@ export interface ShotChartData {
   range: [number, number];
 }
 
+/** Least span of the aspect-ratio axis, so differences of 10⁻⁴ between shots do not fill the chart. */
+const MIN_ASPECT_SPAN = 0.01;
+
 /** Columns of the chart: aspect ratios (or their difference) and σ per shot, by θ. */
 export function shotChartData(views: readonly ShotView[], kind: ShotChartKind): ShotChartData {
   const rows = views.filter((v) => v.thetaDeg !== null).sort((a, b) => a.thetaDeg! - b.thetaDeg!);
@@ -33,6 +36,7 @@ export function shotChartData(views: readonly ShotView[], kind: ShotChartKind): 
   let lo = values.length ? Math.min(...values) : kind === 'aspect' ? 1 : -0.01;
   let hi = values.length ? Math.max(...values) : kind === 'aspect' ? 1.05 : 0.01;
   if (kind === 'residual') hi = -(lo = -Math.max(Math.abs(lo), Math.abs(hi), 1e-3));
+  else if (hi - lo < MIN_ASPECT_SPAN) [lo, hi] = [(lo + hi - MIN_ASPECT_SPAN) / 2, (lo + hi + MIN_ASPECT_SPAN) / 2];
   const pad = Math.max((hi - lo) * 0.08, 1e-4);
   return { theta: rows.map((v) => v.thetaDeg!), predicted, measured, sigma, range: [lo - pad, hi + pad] };
 }
@@ -100,10 +104,10 @@ export class ShotChart {
         ...plotSize(host),
         scales: { x: { time: false, range: (_u, min, max) => [Math.min(0, min ?? 0), Math.max(90, max ?? 90)] }, y: { range: () => data.range } },
         cursor: { drag: { x: false, y: false, setScale: false } },
-        legend: { live: true },
+        legend: { live: false },
         axes: [
           axis('θ, field polar angle in the trap frame (°)'),
-          axis(kind === 'aspect' ? 'TOF aspect ratio' : 'measured − predicted', {
+          axis(kind === 'aspect' ? 'TOF aspect ratio' : 'Δ aspect ratio', {
             size: Math.round(3.8 * rem),
             values: (_u, splits) => splits.map((v) => formatNumber(v, Math.max(kind === 'aspect' ? 2 : 3, decimalsFor(splits)))),
           }),

@@ -20,6 +20,11 @@ describe('shots measured against predicted', () => {
     expect(v).toMatchObject({ thetaDeg: 30, magnitudeG: 8, sigma: 0.003, measuredAngleDeg: 88, predictedAngleDeg: 90 });
   });
 
+  it('shows an azimuth just below 360° as the 0° it rounds to', () => {
+    expect(shotView({ ...row('a', 30, 1.02, null), field: { magnitude: 8, thetaDeg: 30, phiDeg: 359.97 } }).phiDeg).toBeCloseTo(-0.03, 12);
+    expect(shotView({ ...row('a', 30, 1.02, null), field: { magnitude: 8, thetaDeg: 30, phiDeg: 359.9 } }).phiDeg).toBe(359.9);
+  });
+
   it('leaves the ratio out where the predicted image is nearly round or a value is missing', () => {
     expect(shotView(row('a', 0, 1.0005, 1.01)).deformationRatio).toBeNull();
     expect(shotView(row('a', 0, 1.02, null))).toMatchObject({ residual: null, deformationRatio: null });

@@ -38,7 +38,7 @@ export function shotView(row: ShotRow): ShotView {
     runId: row.runId,
     magnitudeG: row.field.magnitude,
     thetaDeg: row.field.thetaDeg,
-    phiDeg: row.field.phiDeg,
+    phiDeg: row.field.phiDeg === null ? null : shownAzimuth(row.field.phiDeg),
     predictedAspect,
     predictedAngleDeg: row.prediction?.tofMajorAngleDeg ?? null,
     measuredAspect,
@@ -47,6 +47,11 @@ export function shotView(row: ShotRow): ShotView {
     residual: both ? measuredAspect - predictedAspect : null,
     deformationRatio: both && predictedAspect - 1 >= MIN_PREDICTED_DEFORMATION ? (measuredAspect - 1) / (predictedAspect - 1) : null,
   };
+}
+
+/** φ in [0°, 360°) as the table shows it to 0.1°: just below 360° it reads as the 0° it rounds to, not "360.0°". */
+function shownAzimuth(phiDeg: number): number {
+  return phiDeg >= 359.95 ? phiDeg - 360 : phiDeg;
 }
 
 /** How far measured and predicted deformations are apart over the shots that have both. */
@@ -70,7 +75,7 @@ export function agreement(views: readonly ShotView[]): Agreement {
   return { count: ratios.length, meanRatio, spread, meanResidual: mean(residuals) };
 }
 
-export type ShotColumn = 'label' | 'atMs' | 'runId' | 'thetaDeg' | 'phiDeg' | 'magnitudeG' | 'predictedAspect' | 'measuredAspect' | 'deformationRatio' | 'predictedAngleDeg' | 'measuredAngleDeg';
+export type ShotColumn = 'label' | 'atMs' | 'thetaDeg' | 'phiDeg' | 'magnitudeG' | 'predictedAspect' | 'measuredAspect' | 'deformationRatio' | 'predictedAngleDeg' | 'measuredAngleDeg';
 
 /** The rows sorted by a column (missing values last in either direction); unsorted when `direction` is empty. */
 export function sortShots(views: readonly ShotView[], column: ShotColumn, direction: 'asc' | 'desc' | ''): ShotView[] {

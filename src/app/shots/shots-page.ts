@@ -49,7 +49,7 @@ export class ShotsPage {
   protected readonly notice = signal<string | null>(null);
 
   protected readonly columns: ShotColumn[] = [
-    'label', 'atMs', 'runId', 'thetaDeg', 'phiDeg', 'magnitudeG', 'predictedAspect', 'measuredAspect', 'deformationRatio', 'predictedAngleDeg', 'measuredAngleDeg',
+    'label', 'atMs', 'thetaDeg', 'phiDeg', 'magnitudeG', 'predictedAspect', 'measuredAspect', 'deformationRatio', 'predictedAngleDeg', 'measuredAngleDeg',
   ];
   protected readonly rows = computed(() => sortShots(this.views(), this.sort().active as ShotColumn, this.sort().direction));
   protected readonly agreement = computed(() => agreement(this.views()));
