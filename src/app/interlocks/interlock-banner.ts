@@ -18,7 +18,7 @@ import { tripHeadline } from './interlock-text';
       <section class="banner trip" role="alert" aria-label="Software interlock">
         <mat-icon aria-hidden="true">report</mat-icon>
         <p>
-          @if (replaying()) {<strong class="now">Now, not in the replay:</strong> }
+          @if (replaying()) {<strong class="now">Now, not in the replay: </strong>}
           <strong>{{ text }}.</strong>
           Coil currents were ramped to zero. Reset once the cause has cleared:
           <a routerLink="/interlocks">open Interlocks</a>.
@@ -29,7 +29,7 @@ import { tripHeadline } from './interlock-text';
       <section class="banner trip" role="alert" aria-label="Hardware interlock">
         <mat-icon aria-hidden="true">bolt</mat-icon>
         <p>
-          @if (replaying()) {<strong class="now">Now, not in the replay:</strong> }
+          @if (replaying()) {<strong class="now">Now, not in the replay: </strong>}
           <strong>Hardware interlock tripped at the controller{{ hardwareCause() }}.</strong>
           It can only be reset at the controller itself, never from Tiltwatch.
         </p>

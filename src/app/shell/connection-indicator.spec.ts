@@ -12,7 +12,8 @@ describe('ConnectionIndicator', () => {
     fixture.componentRef.setInput('now', Date.now());
     fixture.componentRef.setInput('replaying', replaying);
     await fixture.whenStable();
-    return (fixture.nativeElement as HTMLElement).textContent!.replace(/\s+/g, ' ').trim();
+    const host = fixture.nativeElement as HTMLElement;
+    return ['mat-icon', '.label', '.detail'].map((part) => host.querySelector(part)!.textContent!.trim()).join(' ').trim();
   }
 
   it('says Live while the page shows live data', async () => {
