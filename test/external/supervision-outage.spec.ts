@@ -56,6 +56,8 @@ describe('supervision records through a PostgreSQL outage and a kill -9', () => 
       const get = async <T>(route: string) => (await (await fetch(`${proc.url}${route}`, { headers: { authorization: `Bearer ${viewer}` } })).json()) as T;
       const health = async () => (await (await fetch(`${proc.url}/api/health`)).json()) as HealthReport;
       await waitFor(async () => ((await health()).frames.acceptedByKind.fast > 50 ? true : undefined), 'telemetry', 30_000);
+      // Signed in before the outage: the server knows the account from memory while the database is down.
+      expect((await get<InterlockStatus>('/api/interlock')).state).toBe('ok');
 
       await postgres.stop();
       await waitFor(async () => ((await health()).database?.state === 'unreachable' ? true : undefined), 'the outage on /api/health', 20_000);
