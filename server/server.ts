@@ -47,6 +47,7 @@ import { seedDemoProfile } from './profiles/profile-repository.js';
 import { profileHandlers } from './profiles/profile-routes.js';
 import { projectRoot } from './project-root.js';
 import { seriesHandlers } from './series/series-routes.js';
+import { historyHandlers } from './history/history-routes.js';
 import { RollupAccumulator } from './storage/rollup-accumulator.js';
 import { startSteering } from './steering/start-steering.js';
 import { TelemetryWriter } from './storage/telemetry-writer.js';
@@ -220,7 +221,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     // field that orients the dipoles, below which the prediction is shown as not applying.
     const levels = await LevelStore.load(db);
     const minOrientingField = () => levels.inForce().levels.settings.minOrientingFieldG;
-    const prediction = new LivePredictionFeed({ engine, live, history, fanout, staleMs: config.staleTripMs, minOrientingFieldG: minOrientingField() });
+    const prediction = new LivePredictionFeed({ engine, live, history, store: writer, fanout, staleMs: config.staleTripMs, minOrientingFieldG: minOrientingField() });
     closers.push(() => prediction.close());
     levels.onChange(() => prediction.setMinOrientingField(minOrientingField()));
     const profiles = new ActiveProfileLoader(db, prediction);
@@ -291,6 +292,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...userHandlers({ db, accounts, throttle, security }),
         ...liveHandlers(live),
         ...seriesHandlers(calibrations, writer),
+        ...historyHandlers({ db, writer, calibrations, retention: config.retention }),
         ...calibrationHandlers(db, async () => void (await calibrations.reload())),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),

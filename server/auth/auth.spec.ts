@@ -29,6 +29,7 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   'auth.password': { body: { currentPassword: TEST_PASSWORD, newPassword: TEST_PASSWORD }, allowedStatus: 400 },
   live: {},
   series: { query: '?seconds=60' },
+  history: { query: '?from=2026-01-01T00:00:00Z&to=2026-01-01T00:01:00Z' },
   channels: {},
   'levels.get': {},
   'levels.history': {},

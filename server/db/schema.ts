@@ -36,6 +36,7 @@ import type { HandoverItem, HandoverNotes, HandoverRecord, HandoverStatus } from
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
 import type { CalibrationFitReport, CalibrationKind, CalibrationState, FitPoint } from '../../shared/field/calibration-record.js';
+import type { LivePrediction } from '../../shared/live/live-state.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
@@ -232,6 +233,36 @@ export const rollups1s = pgTable('rollups_1s', {
   flowYMin: real('flow_y_min'),
   flowZMean: real('flow_z_mean'),
   flowZMin: real('flow_z_min'),
+  /**
+   * Mean one-standard-deviation σ|B| (G), σθ, σφ (degrees) over the second's fast frames, from
+   * the covariance of the calibration each frame was read with; null without a covariance.
+   */
+  sigmaBMagMean: real('sigma_b_mag_mean'),
+  sigmaThetaMean: real('sigma_theta_mean'),
+  sigmaPhiMean: real('sigma_phi_mean'),
+});
+
+/**
+ * Live predictions as they were shown (one row per prediction, at its `computedAt`; a later
+ * collapse-ratio update of the same prediction replaces the row), kept as long as the roll-ups.
+ * Angles are the trap-frame direction the prediction was made for.
+ */
+export const predictionSamples = pgTable('prediction_samples', {
+  /** `computedAt`, Unix epoch ms. */
+  tMs: epochMs('t_ms').primaryKey(),
+  profileId: integer('profile_id').notNull(),
+  thetaDeg: real('theta_deg').notNull(),
+  phiDeg: real('phi_deg').notNull(),
+  stable: boolean('stable').notNull(),
+  reason: text('reason'),
+  epsDd: real('eps_dd').notNull(),
+  fermiSurfaceAspect: real('fermi_surface_aspect'),
+  cloudAspect: real('cloud_aspect'),
+  tofAspect: real('tof_aspect'),
+  tofMajorAngleDeg: real('tof_major_angle_deg'),
+  collapseRatio: real('collapse_ratio'),
+  /** The camera view (LivePrediction `camera`), null when the profile has none. */
+  camera: jsonb('camera').$type<LivePrediction['camera']>(),
 });
 
 /** Append-only trail of every change and operator action; a trigger refuses UPDATE and DELETE. */
@@ -515,6 +546,7 @@ export const schema = {
   fastBatches,
   slowSamples,
   rollups1s,
+  predictionSamples,
   auditLog,
   securityEvents,
   alarmLimits,

@@ -24,6 +24,7 @@ export const API_ROUTES = [
   { id: 'auth.password', method: 'post', path: '/api/auth/password', minRole: 'viewer', summary: 'Change one\'s own password: { currentPassword, newPassword } → { token, user }' },
   { id: 'live', method: 'get', path: '/api/live', minRole: 'viewer', summary: 'Latest state of the apparatus' },
   { id: 'series', method: 'get', path: '/api/series', minRole: 'viewer', summary: 'Chart points of the last N seconds (?seconds=N)' },
+  { id: 'history', method: 'get', path: '/api/history', minRole: 'viewer', summary: 'Stored series, predictions and records of a window (?from=ISO&to=ISO or ?run=ID, &points=N, &format=csv)' },
   { id: 'channels', method: 'get', path: '/api/channels', minRole: 'viewer', summary: 'Display bands of the live channels, from the level set and alarm limits in force' },
   { id: 'levels.get', method: 'get', path: '/api/levels', minRole: 'viewer', summary: 'The level set in force: display bands, trip levels, operating settings' },
   { id: 'levels.history', method: 'get', path: '/api/levels/history', minRole: 'viewer', summary: 'Stored versions of the level set, newest first' },
