@@ -40,7 +40,7 @@ export function predictedValues(prediction: LivePrediction | null): [number, num
  * each value stands until the next one; sampling it keeps the chart's line unbroken where
  * the field simply stayed put.
  */
-export function resampleHistory(history: PredictionHistory, spacingMs: number, untilMs: number): PredictedPoint[] {
+export function resampleHistory(history: Pick<PredictionHistory, 't' | 'fermiSurfaceAspect' | 'tofAspect'>, spacingMs: number, untilMs: number): PredictedPoint[] {
   const points: PredictedPoint[] = [];
   const n = history.t.length;
   if (n === 0 || !(spacingMs > 0)) return points;
