@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { PlaybackClock, SPEEDS } from './playback-clock';
+import { PlaybackClock, SPEEDS, seekTargetForKey } from './playback-clock';
 
 const FROM = 1_000_000;
 const TO = FROM + 600_000; // a 10-minute window
@@ -65,5 +65,17 @@ describe('PlaybackClock', () => {
 
   it('refuses a speed that is not positive', () => {
     expect(() => new PlaybackClock(FROM, TO).setSpeed(0, 0)).toThrow(/positive/);
+  });
+});
+
+describe('seekTargetForKey', () => {
+  it('steps 1 % with the arrows, 10 % with Page Up/Down, to the ends with Home/End, within the window', () => {
+    expect(seekTargetForKey('ArrowRight', FROM + 60_000, FROM, TO)).toBe(FROM + 66_000);
+    expect(seekTargetForKey('ArrowLeft', FROM + 60_000, FROM, TO)).toBe(FROM + 54_000);
+    expect(seekTargetForKey('PageDown', FROM + 60_000, FROM, TO)).toBe(FROM);
+    expect(seekTargetForKey('PageUp', TO - 1000, FROM, TO)).toBe(TO);
+    expect(seekTargetForKey('Home', FROM + 60_000, FROM, TO)).toBe(FROM);
+    expect(seekTargetForKey('End', FROM + 60_000, FROM, TO)).toBe(TO);
+    expect(seekTargetForKey('x', FROM + 60_000, FROM, TO)).toBeNull();
   });
 });

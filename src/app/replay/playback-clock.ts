@@ -70,3 +70,26 @@ export class PlaybackClock {
     this.rate = speed;
   }
 }
+
+/** Share of the window one arrow key press moves, and one Page Up/Down press. */
+const STEP_SHARE = 0.01;
+const PAGE_SHARE = 0.1;
+
+/**
+ * Where a seeking key takes the clock: arrows 1 % of the window, Page Up/Down 10 %, Home and
+ * End its ends (clamped to the window); null for any other key.
+ */
+export function seekTargetForKey(key: string, positionMs: number, fromMs: number, toMs: number): number | null {
+  const span = toMs - fromMs;
+  const targets: Record<string, number> = {
+    ArrowLeft: positionMs - STEP_SHARE * span,
+    ArrowDown: positionMs - STEP_SHARE * span,
+    ArrowRight: positionMs + STEP_SHARE * span,
+    ArrowUp: positionMs + STEP_SHARE * span,
+    PageDown: positionMs - PAGE_SHARE * span,
+    PageUp: positionMs + PAGE_SHARE * span,
+    Home: fromMs,
+    End: toMs,
+  };
+  return key in targets ? Math.min(toMs, Math.max(fromMs, targets[key])) : null;
+}

@@ -98,6 +98,10 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
     host.querySelector<HTMLElement>('.charts')!.dispatchEvent(new KeyboardEvent('keydown', { key: ' ', bubbles: true }));
     await fixture.whenStable();
     expect(text('button.play')).toContain('Play');
+    const paused = clockMs();
+    host.querySelector<HTMLElement>('.charts')!.dispatchEvent(new KeyboardEvent('keydown', { key: 'ArrowRight', bubbles: true }));
+    await fixture.whenStable();
+    expect(clockMs()).toBe(paused + 600); // 1 % of the window, from anywhere on the page
   });
 
   it('shows the prediction as it was shown live at the moment, camera view included', async () => {

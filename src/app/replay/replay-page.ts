@@ -18,7 +18,7 @@ import { FieldPanel } from '../live/field-panel';
 import { PredictionPanel } from '../prediction/prediction-panel';
 import { ActiveProfile } from '../profiles/active-profile';
 import { formatLocalDateTime, formatLocalTime } from '../readout/format-quantity';
-import { SPEEDS } from './playback-clock';
+import { SPEEDS, seekTargetForKey } from './playback-clock';
 import { holdMs } from './replay-data';
 import { ReplayPlayer } from './replay-player';
 import { ReplayPresence } from './replay-presence';
@@ -121,13 +121,23 @@ export class ReplayPage {
     await this.player.load({ runId });
   }
 
-  /** Space plays or pauses anywhere on the page except where space types or presses something. */
+  /**
+   * Space plays or pauses and the left and right arrows step anywhere on the page, except where
+   * those keys type, choose or press something.
+   */
   protected onKey(event: KeyboardEvent): void {
-    if (event.key !== ' ' || event.defaultPrevented || !this.data()) return;
+    const data = this.data();
+    if (!data || event.defaultPrevented || !(event.key === ' ' || event.key === 'ArrowLeft' || event.key === 'ArrowRight')) return;
     const target = event.target as HTMLElement | null;
-    if (target?.closest('input, textarea, select, button, a, [role="slider"], [role="combobox"], [role="listbox"], mat-button-toggle')) return;
+    if (target?.closest('input, textarea, select, a, [role="slider"], [role="radio"], [role="combobox"], [role="listbox"], mat-button-toggle')) return;
+    if (event.key === ' ') {
+      if (target?.closest('button')) return;
+      event.preventDefault();
+      this.player.toggle();
+      return;
+    }
     event.preventDefault();
-    this.player.toggle();
+    this.player.seek(seekTargetForKey(event.key, this.player.positionMs(), data.fromMs, data.toMs) ?? this.player.positionMs());
   }
 }
 

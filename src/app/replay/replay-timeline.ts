@@ -1,11 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import { formatLocalTime } from '../readout/format-quantity';
+import { seekTargetForKey } from './playback-clock';
 import { MARK_LOOK, type TimelineMark } from './timeline-marks';
-
-/** Share of the window one arrow key press moves, and one Page Up/Down press. */
-const STEP_SHARE = 0.01;
-const PAGE_SHARE = 0.1;
 
 /**
  * The replay's timeline: a track over the loaded window with the replay clock's position, the
@@ -54,24 +51,15 @@ export class ReplayTimeline {
   }
 
   protected onKey(event: KeyboardEvent): void {
-    const span = this.toMs() - this.fromMs();
-    const at = this.positionMs();
-    const target: Record<string, number> = {
-      ArrowLeft: at - STEP_SHARE * span,
-      ArrowDown: at - STEP_SHARE * span,
-      ArrowRight: at + STEP_SHARE * span,
-      ArrowUp: at + STEP_SHARE * span,
-      PageDown: at - PAGE_SHARE * span,
-      PageUp: at + PAGE_SHARE * span,
-      Home: this.fromMs(),
-      End: this.toMs(),
-    };
     if (event.key === ' ') {
       event.preventDefault();
       this.togglePlay.emit();
-    } else if (event.key in target) {
+      return;
+    }
+    const target = seekTargetForKey(event.key, this.positionMs(), this.fromMs(), this.toMs());
+    if (target !== null) {
       event.preventDefault();
-      this.seek.emit(Math.min(this.toMs(), Math.max(this.fromMs(), target[event.key])));
+      this.seek.emit(target);
     }
   }
 
