@@ -19,6 +19,8 @@ import { errorText } from '../api/error-text';
   templateUrl: './calibration-upload.html',
   styleUrl: './calibration-upload.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
+  // A file dropped just beside the drop zone must not make the browser open it in place of the app.
+  host: { '(window:dragover)': 'keepFileOutOfWindow($event)', '(window:drop)': 'keepFileOutOfWindow($event)' },
 })
 export class CalibrationUpload {
   private readonly http = inject(HttpClient);
@@ -36,8 +38,19 @@ export class CalibrationUpload {
     this.dragging.set(true);
   }
 
+  /** Leaving the zone for one of its own children is no leaving. */
+  protected dragLeave(event: DragEvent): void {
+    const zone = event.currentTarget as HTMLElement;
+    if (!(event.relatedTarget instanceof Node && zone.contains(event.relatedTarget))) this.dragging.set(false);
+  }
+
+  protected keepFileOutOfWindow(event: DragEvent): void {
+    if (event.dataTransfer?.types.includes('Files')) event.preventDefault();
+  }
+
   protected drop(event: DragEvent): void {
     event.preventDefault();
+    event.stopPropagation();
     this.dragging.set(false);
     this.choose(event.dataTransfer?.files ?? null);
   }

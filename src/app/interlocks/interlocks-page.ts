@@ -9,7 +9,7 @@ import { firstValueFrom } from 'rxjs';
 import type { InterlockCondition, InterlockResetRefusal, InterlockStatus, InterlockTripRecord } from '../../../shared/alarms/alarm-api';
 import { hasRole } from '../../../shared/auth/roles';
 import { quantityText } from '../alarms/channel-text';
-import { MAX_REASON_CHARS } from '../alarms/reason-dialog';
+import { MAX_REASON_CHARS } from '../shared-ui/reason-dialog';
 import { errorText } from '../api/error-text';
 import { Session } from '../auth/session';
 import { LiveFeed } from '../feed/live-feed';
