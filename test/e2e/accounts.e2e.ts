@@ -50,6 +50,15 @@ describe('Accounts in Chromium', () => {
     await page.getByRole('button', { name: /Your account/ }).click();
     await page.getByRole('menuitem', { name: /Change password/ }).click();
     const dialog = page.getByRole('dialog');
+    // A refusal names the field as the dialog labels it, and stands next to that field.
+    await dialog.getByLabel('Current password').fill('not the password at all');
+    await dialog.getByLabel('New password', { exact: true }).fill('operator night pass phrase');
+    await dialog.getByLabel('New password again').fill('operator night pass phrase');
+    await dialog.getByRole('button', { name: 'Change password' }).click();
+    const current = dialog.locator('mat-form-field', { has: page.getByLabel('Current password') });
+    await expect.poll(() => current.innerText()).toMatch(/Current password: is not your current password/);
+    expect(await dialog.innerText()).not.toMatch(/currentPassword/);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'change-password-refused.png') });
     await dialog.getByLabel('Current password').fill(DEMO_PASSWORD);
     await dialog.getByLabel('New password', { exact: true }).fill('operator night pass phrase');
     await dialog.getByLabel('New password again').fill('operator night pass phrase');
