@@ -12,8 +12,10 @@ import { LoginUseCase } from './auth/login.js';
 import { TokenIssuer } from './auth/tokens.js';
 import { SecurityLog } from './auth/security-log.js';
 import { DEFAULT_THROTTLE_RULES, SignInThrottle } from './auth/sign-in-throttle.js';
+import { SignInThrottleStore } from './auth/sign-in-throttle-store.js';
 import { hasEnabledAdmin, seedDemoAccounts } from './auth/users-repository.js';
 import { calibrationHandlers } from './calibration/calibration-routes.js';
+import { shotHandlers } from './shots/shot-routes.js';
 import { seedDemoCalibration } from './calibration/calibration-repository.js';
 import type { ServerConfig } from './config.js';
 import { lockDataFolder } from './data-folder/data-folder-lock.js';
@@ -45,9 +47,11 @@ import { seedDemoProfile } from './profiles/profile-repository.js';
 import { profileHandlers } from './profiles/profile-routes.js';
 import { projectRoot } from './project-root.js';
 import { seriesHandlers } from './series/series-routes.js';
+import { historyHandlers } from './history/history-routes.js';
 import { RollupAccumulator } from './storage/rollup-accumulator.js';
 import { startSteering } from './steering/start-steering.js';
 import { TelemetryWriter } from './storage/telemetry-writer.js';
+import { listenForAccountChanges } from './users/account-change-listener.js';
 import { AccountEvents } from './users/account-events.js';
 import { UserAccounts } from './users/user-accounts.js';
 import { userHandlers } from './users/user-routes.js';
@@ -182,13 +186,28 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
 
     const access = new AccessControl(db, tokens, demo);
     const accountEvents = new AccountEvents();
+    if (config.databaseUrl !== null) {
+      // Changes by the `users` command in another process are heard at once (the minute's re-check stays as fallback).
+      const listener = listenForAccountChanges(config.databaseUrl, accountEvents, log);
+      closers.push(() => listener.close());
+      await listener.ready;
+    }
     const accounts = new UserAccounts(db, accountEvents, demo);
     const security = new SecurityLog(db, log);
     closers.push(() => security.drain());
-    const throttle = new SignInThrottle({ ...DEFAULT_THROTTLE_RULES, addressFailures: config.loginAttemptsPerMinute }, (event) => {
-      const { kind, ...detail } = event;
-      security.record({ kind, email: 'email' in event ? event.email : null, address: event.address, detail });
-    });
+    const throttleRules = { ...DEFAULT_THROTTLE_RULES, addressFailures: config.loginAttemptsPerMinute };
+    const throttleStore = new SignInThrottleStore(db, log);
+    closers.push(() => throttleStore.drain());
+    const throttle = new SignInThrottle(
+      throttleRules,
+      (event) => {
+        const { kind, ...detail } = event;
+        security.record({ kind, email: 'email' in event ? event.email : null, address: event.address, detail });
+      },
+      Date.now,
+      (change) => throttleStore.save(change),
+    );
+    throttle.restore(await throttleStore.load(throttleRules, Date.now()));
     const live = new LiveStore();
     const httpServer = createServer();
     const fanout = new LiveFanout(httpServer, access, live, log, opts.fanout, accountEvents);
@@ -202,7 +221,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     // field that orients the dipoles, below which the prediction is shown as not applying.
     const levels = await LevelStore.load(db);
     const minOrientingField = () => levels.inForce().levels.settings.minOrientingFieldG;
-    const prediction = new LivePredictionFeed({ engine, live, history, fanout, staleMs: config.staleTripMs, minOrientingFieldG: minOrientingField() });
+    const prediction = new LivePredictionFeed({ engine, live, history, store: writer, fanout, staleMs: config.staleTripMs, minOrientingFieldG: minOrientingField() });
     closers.push(() => prediction.close());
     levels.onChange(() => prediction.setMinOrientingField(minOrientingField()));
     const profiles = new ActiveProfileLoader(db, prediction);
@@ -240,12 +259,14 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
       const frames = { ...gate.counters(), deliveryErrors: ingest.deliveryErrors() };
       const storage = writer.counters();
       const databaseHealth = database.health?.report() ?? null;
+      const records = supervision.records();
       const problems = healthProblems({
         nowMs: Date.now(),
         frames,
         lastRejectedAtMs: gate.lastRejectedAtMs(),
         lastDeliveryErrorAtMs: ingest.lastDeliveryErrorAtMs(),
         storage,
+        supervision: records,
         database: databaseHealth,
       });
       return {
@@ -260,6 +281,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         mqttConnected: ingest.connected(),
         fanout: fanoutCounters,
         storage,
+        supervision: records,
         eventLoop: eventLoop.report(),
       };
     };
@@ -270,11 +292,13 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...userHandlers({ db, accounts, throttle, security }),
         ...liveHandlers(live),
         ...seriesHandlers(calibrations, writer),
+        ...historyHandlers({ db, writer, calibrations, retention: config.retention }),
         ...calibrationHandlers(db, async () => void (await calibrations.reload())),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),
         ...supervision.handlers,
         ...steering.handlers,
+        ...shotHandlers({ db }),
         ...logbookHandlers({ db, targets: { db, alarmIds: () => supervision.book.limits().map((l) => l.id) } }),
         ...handoverHandlers({
           workflow: new HandoverWorkflow({ db, live, book: supervision.book, interlock: supervision.interlock, flush: () => supervision.flushRecords() }),

@@ -35,26 +35,30 @@ export function alarmLimitHandlers(db: Db, book: AlarmBook, levels: LevelStore, 
     },
     'alarm-limits.update': async (req, res) => {
       const id = String(req.params['id']);
-      const previous = book.limits().find((l) => l.id === id);
-      if (!previous) throw new HttpError(404, `no alarm limit with id "${id}"; GET /api/alarm-limits lists them`);
+      if (!book.limits().some((l) => l.id === id)) throw new HttpError(404, `no alarm limit with id "${id}"; GET /api/alarm-limits lists them`);
       const { reason, changes } = parseEdit(req.body);
-      const next = applyEdit(previous, changes);
-      const problem = alarmLimitProblem(book.limits().map((l) => (l.id === id ? next : l)), next, levels.inForce().levels.trips);
-      if (problem) throw new HttpError(400, problem.message, problem.field);
-      try {
-        book.updateLimit(next);
-      } catch (error) {
-        throw httpErrorOf(error);
-      }
       const actor = actorOf(req);
-      try {
-        await saveAlarmLimit(db, next, previous, actor, reason);
-      } catch (error) {
-        book.updateLimit(previous);
-        throw error;
-      }
+      const edited = await levels.exclusive(async () => {
+        // Read inside the edit: another edit of this limit may have been stored meanwhile.
+        const previous = book.limits().find((l) => l.id === id)!;
+        const next = applyEdit(previous, changes);
+        const problem = alarmLimitProblem(book.limits().map((l) => (l.id === id ? next : l)), next, levels.inForce().levels.trips);
+        if (problem) throw new HttpError(400, problem.message, problem.field);
+        try {
+          book.updateLimit(next);
+        } catch (error) {
+          throw httpErrorOf(error);
+        }
+        try {
+          await saveAlarmLimit(db, next, previous, actor, reason);
+        } catch (error) {
+          book.updateLimit(previous);
+          throw error;
+        }
+        return { limit: next, previous };
+      });
       changed();
-      res.json({ limit: next, previous });
+      res.json(edited);
     },
   };
 }

@@ -6,7 +6,11 @@ import type { AlarmMemory } from './alarm-state.js';
 
 type Writer = Pick<Db, 'insert'>;
 
-/** Writes the states given (one row per alarm, replaced); pass a transaction to join a larger write. */
+/**
+ * Writes the states given as they were at `atMs` (one row per alarm, replaced unless the row
+ * holds a newer state: a journaled batch written late never undoes a later action); pass a
+ * transaction to join a larger write.
+ */
 export async function upsertAlarmStates(db: Writer, states: ReadonlyMap<string, AlarmMemory>, atMs: number): Promise<void> {
   if (states.size === 0) return;
   await db
@@ -15,6 +19,7 @@ export async function upsertAlarmStates(db: Writer, states: ReadonlyMap<string, 
     .onConflictDoUpdate({
       target: alarmStates.alarmId,
       set: { memory: sql`excluded.memory`, updatedAtMs: sql`excluded.updated_at_ms` },
+      setWhere: sql`${alarmStates.updatedAtMs} <= excluded.updated_at_ms`,
     });
 }
 

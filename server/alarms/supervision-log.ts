@@ -1,71 +1,84 @@
 /**
  * The writer of what alarms and the interlock produce, in two ways:
  *
- * * Records of actions — operator actions on alarms, trips, interlock resets — are written at
- *   once, each in its own transaction with its audit entry (`recordAlarmAction`, `recordTrip`,
+ * * Records of actions by people — operator actions on alarms, interlock resets — are written
+ *   at once, each in its own transaction with its audit entry (`recordAlarmAction`,
  *   `recordReset`). The caller reports an action done, or lets it take effect, only once its
  *   promise has resolved; when it rejects, nothing was stored.
- * * Alarm transitions found by evaluation (raise, clear, shelf expiry) are queued and written
- *   in one transaction every `flushMs`, with the states of the alarms they changed, so a slow
- *   database never delays evaluation or a trip command.
+ * * Supervision records — trips and the alarm transitions found by evaluation (raise, clear,
+ *   shelf expiry) — go first into the journal in the data folder (`SupervisionJournal`,
+ *   fsynced before the call returns, never waiting for the database), then into the database,
+ *   each record in its own transaction: a trip at once, transitions at most `flushMs` later.
+ *   While the database refuses them they stay in the journal and are written again with a
+ *   growing pause (and at the next start, before anything is read back), in order, once each.
  *
  * Every write runs after the ones before it, in order; none shares a transaction with telemetry.
  */
 import { appendAuditEntries, appendAudit, type AuditEntry } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
+import { supervisionRecordsApplied } from '../db/schema.js';
+import { writeFailureText } from '../db/write-failure.js';
 import type { ResetRecord, TripRecord } from '../interlock/interlock.js';
 import { insertTrips, recordTripReset } from '../interlock/trip-repository.js';
 import { insertAlarmEvents } from './alarm-event-repository.js';
 import { upsertAlarmStates } from './alarm-state-repository.js';
 import type { AlarmEvent, AlarmMemory } from './alarm-state.js';
+import type { JournalCounters, SupervisionJournal, SupervisionRecord } from './supervision-journal.js';
 
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 
 export interface SupervisionLogOptions {
-  /** Longest wait before queued transitions are written, ms (default 250). */
+  /** Where supervision records wait until the database has them. */
+  journal: SupervisionJournal;
+  /** Longest wait before journaled transitions are written, ms (default 250). */
   flushMs?: number;
-  /** Transitions waiting beyond this are dropped oldest first, reported to `onError` (default 10 000). */
-  maxQueue?: number;
-  /** Pause before a trip whose record failed is written again, ms (default 1000). */
+  /** First pause before records the database refused are written again, ms (default 500; doubles up to 5 s). */
   retryMs?: number;
   /** The present states of the alarms named, to store with their transitions. */
   statesOf: (ids: ReadonlySet<string>) => Map<string, AlarmMemory>;
-  /** Called with each failed write and each drop. */
+  /** Called with each failed write and each record refused by a full journal. */
   onError: (error: unknown) => void;
   /** Server clock, Unix epoch ms (default `Date.now`). */
   now?: () => number;
 }
 
+/** The supervision records on `/api/health` (under `supervision`). */
+export interface SupervisionCounters extends JournalCounters {
+  /** Since when the database has refused the journaled records (ISO 8601); null while they are written. */
+  failingSince: string | null;
+  /** The newest reason the database gave; null while records are written. */
+  lastError: string | null;
+}
+
+const MAX_RETRY_MS = 5000;
+
 export class SupervisionLog {
-  private events: AlarmEvent[] = [];
   private timer: NodeJS.Timeout | null = null;
   private retryTimer: NodeJS.Timeout | null = null;
-  /** Trips whose record could not be written yet; retried until stored. */
-  private unstoredTrips: TripRecord[] = [];
+  private retryDelayMs: number;
+  private failure: { sinceMs: number; error: unknown } | null = null;
   private writing: Promise<unknown> = Promise.resolve();
   private closed = false;
+  private readonly journal: SupervisionJournal;
   private readonly flushMs: number;
-  private readonly maxQueue: number;
   private readonly now: () => number;
 
   constructor(
     private readonly db: Db,
     private readonly options: SupervisionLogOptions,
   ) {
+    this.journal = options.journal;
     this.flushMs = options.flushMs ?? 250;
-    this.maxQueue = options.maxQueue ?? 10_000;
+    this.retryDelayMs = options.retryMs ?? 500;
     this.now = options.now ?? Date.now;
   }
 
-  /** Queues transitions found by evaluation; those with an actor also go to the audit trail. */
+  /** Journals transitions found by evaluation with the states they left; the database gets them within `flushMs`. */
   addAlarmEvents(events: readonly AlarmEvent[]): void {
     if (this.closed || events.length === 0) return;
-    this.events.push(...events);
-    const excess = this.events.length - this.maxQueue;
-    if (excess > 0) {
-      this.events.splice(0, excess);
-      this.options.onError(new Error(`${excess} alarm events dropped: the database has not kept up with ${this.maxQueue} queued events`));
-    }
+    const states = this.options.statesOf(new Set(events.map((e) => e.alarmId)));
+    const stored = this.journal.append({ kind: 'alarm-events', atMs: this.now(), events: [...events], states: [...states] });
+    if (!stored) this.options.onError(new Error(`${events.length} alarm transitions not recorded: the supervision journal is full`));
     this.schedule();
   }
 
@@ -79,18 +92,16 @@ export class SupervisionLog {
   }
 
   /**
-   * Stores a trip and its audit entry (actor `system`). When the write fails the promise
-   * rejects, and the trip is written again every `retryMs` until it is stored: the latch it
-   * records is in force whether or not the database answers.
+   * Journals a trip and writes it with its audit entry (actor `system`). Resolves once the
+   * database has it; when the write fails the promise rejects, and the trip stays in the journal
+   * and is written again until stored: the latch it records is in force whether or not the
+   * database answers.
    */
   async recordTrip(trip: TripRecord): Promise<void> {
-    try {
-      await this.transaction((tx) => writeTrip(tx, trip));
-    } catch (error) {
-      this.unstoredTrips.push(trip);
-      this.scheduleRetry();
-      throw error;
-    }
+    const record = this.journal.append({ kind: 'trip', trip })!;
+    if (this.closed) throw new Error('the server is shutting down; the trip waits in the journal for the next start');
+    await this.flush();
+    if (this.journal.pending().some((r) => r.id === record.id)) throw this.failure?.error ?? new Error('the trip was not written');
   }
 
   /** Stores a reset on its trip's row, with its audit entry, in one transaction. */
@@ -98,29 +109,42 @@ export class SupervisionLog {
     return this.transaction((tx) => recordTripReset(tx, reset));
   }
 
-  /** Writes everything queued so far; resolves once it is stored (or the write failed, reported). */
+  /**
+   * Writes every journaled record; resolves once done (what the database refused stays
+   * journaled, reported). While the database refuses them and a retry is due, readers that
+   * flush before reading back do not try again each time: the retry does.
+   */
   flush(): Promise<void> {
     if (this.timer) clearTimeout(this.timer);
     this.timer = null;
-    const done = this.writing.then(() => this.writeQueued());
+    const done = this.writing.then(() => (this.retryTimer ? undefined : this.writeJournaled()));
     this.writing = done;
     return done;
   }
 
-  /** Writes what is queued and stops; later records are ignored. */
+  counters(): SupervisionCounters {
+    return {
+      ...this.journal.counters(),
+      failingSince: this.failure ? new Date(this.failure.sinceMs).toISOString() : null,
+      lastError: this.failure ? writeFailureText(this.failure.error) : null,
+    };
+  }
+
+  /** Writes what is journaled and stops; what the database still refuses waits in the journal for the next start. */
   async close(): Promise<void> {
     this.closed = true;
     if (this.retryTimer) clearTimeout(this.retryTimer);
     this.retryTimer = null;
     await this.flush();
+    this.journal.close();
   }
 
-  /** Runs `write` in its own transaction after every write before it (queued transitions first). */
+  /** Runs `write` in its own transaction after every write before it (journaled records first). */
   private transaction(write: (tx: Tx) => Promise<void>): Promise<void> {
     if (this.closed) return Promise.reject(new Error('the server is shutting down; nothing was recorded'));
     if (this.timer) clearTimeout(this.timer);
     this.timer = null;
-    const done = this.writing.then(() => this.writeQueued()).then(() => this.db.transaction(write));
+    const done = this.writing.then(() => this.writeJournaled()).then(() => this.db.transaction(write));
     this.writing = done.catch(() => undefined);
     return done;
   }
@@ -130,31 +154,46 @@ export class SupervisionLog {
     this.timer = setTimeout(() => void this.flush(), this.flushMs);
   }
 
+  /** Writes the journaled records in order, each once; stops at the first the database refuses and tries again later. */
+  private async writeJournaled(): Promise<void> {
+    for (const record of [...this.journal.pending()]) {
+      try {
+        await this.db.transaction((tx) => writeRecord(tx, record, this.now()));
+      } catch (error) {
+        this.failure = { sinceMs: this.failure?.sinceMs ?? this.now(), error };
+        this.options.onError(error);
+        this.scheduleRetry();
+        return;
+      }
+      this.journal.written(record.id);
+    }
+    this.failure = null;
+    this.retryDelayMs = this.options.retryMs ?? 500;
+  }
+
   private scheduleRetry(): void {
     if (this.closed || this.retryTimer) return;
     this.retryTimer = setTimeout(() => {
       this.retryTimer = null;
-      const trips = this.unstoredTrips;
-      this.unstoredTrips = [];
-      for (const trip of trips) this.recordTrip(trip).catch((error) => this.options.onError(error));
-    }, this.options.retryMs ?? 1000);
+      void this.flush();
+    }, this.retryDelayMs);
+    this.retryTimer.unref();
+    this.retryDelayMs = Math.min(MAX_RETRY_MS, this.retryDelayMs * 2);
   }
+}
 
-  private async writeQueued(): Promise<void> {
-    const events = this.events;
-    if (events.length === 0) return;
-    this.events = [];
-    try {
-      const states = this.options.statesOf(new Set(events.map((e) => e.alarmId)));
-      await this.db.transaction(async (tx) => {
-        await insertAlarmEvents(tx, events);
-        await appendAuditEntries(tx, auditOfEvents(events));
-        await upsertAlarmStates(tx, states, this.now());
-      });
-    } catch (error) {
-      this.options.onError(error);
-    }
-  }
+/** Writes one journaled record with its id; a record whose id is on record already is skipped. */
+async function writeRecord(tx: Tx, record: SupervisionRecord, nowMs: number): Promise<void> {
+  const [fresh] = await tx
+    .insert(supervisionRecordsApplied)
+    .values({ id: record.id, appliedAtMs: nowMs })
+    .onConflictDoNothing()
+    .returning({ id: supervisionRecordsApplied.id });
+  if (!fresh) return;
+  if (record.kind === 'trip') return writeTrip(tx, record.trip);
+  await insertAlarmEvents(tx, record.events);
+  await appendAuditEntries(tx, auditOfEvents(record.events));
+  await upsertAlarmStates(tx, new Map(record.states), record.atMs);
 }
 
 async function writeTrip(tx: Tx, trip: TripRecord): Promise<void> {

@@ -33,8 +33,8 @@ declare global {
  * Who may do what: Bearer-token sign-in (passport-jwt) for the HTTP API and the same check
  * for the WebSocket. The role comes from the database, not from the token, so a changed role
  * or a removed account takes effect at the next request; a token is refused once its account is
- * disabled or removed, or its token version (`tv`) is below the account's (raised by a role or
- * password change and by disabling).
+ * disabled or removed, or its token version (`tv`) is below the account's (raised by a
+ * password change and by disabling; a role change keeps the tokens and applies at once).
  */
 export class AccessControl {
   private readonly passport = new Passport();

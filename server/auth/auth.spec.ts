@@ -29,6 +29,7 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   'auth.password': { body: { currentPassword: TEST_PASSWORD, newPassword: TEST_PASSWORD }, allowedStatus: 400 },
   live: {},
   series: { query: '?seconds=60' },
+  history: { query: '?from=2026-01-01T00:00:00Z&to=2026-01-01T00:01:00Z' },
   channels: {},
   'levels.get': {},
   'levels.history': {},
@@ -92,6 +93,9 @@ const VALID_REQUEST: Record<RouteId, { path?: string | ((caller: Caller) => stri
   'runs.list': {},
   'runs.get': { path: '/api/runs/999', allowedStatus: 404 },
   'runs.abort': { path: '/api/runs/999/abort', body: { reason: 'route access check' }, allowedStatus: 404 },
+  'shots.list': { query: '?from=2026-01-01T00:00:00Z&to=2026-01-02T00:00:00Z' },
+  // A JSON request carries no file: the role check passes, then 400.
+  'shots.measurements': { body: { file: 'not a file' }, allowedStatus: 400 },
 };
 
 describe('sign-in and roles', () => {

@@ -30,11 +30,16 @@ export type ThrottleEvent =
 
 export type ThrottleVerdict = { allowed: true } | { allowed: false; scope: 'account' | 'address'; retryAfterMs: number };
 
-interface AccountState {
+export interface AccountState {
   failures: number;
   lastFailureAt: number;
   nextAttemptAt: number;
 }
+
+/** A throttle entry as it changed (null: gone), for the store that keeps it over a restart. */
+export type ThrottleChange =
+  | { scope: 'account'; key: string; state: AccountState | null }
+  | { scope: 'address'; key: string; state: number[] | null };
 
 /** Entries kept per map before the oldest are dropped, so spraying cannot grow memory without bound. */
 const MAX_ENTRIES = 10_000;
@@ -45,8 +50,10 @@ const MAX_ENTRIES = 10_000;
  * 4 s … at most 30 s), and a success or an admin's lift clears it. Per client address, across
  * accounts: more than `addressFailures` failures in a window refuse further attempts from that
  * address until the window has room again. Attempts refused here are never checked against the
- * password. Both throttles are reported as events for the security log. In memory: a restart
- * forgets them, which only shortens a delay.
+ * password. Both throttles are reported as events for the security log. Decisions are made from
+ * memory, never waiting for storage; every change is handed to `store` (the
+ * `sign_in_throttles` table) and `restore` takes the stored entries back at start, so a restart
+ * does not wipe a growing delay.
  */
 export class SignInThrottle {
   private readonly accounts = new Map<string, AccountState>();
@@ -56,7 +63,16 @@ export class SignInThrottle {
     private readonly rules: ThrottleRules,
     private readonly report: (event: ThrottleEvent) => void,
     private readonly now: () => number = Date.now,
+    private readonly store: (change: ThrottleChange) => void = () => undefined,
   ) {}
+
+  /** Takes back entries stored before a restart (those already forgotten are skipped on first use). */
+  restore(entries: readonly ThrottleChange[]): void {
+    for (const entry of entries) {
+      if (entry.scope === 'account' && entry.state) remember(this.accounts, entry.key, entry.state);
+      if (entry.scope === 'address' && entry.state) remember(this.addresses, entry.key, entry.state);
+    }
+  }
 
   /** Whether an attempt for `email` from `address` may be checked now. */
   check(email: string, address: string): ThrottleVerdict {
@@ -79,25 +95,27 @@ export class SignInThrottle {
     const delayMs = beyond > 0 ? Math.min(this.rules.maxDelayMs, this.rules.firstDelayMs * 2 ** (beyond - 1)) : 0;
     account.nextAttemptAt = t + delayMs;
     remember(this.accounts, email, account);
+    this.store({ scope: 'account', key: email, state: account });
     if (delayMs > 0) this.report({ kind: 'sign-in.account-delayed', email, address, failures: account.failures, delayMs });
 
     const recent = this.recentFailures(address, t);
     recent.push(t);
     remember(this.addresses, address, recent);
+    this.store({ scope: 'address', key: address, state: recent });
     if (recent.length === this.rules.addressFailures) {
       this.report({ kind: 'sign-in.address-throttled', address, failures: recent.length, windowMs: this.rules.addressWindowMs });
     }
   }
 
   succeeded(email: string): void {
-    this.accounts.delete(email);
+    this.forgetAccount(email);
   }
 
   /** Lifts the throttle of an account (e-mail) or a client address; true when there was one. */
   lift(key: { email?: string; address?: string }): boolean {
     let lifted = false;
-    if (key.email !== undefined) lifted = this.accounts.delete(key.email) || lifted;
-    if (key.address !== undefined) lifted = this.addresses.delete(key.address) || lifted;
+    if (key.email !== undefined) lifted = this.forgetAccount(key.email) || lifted;
+    if (key.address !== undefined) lifted = this.forgetAddress(key.address) || lifted;
     return lifted;
   }
 
@@ -124,10 +142,22 @@ export class SignInThrottle {
   private account(email: string, t: number): AccountState | undefined {
     const state = this.accounts.get(email);
     if (state && t - state.lastFailureAt > this.rules.forgetAfterMs) {
-      this.accounts.delete(email);
+      this.forgetAccount(email);
       return undefined;
     }
     return state;
+  }
+
+  private forgetAccount(email: string): boolean {
+    if (!this.accounts.delete(email)) return false;
+    this.store({ scope: 'account', key: email, state: null });
+    return true;
+  }
+
+  private forgetAddress(address: string): boolean {
+    if (!this.addresses.delete(address)) return false;
+    this.store({ scope: 'address', key: address, state: null });
+    return true;
   }
 
   /** Failure times of `address` inside the window ending at `t`, oldest first. */
@@ -135,7 +165,7 @@ export class SignInThrottle {
     const times = this.addresses.get(address);
     if (!times) return [];
     const recent = times.filter((at) => t - at < this.rules.addressWindowMs);
-    if (recent.length === 0) this.addresses.delete(address);
+    if (recent.length === 0) this.forgetAddress(address);
     else this.addresses.set(address, recent);
     return recent;
   }

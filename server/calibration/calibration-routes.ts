@@ -1,5 +1,4 @@
-import type { Request, RequestHandler } from 'express';
-import multer from 'multer';
+import type { Request } from 'express';
 import { z } from 'zod';
 import type { CalibrationFitResponse } from '../../shared/field/calibration-record.js';
 import type { Db } from '../db/database.js';
@@ -7,6 +6,7 @@ import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { labelled } from '../http/field-labels.js';
 import { queryNumber, reasonText } from '../http/fields.js';
+import { receiveSingleFile, safeFileName } from '../http/single-file-upload.js';
 import { parseInput } from '../http/validate.js';
 import { approveCalibration, findActiveCalibration, findCalibrationDetail, listCalibrations, saveDraft } from './calibration-repository.js';
 import { parseCalibrationCsv } from './fit/calibration-csv.js';
@@ -37,25 +37,6 @@ function formCoefficient(body: unknown): number | undefined {
   return Number(text);
 }
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_CALIBRATION_FILE_BYTES, files: 1, fields: 4, fieldSize: 1000, parts: 6 } });
-
-/** multer for the one `file` field, its refusals turned into 400s that say what to fix. */
-const receiveFile: RequestHandler = (req, res, next) => {
-  upload.single('file')(req, res, (error: unknown) => {
-    if (!error) return next();
-    if (error instanceof multer.MulterError) {
-      const message =
-        error.code === 'LIMIT_FILE_SIZE'
-          ? `Calibration file: larger than ${MAX_CALIBRATION_FILE_BYTES / 1024 / 1024} MB`
-          : error.code === 'LIMIT_UNEXPECTED_FILE'
-            ? `Calibration file: send one file in the form field "file" (got "${error.field ?? ''}")`
-            : `Calibration upload refused: ${error.message}`;
-      return next(new HttpError(400, message));
-    }
-    return next(new HttpError(400, `Calibration upload is not a readable multipart form: ${(error as Error).message}`));
-  });
-};
-
 /**
  * Calibration routes: list (`{ calibrations }`, oldest first), active, one version with its
  * residuals, a fit upload (lead; multipart `file`, optional `mhzPerGauss`) stored as a draft,
@@ -82,7 +63,7 @@ export function calibrationHandlers(
       res.json(detail);
     },
     'calibrations.fit': [
-      receiveFile,
+      receiveSingleFile('Calibration file', MAX_CALIBRATION_FILE_BYTES),
       async (req, res) => {
         const mhzPerGauss = formCoefficient(req.body);
         const file = req.file;
@@ -98,7 +79,7 @@ export function calibrationHandlers(
           if (error instanceof CalibrationInputError) throw new HttpError(400, `Calibration file: ${error.message}`);
           throw error;
         }
-        const detail = await saveDraft(db, { fit, sourceName: safeName(file.originalname), mhzPerGauss: mhzPerGauss ?? null, actor: actor(req) });
+        const detail = await saveDraft(db, { fit, sourceName: safeFileName(file.originalname), mhzPerGauss: mhzPerGauss ?? null, actor: actor(req) });
         const body: CalibrationFitResponse = { id: detail.id, state: 'draft', fit: fit.report, calibration: detail };
         res.status(201).json(body);
       },
@@ -113,12 +94,6 @@ export function calibrationHandlers(
       res.json(outcome.record);
     },
   };
-}
-
-/** The uploaded file's name as stored: printable, at most 120 characters. */
-function safeName(name: string): string {
-  const clean = name.replace(/[\u0000-\u001f\u007f]|[\ud800-\udfff]/g, '').trim();
-  return (clean || 'upload.csv').slice(0, 120);
 }
 
 function actor(req: Request): string {

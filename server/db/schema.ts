@@ -21,6 +21,7 @@ import {
   integer,
   jsonb,
   pgTable,
+  primaryKey,
   real,
   serial,
   smallint,
@@ -35,6 +36,7 @@ import type { HandoverItem, HandoverNotes, HandoverRecord, HandoverStatus } from
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
 import type { CalibrationFitReport, CalibrationKind, CalibrationState, FitPoint } from '../../shared/field/calibration-record.js';
+import type { LivePrediction } from '../../shared/live/live-state.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
@@ -231,6 +233,36 @@ export const rollups1s = pgTable('rollups_1s', {
   flowYMin: real('flow_y_min'),
   flowZMean: real('flow_z_mean'),
   flowZMin: real('flow_z_min'),
+  /**
+   * Mean one-standard-deviation σ|B| (G), σθ, σφ (degrees) over the second's fast frames, from
+   * the covariance of the calibration each frame was read with; null without a covariance.
+   */
+  sigmaBMagMean: real('sigma_b_mag_mean'),
+  sigmaThetaMean: real('sigma_theta_mean'),
+  sigmaPhiMean: real('sigma_phi_mean'),
+});
+
+/**
+ * Live predictions as they were shown (one row per prediction, at its `computedAt`; a later
+ * collapse-ratio update of the same prediction replaces the row), kept as long as the roll-ups.
+ * Angles are the trap-frame direction the prediction was made for.
+ */
+export const predictionSamples = pgTable('prediction_samples', {
+  /** `computedAt`, Unix epoch ms. */
+  tMs: epochMs('t_ms').primaryKey(),
+  profileId: integer('profile_id').notNull(),
+  thetaDeg: real('theta_deg').notNull(),
+  phiDeg: real('phi_deg').notNull(),
+  stable: boolean('stable').notNull(),
+  reason: text('reason'),
+  epsDd: real('eps_dd').notNull(),
+  fermiSurfaceAspect: real('fermi_surface_aspect'),
+  cloudAspect: real('cloud_aspect'),
+  tofAspect: real('tof_aspect'),
+  tofMajorAngleDeg: real('tof_major_angle_deg'),
+  collapseRatio: real('collapse_ratio'),
+  /** The camera view (LivePrediction `camera`), null when the profile has none. */
+  camera: jsonb('camera').$type<LivePrediction['camera']>(),
 });
 
 /** Append-only trail of every change and operator action; a trigger refuses UPDATE and DELETE. */
@@ -357,6 +389,25 @@ export const shots = pgTable(
   (t) => [index('shots_run').on(t.runId)],
 );
 
+/**
+ * The TOF image of a shot as the imaging analysis measured it: one row per shot, replaced by a
+ * later upload (the audit log keeps the earlier value).
+ */
+export const shotMeasurements = pgTable('shot_measurements', {
+  shotId: text('shot_id')
+    .primaryKey()
+    .references(() => shots.id),
+  /** Long over short axis of the column density, ≥ 1. */
+  tofAspect: doublePrecision('tof_aspect').notNull(),
+  /** Angle of the long axis in the camera frame, degrees. */
+  tofAngleDeg: doublePrecision('tof_angle_deg').notNull(),
+  /** One standard deviation of `tofAspect`; null when the file gave none. */
+  sigma: doublePrecision('sigma'),
+  sourceName: text('source_name').notNull(),
+  uploadedBy: text('uploaded_by').notNull(),
+  uploadedAt: timestamp('uploaded_at', { withTimezone: true }).notNull(),
+});
+
 /** PostgreSQL text-search document (written by the database, never by the application). */
 const tsvector = customType<{ data: string }>({ dataType: () => 'tsvector' });
 const bytea = customType<{ data: Uint8Array; driverData: Uint8Array }>({ dataType: () => 'bytea' });
@@ -462,6 +513,32 @@ export const alarmStates = pgTable('alarm_states', {
   updatedAtMs: epochMs('updated_at_ms').notNull(),
 });
 
+/**
+ * Supervision records (trips, alarm transitions) taken from the journal in the data folder
+ * (server/alarms/supervision-journal.ts): the id of each record written, in the same
+ * transaction as the record, so a replay after a write whose confirmation was lost skips it.
+ */
+export const supervisionRecordsApplied = pgTable('supervision_records_applied', {
+  id: text('id').primaryKey(),
+  /** Server time of the write, Unix epoch ms. */
+  appliedAtMs: epochMs('applied_at_ms').notNull(),
+});
+
+/**
+ * Sign-in throttles that outlive a restart (server/auth/sign-in-throttle.ts): per account the
+ * failures and the time of the next attempt, per client address the failure times in the window.
+ */
+export const signInThrottles = pgTable(
+  'sign_in_throttles',
+  {
+    scope: text('scope').$type<'account' | 'address'>().notNull(),
+    key: text('key').notNull(),
+    /** Account: { failures, lastFailureAt, nextAttemptAt }; address: failure times, Unix epoch ms. */
+    state: jsonb('state').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.scope, t.key] })],
+);
+
 export const schema = {
   users,
   calibrations,
@@ -469,6 +546,7 @@ export const schema = {
   fastBatches,
   slowSamples,
   rollups1s,
+  predictionSamples,
   auditLog,
   securityEvents,
   alarmLimits,
@@ -478,9 +556,12 @@ export const schema = {
   sequences,
   runs,
   shots,
+  shotMeasurements,
   logbookEntries,
   logbookAttachments,
   handovers,
   handoverItems,
   alarmStates,
+  supervisionRecordsApplied,
+  signInThrottles,
 };

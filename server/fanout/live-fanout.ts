@@ -75,8 +75,10 @@ interface Viewer {
  * can slow ingest.
  *
  * Sessions: a socket is closed (4401) when its token expires, and re-checked when its account
- * changes (disabled, role or password changed, removed: the token is revoked → 4401; a role
- * below viewer → 4403; a role changed in place → a new `hello`) and every `recheckIntervalMs`.
+ * changes (disabled, password changed, removed: the token is revoked → 4401; a role changed in
+ * place → the socket stays and gets a new `hello` with the new role, which applies at once:
+ * every message a socket gets needs only the viewer role, the least there is), on changes
+ * another process announces (see account-change-listener.ts), and every `recheckIntervalMs`.
  * Connections are capped per client address (1013 beyond the cap), so idle sockets from one
  * place cannot lock out viewers elsewhere.
  */
@@ -121,7 +123,7 @@ export class LiveFanout implements LiveSink {
       ...opts,
     };
     server.on('upgrade', this.onUpgrade);
-    this.stopAccountEvents = accountEvents?.onChange((userId) => this.recheck((v) => v.user.id === userId)) ?? (() => {});
+    this.stopAccountEvents = accountEvents?.onChange((userId) => this.recheck((v) => userId === null || v.user.id === userId)) ?? (() => {});
     this.recheckTimer = setInterval(() => this.recheck(() => true), this.opts.recheckIntervalMs);
     this.recheckTimer.unref();
   }
@@ -289,7 +291,7 @@ export class LiveFanout implements LiveSink {
       this.access.sessionForToken(viewer.token).then(
         (session) => {
           if (!this.viewers.has(viewer)) return;
-          if (!session) return this.end(viewer, WS_CLOSE_UNAUTHENTICATED, 'your session ended (account or role changed): sign in again');
+          if (!session) return this.end(viewer, WS_CLOSE_UNAUTHENTICATED, 'your session ended (account disabled or password changed): sign in again');
           if (!hasRole(session.user.role, WATCH_ROLE)) return this.end(viewer, WS_CLOSE_FORBIDDEN, `watching needs the ${WATCH_ROLE} role`);
           if (session.user.role !== viewer.user.role) {
             viewer.user = session.user;

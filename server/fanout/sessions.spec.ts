@@ -1,14 +1,21 @@
+import { execFile } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
+import { promisify } from 'node:util';
 import jwt from 'jsonwebtoken';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { WebSocket } from 'ws';
 import type { UserAccount } from '../../shared/auth/user-api.js';
 import type { ServerMessage } from '../../shared/live/live-state.js';
 import { JWT_SECRET_FILE } from '../auth/jwt-secret.js';
+import { projectRoot } from '../project-root.js';
 import type { RunningServer } from '../server.js';
-import { callApi, makeDataDir, removeDataDir, signIn, startTestServer } from '../testing/test-server.js';
+import { databaseUrlFor, usesPostgres } from '../testing/external-services.js';
+import { callApi, makeDataDir, removeDataDir, signIn, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
+import { waitFor } from '../../test/support/stack.js';
 import { WS_CLOSE_TRY_AGAIN_LATER, WS_CLOSE_UNAUTHENTICATED } from './live-fanout.js';
+
+const execFileAsync = promisify(execFile);
 
 interface Client {
   ws: WebSocket;
@@ -76,7 +83,7 @@ describe('WebSocket sessions', () => {
     expect(await client.closed).toEqual({ code: WS_CLOSE_UNAUTHENTICATED, reason: 'session expired: sign in again' });
   });
 
-  it('closes the sessions of an account when it is disabled, and when its role changes', async () => {
+  it('closes the sessions of an account when it is disabled, and keeps them with the new role greeted when its role changes', async () => {
     const operator = await connect(server, await signIn(server, 'operator'));
     const lead = await connect(server, await signIn(server, 'lead'));
     const viewer = await connect(server, await signIn(server, 'viewer'));
@@ -85,14 +92,33 @@ describe('WebSocket sessions', () => {
     await callApi(server, admin, 'PATCH', `/api/admin/users/${await accountId('operator@tiltwatch.example')}`, { disabled: true, reason: 'session test' });
     expect((await operator.closed).code).toBe(WS_CLOSE_UNAUTHENTICATED);
 
+    const greetings = () => lead.messages.filter((m) => m.type === 'hello');
     await callApi(server, admin, 'PATCH', `/api/admin/users/${await accountId('lead@tiltwatch.example')}`, { role: 'viewer', reason: 'session test' });
-    const closed = await lead.closed;
-    expect(closed).toEqual({ code: WS_CLOSE_UNAUTHENTICATED, reason: expect.stringMatching(/session ended/) });
+    const again = await waitFor(() => greetings()[1], 'the welcome with the new role');
+    expect(again).toMatchObject({ type: 'hello', user: { email: 'lead@tiltwatch.example', role: 'viewer' } });
+    expect(lead.ws.readyState).toBe(WebSocket.OPEN);
+    lead.ws.close();
+    await lead.closed;
 
     // Unrelated sessions stay open.
     expect(viewer.ws.readyState).toBe(WebSocket.OPEN);
     viewer.ws.close();
     await viewer.closed;
+  });
+
+  // With PGlite the users command cannot run beside the server (it takes the data folder's lock).
+  it.runIf(usesPostgres())('closes the sessions of an account at once when the users command in another process sets its password', async () => {
+    const viewer = await connect(server, await signIn(server, 'viewer'));
+    await viewer.next('hello');
+    const cli = execFileAsync(process.execPath, ['--import', 'tsx', path.join('server', 'users', 'users-cli.ts'), 'set-password', 'viewer@tiltwatch.example'], {
+      cwd: projectRoot(),
+      env: { ...process.env, TILTWATCH_DATA_DIR: dir, DATABASE_URL: databaseUrlFor(dir)!, LOG_LEVEL: 'warn' },
+    });
+    cli.child.stdin!.end(`${TEST_PASSWORD}\n`);
+    await cli;
+    // Well before the once-a-minute re-check: the server heard the change from PostgreSQL.
+    const closed = await Promise.race([viewer.closed, new Promise<null>((resolve) => setTimeout(() => resolve(null), 20_000))]);
+    expect(closed).toEqual({ code: WS_CLOSE_UNAUTHENTICATED, reason: expect.stringMatching(/password changed/) });
   });
 
   it('closes a socket that does not sign in within the time allowed', async () => {

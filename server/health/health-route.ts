@@ -1,5 +1,6 @@
 import type { BrokerCounters } from '../../broker/broker.js';
 import type { DbKind } from '../db/database.js';
+import type { SupervisionCounters } from '../alarms/supervision-log.js';
 import type { DatabaseHealthReport } from '../db/database-health.js';
 import type { FanoutCounters } from '../fanout/live-fanout.js';
 import type { IngestCounters } from '../ingest/frame-gate.js';
@@ -34,6 +35,8 @@ export interface HealthReport {
   mqttConnected: boolean;
   fanout: FanoutCounters;
   storage: WriterCounters;
+  /** Trips and alarm transitions waiting in the supervision journal for the database. */
+  supervision: SupervisionCounters;
   eventLoop: EventLoopReport;
 }
 
@@ -44,6 +47,7 @@ export interface HealthInputs {
   lastRejectedAtMs: number | null;
   lastDeliveryErrorAtMs: number | null;
   storage: WriterCounters;
+  supervision: SupervisionCounters;
   database: DatabaseHealthReport | null;
 }
 
@@ -62,6 +66,14 @@ export function healthProblems(h: HealthInputs): string[] {
   }
   if (h.storage.outage) {
     problems.push(`the database has not taken telemetry writes since ${h.storage.failingSince} (${h.storage.pendingFrames} frames queued): ${h.storage.lastError}`);
+  }
+  if (h.supervision.failingSince !== null) {
+    problems.push(
+      `the database has not taken supervision records since ${h.supervision.failingSince} (${h.supervision.journalPending} trips or alarm-transition batches kept in the journal): ${h.supervision.lastError}`,
+    );
+  }
+  if (h.supervision.journalDropped > 0) {
+    problems.push(`${h.supervision.journalDropped} batches of alarm transitions were not recorded: the supervision journal was full`);
   }
   return problems;
 }

@@ -83,3 +83,12 @@ export function queryNumber(opts: NumberOptions) {
   const message = rangeMessage(opts);
   return z.coerce.number({ error: message }).refine((n) => inRange(n, opts), message);
 }
+
+/** A date and time in ISO 8601 (query-string or body text), as a Date. */
+export function isoTime() {
+  const message = 'must be a date and time such as 2026-12-02T06:00:00Z';
+  return z
+    .string({ error: message })
+    .refine((v) => /^\d{4}-\d{2}-\d{2}T/.test(v) && !Number.isNaN(new Date(v).getTime()), message)
+    .transform((v) => new Date(v));
+}

@@ -10,7 +10,8 @@ import { alarmLimitHandlers } from '../alarms/alarm-limit-routes.js';
 import { loadAlarmLimits } from '../alarms/alarm-limit-repository.js';
 import { alarmHandlers, type AlarmRoutes } from '../alarms/alarm-routes.js';
 import { loadAlarmStates } from '../alarms/alarm-state-repository.js';
-import { SupervisionLog } from '../alarms/supervision-log.js';
+import { SupervisionJournal } from '../alarms/supervision-journal.js';
+import { SupervisionLog, type SupervisionCounters } from '../alarms/supervision-log.js';
 import type { ServerConfig } from '../config.js';
 import type { Db } from '../db/database.js';
 import type { RouteHandlers } from '../http/route-table.js';
@@ -51,8 +52,10 @@ export interface Supervision {
   /** On-call mail and its recipients (the handover summary goes out through it). */
   mailer: Mailer;
   notice: NoticeOptions;
-  /** Writes queued alarm events and trips (before reading them back). */
+  /** Writes journaled alarm events and trips (before reading them back). */
   flushRecords(): Promise<void>;
+  /** The supervision journal and its writes (`/api/health`). */
+  records(): SupervisionCounters;
   /** The level set in force (steering's pre-flight reads its trip levels and operating settings). */
   levels: LevelStore;
   handlers: Pick<RouteHandlers, SupervisionRoutes>;
@@ -80,21 +83,14 @@ export async function startSupervision(deps: {
 }): Promise<Supervision> {
   const { db, live, sink, config, log, levels, steering } = deps;
   const book = new AlarmBook(await loadAlarmLimits(db));
-  book.restore(await loadAlarmStates(db));
-  const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs, ...interlockTrips(levels.inForce().levels.trips) }));
-  // One source: the level set in force feeds the interlock's trip levels and the gauges' bands.
-  const publishBands = () => sink.publishChannels(composeChannelBands(levels.inForce(), book.limits()));
-  levels.onChange((set) => {
-    interlock.retune(interlockTrips(set.levels.trips));
-    publishBands();
+  // Trips and transitions an earlier run journaled but could not store go in first, so the
+  // alarm states and the latch read back below include them.
+  const journal = new SupervisionJournal(config.dataDir);
+  const records = new SupervisionLog(db, {
+    journal,
+    statesOf: (ids) => book.memories(ids),
+    onError: (error) => log.error({ err: error }, 'storing alarm events or trips failed; they wait in the supervision journal'),
   });
-  publishBands();
-  const latched = await openTrip(db);
-  if (latched) {
-    interlock.restore(latched);
-    log.warn({ firstOut: latched.firstOut }, 'software interlock still tripped from before the restart; reset it once the cause is cleared');
-  }
-
   const closers: (() => unknown)[] = [];
   const close = async () => {
     for (const closer of closers.reverse()) {
@@ -105,12 +101,29 @@ export async function startSupervision(deps: {
       }
     }
   };
+  closers.push(() => records.close());
   try {
-    const records = new SupervisionLog(db, {
-      statesOf: (ids) => book.memories(ids),
-      onError: (error) => log.error({ err: error }, 'storing alarm events or trips failed'),
+    const left = journal.counters().journalPending;
+    if (left > 0) {
+      await records.flush();
+      const still = journal.counters().journalPending;
+      if (still === 0) log.warn({ records: left }, 'supervision records journaled by an earlier run were stored');
+      else log.error({ records: still }, 'supervision records from an earlier run could not be stored yet; retrying');
+    }
+    book.restore(await loadAlarmStates(db));
+    const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs, ...interlockTrips(levels.inForce().levels.trips) }));
+    // One source: the level set in force feeds the interlock's trip levels and the gauges' bands.
+    const publishBands = () => sink.publishChannels(composeChannelBands(levels.inForce(), book.limits()));
+    levels.onChange((set) => {
+      interlock.retune(interlockTrips(set.levels.trips));
+      publishBands();
     });
-    closers.push(() => records.close());
+    publishBands();
+    const latched = await openTrip(db);
+    if (latched) {
+      interlock.restore(latched);
+      log.warn({ firstOut: latched.firstOut }, 'software interlock still tripped from before the restart; reset it once the cause is cleared');
+    }
     const mailbox = config.mail.smtpUrl === null ? await LocalMailbox.start({ port: config.mail.mailboxPort, log }) : null;
     if (mailbox) {
       closers.push(() => mailbox.close());
@@ -131,6 +144,7 @@ export async function startSupervision(deps: {
       mailer,
       notice,
       flushRecords: () => records.flush(),
+      records: () => records.counters(),
       levels,
       handlers: {
         ...alarmHandlers({ db, book, records, announce: () => supervisor.announce() }),

@@ -46,9 +46,13 @@ export function levelHandlers(levels: LevelStore, book: AlarmBook): Pick<RouteHa
         if (error instanceof LevelSetError) throw new HttpError(400, error.message, error.field === '' ? null : `levels.${error.field}`);
         throw error;
       }
-      const problem = tripLevelProblem(book.limits(), next.trips);
-      if (problem) throw new HttpError(400, problem.message, `levels.${problem.field}`);
-      res.json(await levels.save(next, actorOf(req), reason));
+      const levelSet = next;
+      const saved = await levels.exclusive(async () => {
+        const problem = tripLevelProblem(book.limits(), levelSet.trips);
+        if (problem) throw new HttpError(400, problem.message, `levels.${problem.field}`);
+        return levels.save(levelSet, actorOf(req), reason);
+      });
+      res.json(saved);
     },
     channels: (_req, res) => {
       res.json(composeChannelBands(levels.inForce(), book.limits()));

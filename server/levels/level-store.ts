@@ -22,8 +22,8 @@ function versionOf(row: Row): LevelSetVersion {
 
 export class LevelStore {
   private readonly listeners: ((set: LevelSetVersion) => void)[] = [];
-  /** Saves run one after another, so each version follows the one in force. */
-  private saving: Promise<unknown> = Promise.resolve();
+  /** Edits run one after another (see `exclusive`), so each version follows the one in force. */
+  private editing: Promise<unknown> = Promise.resolve();
 
   private constructor(
     private readonly db: Db,
@@ -61,17 +61,22 @@ export class LevelStore {
   }
 
   /**
-   * Stores `levels` (already validated against the alarm limits) as the next version with its
-   * audit entry, in one transaction; then puts it in force and hands it on. A failed write
-   * changes nothing.
+   * Runs `edit` once no other edit of the level set or of an alarm limit is running. The two
+   * are checked against each other (no alarm limit beyond its trip level), so each edit's check
+   * and write happen inside this, and the next edit checks against what the one before stored.
    */
-  save(levels: LevelSet, actor: string, reason: string): Promise<LevelSetVersion> {
-    const saved = this.saving.then(() => this.store(levels, actor, reason));
-    this.saving = saved.catch(() => undefined);
-    return saved;
+  exclusive<T>(edit: () => Promise<T>): Promise<T> {
+    const done = this.editing.then(edit);
+    this.editing = done.catch(() => undefined);
+    return done;
   }
 
-  private async store(levels: LevelSet, actor: string, reason: string): Promise<LevelSetVersion> {
+  /**
+   * Stores `levels` (already validated against the alarm limits, inside `exclusive`) as the
+   * next version with its audit entry, in one transaction; then puts it in force and hands it
+   * on. A failed write changes nothing.
+   */
+  async save(levels: LevelSet, actor: string, reason: string): Promise<LevelSetVersion> {
     const previous = this.current;
     const row = await this.db.transaction(async (tx) => {
       const [stored] = await tx.insert(levelSets).values({ version: previous.version + 1, body: levels, createdBy: actor, reason }).returning();

@@ -81,6 +81,7 @@ export class TelemetryPipeline {
     live.applyFast(frame, meanCurrent, fieldFromCurrents(calibration, meanCurrent), calibration, (this.deps.now ?? Date.now)(), uncertainty);
     prediction.addFrame(calibration, meanCurrent, frame.t0Ms);
     rollups.addFast(frame);
+    if (uncertainty) rollups.addUncertainty(frame.t0Ms + ((frame.currentA.x.length - 1) * 500) / frame.rateHz, uncertainty);
     writer.addFast(frame, calibration.id);
     if (series.t.length > 0) fanout.publishSeries(series);
   }

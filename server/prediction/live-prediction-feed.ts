@@ -1,4 +1,5 @@
 import type { CalibrationBody } from '../../shared/field/calibration.js';
+import type { LivePrediction } from '../../shared/live/live-state.js';
 import type { Vec3 } from '../../shared/field/field-vector.js';
 import type { ProfileRecord } from '../../shared/profiles/profile-record.js';
 import { profileTrapField } from '../../shared/profiles/trap-orientation.js';
@@ -17,7 +18,7 @@ type FieldCalibration = Pick<CalibrationBody, 'gaussPerAmp' | 'offsetGauss'>;
  * Connects the live telemetry to the prediction engine and its results to the live state:
  * each fast frame's mean currents become the field direction in the active profile's trap
  * frame (the profile's orientation, not the calibration's, see trap-orientation.ts); each new
- * prediction goes into the live state, the history ring and the WebSocket fan-out. Called in
+ * prediction goes into the live state, the history ring, telemetry storage and the WebSocket fan-out. Called in
  * the ingest path, so it only does a matrix product and hands over: the engine thresholds,
  * coalesces and solves in its worker thread. It also keeps the live state's `predictionStatus`:
  * whether the prediction describes the gas now (|B| strong enough to orient the dipoles, as
@@ -36,6 +37,8 @@ export class LivePredictionFeed {
       engine: PredictionEngine;
       live: LiveStore;
       history: PredictionHistoryRing;
+      /** Keeps each prediction for history past the ring's hour (the telemetry writer). */
+      store: { addPrediction(p: LivePrediction): void };
       fanout: Pick<LiveSink, 'publishStateChange'>;
       /** Telemetry older than this is stale, ms (the interlock's stale limit). */
       staleMs: number;
@@ -50,6 +53,7 @@ export class LivePredictionFeed {
     deps.engine.onPrediction((p) => {
       deps.live.applyPrediction(p);
       deps.history.push(p);
+      deps.store.addPrediction(p);
       deps.fanout.publishStateChange();
     });
     this.timer = setInterval(() => this.updateStatus(), STATUS_CHECK_MS);

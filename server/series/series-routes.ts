@@ -1,8 +1,8 @@
 import { z } from 'zod';
 import type { CalibrationCache } from '../field/calibration-cache.js';
 import type { RouteHandlers } from '../http/route-table.js';
-import { HttpError } from '../http/http-error.js';
 import { parseInput } from '../http/validate.js';
+import { storageReadError } from '../storage/read-error.js';
 import type { TelemetryWriter } from '../storage/telemetry-writer.js';
 import { querySeries } from './series-query.js';
 
@@ -25,7 +25,7 @@ export function seriesHandlers(calibrations: CalibrationCache, writer: Telemetry
       try {
         res.json(await querySeries(writer, calibrations, toMs - seconds * 1000, toMs));
       } catch (error) {
-        throw new HttpError(503, `Stored telemetry cannot be read right now (${(error as Error).message}); live data goes on. Try again shortly.`);
+        throw storageReadError(error);
       }
     },
   };

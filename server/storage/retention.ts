@@ -1,14 +1,14 @@
 import { lt } from 'drizzle-orm';
 import type { ServerConfig } from '../config.js';
 import type { Db } from '../db/database.js';
-import { fastBatches, rollups1s, slowSamples } from '../db/schema.js';
+import { fastBatches, predictionSamples, rollups1s, slowSamples } from '../db/schema.js';
 
 /** How often old telemetry is pruned, ms. */
 const PRUNE_INTERVAL_MS = 10 * 60_000;
 
 /**
- * Deletes raw batches and slow samples older than `rawHours` and roll-ups older than
- * `rollupDays` (relative to `nowMs`, epoch ms). The audit trail is never pruned.
+ * Deletes raw batches and slow samples older than `rawHours`, roll-ups and stored predictions
+ * older than `rollupDays` (relative to `nowMs`, epoch ms). The audit trail is never pruned.
  */
 export async function pruneTelemetry(db: Db, retention: ServerConfig['retention'], nowMs: number): Promise<void> {
   const rawCutoff = nowMs - retention.rawHours * 3600_000;
@@ -16,6 +16,7 @@ export async function pruneTelemetry(db: Db, retention: ServerConfig['retention'
   await db.delete(fastBatches).where(lt(fastBatches.t1Ms, rawCutoff));
   await db.delete(slowSamples).where(lt(slowSamples.tMs, rawCutoff));
   await db.delete(rollups1s).where(lt(rollups1s.tMs, rollupCutoff));
+  await db.delete(predictionSamples).where(lt(predictionSamples.tMs, rollupCutoff));
 }
 
 /** Prunes at start and every ten minutes until closed. */

@@ -1,3 +1,4 @@
+import type { FieldUncertainty } from '../../shared/field/field-uncertainty.js';
 import { fieldAngles, type FieldState } from '../../shared/field/field-vector.js';
 import type { FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
 import type { rollups1s } from '../db/schema.js';
@@ -30,6 +31,7 @@ class Second {
   readonly bMag = new Stat();
   readonly temp = { x: new Stat(), y: new Stat(), z: new Stat() };
   readonly flow = { x: new Stat(), y: new Stat(), z: new Stat() };
+  readonly sigma = { bMag: new Stat(), theta: new Stat(), phi: new Stat() };
 }
 
 /** Seconds stay open until data this far past their end has arrived (data time, ms). */
@@ -62,6 +64,14 @@ export class RollupAccumulator {
     const s = this.second(tMs);
     for (const axis of AXES) s.b[axis].add(field.vector[axis]);
     s.bMag.add(field.magnitude);
+  }
+
+  /** One frame's σ|B|, σθ, σφ at its mean currents, at the frame's mid time `tMs` (epoch ms). */
+  addUncertainty(tMs: number, u: FieldUncertainty): void {
+    const s = this.second(tMs);
+    s.sigma.bMag.add(u.magnitudeGauss);
+    if (u.thetaDeg !== null) s.sigma.theta.add(u.thetaDeg);
+    if (u.phiDeg !== null) s.sigma.phi.add(u.phiDeg);
   }
 
   addSlow(frame: SlowFrame): void {
@@ -104,6 +114,7 @@ function toRow(tMs: number, s: Second): RollupRow | null {
   const mean = { x: s.b.x.mean, y: s.b.y.mean, z: s.b.z.mean };
   const angles = fieldAngles(mean);
   const slow = s.temp.x.n > 0;
+  const meanOrNull = (stat: Stat) => (stat.n > 0 ? stat.mean : null);
   return {
     tMs,
     fastSamples: s.current.x.n,
@@ -137,5 +148,8 @@ function toRow(tMs: number, s: Second): RollupRow | null {
     flowYMin: slow ? s.flow.y.min : null,
     flowZMean: slow ? s.flow.z.mean : null,
     flowZMin: slow ? s.flow.z.min : null,
+    sigmaBMagMean: meanOrNull(s.sigma.bMag),
+    sigmaThetaMean: meanOrNull(s.sigma.theta),
+    sigmaPhiMean: meanOrNull(s.sigma.phi),
   };
 }

@@ -2,7 +2,9 @@
  * Messages between the server's event loop and the storage worker thread. Samples travel as
  * transferred Float64Arrays (no copy, no text); everything else is plain data.
  */
+import type { HistoryPrediction } from '../../shared/history/history-api.js';
 import type { SlowChunk } from '../../shared/live/live-state.js';
+import type { predictionSamples } from '../db/schema.js';
 import type { SlowFrame } from '../../shared/telemetry/messages.js';
 import type { RollupRow } from './rollup-accumulator.js';
 import type { WriteQueueState } from './write-queue.js';
@@ -21,11 +23,15 @@ export interface BatchInput {
   samples: Float64Array;
 }
 
+/** A live prediction as stored (`prediction_samples`). */
+export type PredictionRow = typeof predictionSamples.$inferInsert;
+
 /** What one flush of the event loop's writer hands over. */
 export interface AppendInput {
   batches: BatchInput[];
   slow: SlowFrame[];
   rollups: RollupRow[];
+  predictions: PredictionRow[];
   frames: number;
   samples: number;
 }
@@ -49,12 +55,17 @@ export interface RawCurrents {
   calibrationId: Int32Array;
 }
 
-/** What the history reads ask of the telemetry tables (the storage worker, or a store in tests). */
+/**
+ * What the history reads ask of the telemetry tables (the storage worker, or a store in
+ * tests). Windows are half-open, [fromMs, toMs), so adjacent windows never share a point.
+ */
 export interface TelemetryReader {
   rawCurrents(fromMs: number, toMs: number, blockMs: number): Promise<RawCurrents>;
-  /** Slow readings (temperatures °C, flows L/min) in [fromMs, toMs]. */
-  slowRows(fromMs: number, toMs: number): Promise<SlowChunk>;
+  /** Slow readings (temperatures °C, flows L/min), as block means when `blockMs` is longer than their 100 ms period. */
+  slowRows(fromMs: number, toMs: number, blockMs?: number): Promise<SlowChunk>;
   rollupBlocks(fromMs: number, toMs: number, blockMs: number): Promise<RollupBlock[]>;
+  /** The predictions made in the window after the one in force at `fromMs`; at most `maxPoints` (the last of each equal time block). */
+  predictions(fromMs: number, toMs: number, maxPoints: number): Promise<HistoryPrediction>;
 }
 
 /** Roll-up means per block of a long window. */
@@ -73,6 +84,10 @@ export interface RollupBlock {
   fx: number | null;
   fy: number | null;
   fz: number | null;
+  /** Mean σ|B| (G), σθ, σφ (degrees); null for seconds without a calibration covariance. */
+  sigmaBMag: number | null;
+  sigmaTheta: number | null;
+  sigmaPhi: number | null;
 }
 
 export interface WorkerOpen {
@@ -88,12 +103,13 @@ export type StorageRequest =
   | { id: number; kind: 'append'; input: AppendInput }
   | { id: number; kind: 'flush' }
   | { id: number; kind: 'raw'; fromMs: number; toMs: number; blockMs: number }
-  | { id: number; kind: 'slow'; fromMs: number; toMs: number }
+  | { id: number; kind: 'slow'; fromMs: number; toMs: number; blockMs?: number }
   | { id: number; kind: 'rollups'; fromMs: number; toMs: number; blockMs: number }
+  | { id: number; kind: 'predictions'; fromMs: number; toMs: number; maxPoints: number }
   | { id: number; kind: 'close' };
 
 export type StorageReply =
-  | { id: number; kind: 'done'; state: StoreState; result?: RawCurrents | SlowChunk | RollupBlock[] }
+  | { id: number; kind: 'done'; state: StoreState; result?: RawCurrents | SlowChunk | RollupBlock[] | HistoryPrediction }
   | { id: number; kind: 'failed'; state: StoreState; message: string }
   /** Sent without a request: after every write attempt without one. */
   | { id: null; kind: 'state'; state: StoreState }

@@ -86,9 +86,11 @@ async function handle(request: StorageRequest) {
     case 'raw':
       return store.rawCurrents(request.fromMs, request.toMs, request.blockMs);
     case 'slow':
-      return store.slowRows(request.fromMs, request.toMs);
+      return store.slowRows(request.fromMs, request.toMs, request.blockMs);
     case 'rollups':
       return store.rollupBlocks(request.fromMs, request.toMs, request.blockMs);
+    case 'predictions':
+      return store.predictions(request.fromMs, request.toMs, request.maxPoints);
     case 'close':
       closing = true;
       clearInterval(retryTimer);

@@ -23,6 +23,7 @@ function batchInput(t0Ms: number, first: number): AppendInput {
     batches: [{ t0Ms, rateHz: 1000, seqFirst: first, seqLast: first + 24, calibrationId: 1, setpoint: { x: 1, y: 2, z: -3 }, n, samples }],
     slow: [{ seq: first, tMs: t0Ms, coilTempC: { x: 30, y: 31, z: 32 }, flowLpm: { x: 3, y: 3.1, z: 3.2 }, waterSupplyC: 18, waterReturnC: { x: 19, y: 19, z: 19 } }],
     rollups: [],
+    predictions: [],
     frames: 25,
     samples: n,
   };
@@ -51,7 +52,7 @@ describe('TelemetryStore over PGlite', () => {
     expect(row.codec).toBe(1);
     expect(row.samples.byteLength).toBeLessThan(row.n * 6 * 4); // smaller than float32
 
-    const raw = await store.rawCurrents(T0, T0 + 499, 10);
+    const raw = await store.rawCurrents(T0, T0 + 500, 10);
     expect(raw.t.length).toBe(50);
     expect(Array.from(raw.calibrationId).every((id) => id === 1)).toBe(true);
     // Block i holds samples 10i … 10i+9: mean of current x is 1 + (10i + 4.5)·1e-3.
@@ -75,7 +76,7 @@ describe('TelemetryStore over PGlite', () => {
     await store.flush();
     expect(store.state()).toMatchObject({ framesWritten: 50, pendingFrames: 0, outage: false, framesDropped: 0 });
     expect(outages).toEqual([true, false]);
-    expect((await store.rawCurrents(T0 + 10_000, T0 + 10_999, 10)).t.length).toBe(100);
+    expect((await store.rawCurrents(T0 + 10_000, T0 + 11_000, 10)).t.length).toBe(100);
   });
 
   it('refuses and counts what does not fit in the queue', async () => {

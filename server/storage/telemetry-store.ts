@@ -4,15 +4,16 @@
  * answers the history reads. Plain async code over a Drizzle database, so tests run it in
  * the same thread; in the server it runs inside the worker (storage-worker.ts).
  */
-import { and, asc, avg, gt, gte, lte, sql } from 'drizzle-orm';
+import { and, asc, avg, desc, gt, gte, lt, sql } from 'drizzle-orm';
 import type { Db } from '../db/database.js';
-import { fastBatches, rollups1s, slowSamples } from '../db/schema.js';
+import { fastBatches, predictionSamples, rollups1s, slowSamples } from '../db/schema.js';
+import type { HistoryPrediction } from '../../shared/history/history-api.js';
 import type { SlowChunk } from '../../shared/live/live-state.js';
 import { BlockDecimator } from '../live/block-decimator.js';
 import { appendSlowPoint, emptySlowChunk } from '../live/series-chunk.js';
 import type { RollupRow } from './rollup-accumulator.js';
 import { decodeSamples, encodeSamples, SAMPLE_CODEC } from './sample-codec.js';
-import type { AppendInput, BatchInput, RawCurrents, RollupBlock, StoreState, TelemetryReader } from './storage-protocol.js';
+import type { AppendInput, BatchInput, PredictionRow, RawCurrents, RollupBlock, StoreState, TelemetryReader } from './storage-protocol.js';
 import { WriteQueue, type WriteQueueOptions, type WriteUnit } from './write-queue.js';
 import type { SlowFrame } from '../../shared/telemetry/messages.js';
 
@@ -21,6 +22,7 @@ interface Unit extends WriteUnit {
   batches: (typeof fastBatches.$inferInsert)[];
   slow: (typeof slowSamples.$inferInsert)[];
   rollups: RollupRow[];
+  predictions: PredictionRow[];
 }
 
 export type StoreOptions = Pick<WriteQueueOptions<Unit>, 'maxPendingSamples' | 'retryMinMs' | 'retryMaxMs' | 'onError' | 'onOutageChange'>;
@@ -52,7 +54,7 @@ export class TelemetryStore implements TelemetryReader {
       this.queue.drop(input.frames);
       return;
     }
-    this.queue.offer({ batches: input.batches.map(toBatchRow), slow: input.slow.map(toSlowRow), rollups: input.rollups, frames: input.frames, samples: input.samples });
+    this.queue.offer({ batches: input.batches.map(toBatchRow), slow: input.slow.map(toSlowRow), rollups: input.rollups, predictions: input.predictions, frames: input.frames, samples: input.samples });
   }
 
   /** Counts frames the event loop refused before handing them over. */
@@ -74,12 +76,12 @@ export class TelemetryStore implements TelemetryReader {
     return { ...this.written, ...this.queue.state() };
   }
 
-  /** Block means (`blockMs` blocks) of the stored currents in [fromMs, toMs], with each batch's calibration id. */
+  /** Block means (`blockMs` blocks) of the stored currents in [fromMs, toMs), with each batch's calibration id. */
   async rawCurrents(fromMs: number, toMs: number, blockMs: number): Promise<RawCurrents> {
     const rows = await this.open()
       .select({ t0Ms: fastBatches.t0Ms, rateHz: fastBatches.rateHz, n: fastBatches.sampleCount, calibrationId: fastBatches.calibrationId, codec: fastBatches.codec, samples: fastBatches.samples })
       .from(fastBatches)
-      .where(and(gt(fastBatches.t1Ms, fromMs), lte(fastBatches.t0Ms, toMs)))
+      .where(and(gt(fastBatches.t1Ms, fromMs), lt(fastBatches.t0Ms, toMs)))
       .orderBy(asc(fastBatches.t0Ms));
     const out = { t: [] as number[], x: [] as number[], y: [] as number[], z: [] as number[], calibrationId: [] as number[] };
     const decimator = new BlockDecimator(blockMs);
@@ -95,7 +97,7 @@ export class TelemetryStore implements TelemetryReader {
       if (row.codec !== SAMPLE_CODEC) throw new Error(`fast batch at ${row.t0Ms} uses codec ${row.codec}; this server reads codec ${SAMPLE_CODEC}`);
       const periodMs = 1000 / row.rateHz;
       const first = Math.max(0, Math.ceil((fromMs - row.t0Ms) / periodMs));
-      const end = Math.min(row.n, Math.floor((toMs - row.t0Ms) / periodMs) + 1);
+      const end = Math.min(row.n, Math.ceil((toMs - row.t0Ms) / periodMs));
       if (first >= end) continue;
       const [x, y, z] = decodeSamples(row.samples, row.n);
       calibrationId = row.calibrationId ?? -1;
@@ -112,22 +114,33 @@ export class TelemetryStore implements TelemetryReader {
     };
   }
 
-  /** Slow readings in [fromMs, toMs]. */
-  async slowRows(fromMs: number, toMs: number): Promise<SlowChunk> {
+  /** Slow readings in [fromMs, toMs); means over `blockMs` blocks (aligned to the epoch) when given. */
+  async slowRows(fromMs: number, toMs: number, blockMs = 0): Promise<SlowChunk> {
     const rows = await this.open()
       .select()
       .from(slowSamples)
-      .where(and(gte(slowSamples.tMs, fromMs), lte(slowSamples.tMs, toMs)))
+      .where(and(gte(slowSamples.tMs, fromMs), lt(slowSamples.tMs, toMs)))
       .orderBy(asc(slowSamples.tMs));
-    // 10 Hz over at most RAW_WINDOW_MAX_S stays under MAX_POINTS without thinning.
     const out = emptySlowChunk();
-    for (const r of rows) {
-      appendSlowPoint(out, r.tMs, { x: r.coilTempX, y: r.coilTempY, z: r.coilTempZ }, { x: r.flowX, y: r.flowY, z: r.flowZ });
-    }
+    const blocks = new SlowBlocks(blockMs, out);
+    for (const r of rows) blocks.add(r.tMs, [r.coilTempX, r.coilTempY, r.coilTempZ, r.flowX, r.flowY, r.flowZ]);
+    blocks.flush();
     return out;
   }
 
-  /** Roll-up means per `blockMs` block (a whole number of seconds) in [fromMs, toMs]. */
+  /** Stored predictions in [fromMs, toMs) after the one in force at `fromMs`, thinned to `maxPoints`. */
+  async predictions(fromMs: number, toMs: number, maxPoints: number): Promise<HistoryPrediction> {
+    const db = this.open();
+    const before = await db.select().from(predictionSamples).where(lt(predictionSamples.tMs, fromMs)).orderBy(desc(predictionSamples.tMs)).limit(1);
+    const inWindow = await db
+      .select()
+      .from(predictionSamples)
+      .where(and(gte(predictionSamples.tMs, fromMs), lt(predictionSamples.tMs, toMs)))
+      .orderBy(asc(predictionSamples.tMs));
+    return predictionColumns([...before, ...thinToLast(inWindow, fromMs, toMs, maxPoints)]);
+  }
+
+  /** Roll-up means per `blockMs` block (a whole number of seconds) in [fromMs, toMs). */
   async rollupBlocks(fromMs: number, toMs: number, blockMs: number): Promise<RollupBlock[]> {
     // Inlined (a whole number we computed), so SELECT and GROUP BY are the same expression to PostgreSQL.
     const width = sql.raw(String(Math.trunc(blockMs)));
@@ -149,9 +162,12 @@ export class TelemetryStore implements TelemetryReader {
         fx: num(rollups1s.flowXMean),
         fy: num(rollups1s.flowYMean),
         fz: num(rollups1s.flowZMean),
+        sigmaBMag: num(rollups1s.sigmaBMagMean),
+        sigmaTheta: num(rollups1s.sigmaThetaMean),
+        sigmaPhi: num(rollups1s.sigmaPhiMean),
       })
       .from(rollups1s)
-      .where(and(gte(rollups1s.tMs, fromMs), lte(rollups1s.tMs, toMs)))
+      .where(and(gte(rollups1s.tMs, fromMs), lt(rollups1s.tMs, toMs)))
       .groupBy(block)
       .orderBy(block);
   }
@@ -166,10 +182,18 @@ export class TelemetryStore implements TelemetryReader {
     const batches = units.flatMap((u) => u.batches);
     const slow = units.flatMap((u) => u.slow);
     const rollups = units.flatMap((u) => u.rollups);
+    const predictions = units.flatMap((u) => u.predictions);
     await this.open().transaction(async (tx) => {
       for (const rows of chunks(batches)) await tx.insert(fastBatches).values(rows);
       for (const rows of chunks(slow)) await tx.insert(slowSamples).values(rows);
       for (const rows of chunks(rollups)) await tx.insert(rollups1s).values(rows).onConflictDoNothing();
+      // A later collapse-ratio update of a prediction replaces its row.
+      for (const rows of chunks(latestPerTime(predictions))) {
+        await tx
+          .insert(predictionSamples)
+          .values(rows)
+          .onConflictDoUpdate({ target: predictionSamples.tMs, set: { collapseRatio: sql`excluded.collapse_ratio`, stable: sql`excluded.stable`, reason: sql`excluded.reason` } });
+      }
     });
     this.written.batchesWritten += batches.length;
     this.written.framesWritten += units.reduce((sum, u) => sum + u.frames, 0);
@@ -215,4 +239,66 @@ function toSlowRow(f: SlowFrame): typeof slowSamples.$inferInsert {
     waterReturnY: f.waterReturnC.y,
     waterReturnZ: f.waterReturnC.z,
   };
+}
+
+/** One row per time (the last given wins): PostgreSQL refuses two rows for one key in one INSERT … ON CONFLICT. */
+function latestPerTime(rows: PredictionRow[]): PredictionRow[] {
+  return [...new Map(rows.map((r) => [r.tMs, r])).values()];
+}
+
+/** At most `maxPoints` rows: the last of each of `maxPoints` equal blocks of the window (each holds until the next). */
+function thinToLast<T extends { tMs: number }>(rows: T[], fromMs: number, toMs: number, maxPoints: number): T[] {
+  if (rows.length <= maxPoints) return rows;
+  const blockMs = (toMs - fromMs) / maxPoints;
+  return rows.filter((r, i) => i === rows.length - 1 || Math.floor((rows[i + 1].tMs - fromMs) / blockMs) !== Math.floor((r.tMs - fromMs) / blockMs));
+}
+
+function predictionColumns(rows: (typeof predictionSamples.$inferSelect)[]): HistoryPrediction {
+  return {
+    t: rows.map((r) => r.tMs),
+    profileId: rows.map((r) => r.profileId),
+    thetaDeg: rows.map((r) => r.thetaDeg),
+    phiDeg: rows.map((r) => r.phiDeg),
+    stable: rows.map((r) => r.stable),
+    reason: rows.map((r) => r.reason),
+    epsDd: rows.map((r) => r.epsDd),
+    fermiSurfaceAspect: rows.map((r) => r.fermiSurfaceAspect),
+    cloudAspect: rows.map((r) => r.cloudAspect),
+    tofAspect: rows.map((r) => r.tofAspect),
+    tofMajorAngleDeg: rows.map((r) => r.tofMajorAngleDeg),
+    collapseRatio: rows.map((r) => r.collapseRatio),
+    camera: rows.map((r) => r.camera ?? null),
+  };
+}
+
+/** Means of the six slow channels per `blockMs` block (every reading on its own when `blockMs` ≤ 0). */
+class SlowBlocks {
+  private block = Number.NaN;
+  private n = 0;
+  private sumT = 0;
+  private readonly sums = [0, 0, 0, 0, 0, 0];
+
+  constructor(
+    private readonly blockMs: number,
+    private readonly out: SlowChunk,
+  ) {}
+
+  add(tMs: number, values: number[]): void {
+    const block = this.blockMs > 0 ? Math.floor(tMs / this.blockMs) : tMs;
+    if (block !== this.block) this.flush();
+    this.block = block;
+    this.n++;
+    this.sumT += tMs;
+    for (let c = 0; c < 6; c++) this.sums[c] += values[c];
+  }
+
+  flush(): void {
+    if (this.n > 0) {
+      const m = this.sums.map((v) => v / this.n);
+      appendSlowPoint(this.out, this.sumT / this.n, { x: m[0], y: m[1], z: m[2] }, { x: m[3], y: m[4], z: m[5] });
+    }
+    this.n = 0;
+    this.sumT = 0;
+    this.sums.fill(0);
+  }
 }

@@ -1,8 +1,9 @@
-import type { SlowChunk } from '../../shared/live/live-state.js';
+import type { HistoryPrediction } from '../../shared/history/history-api.js';
+import type { LivePrediction, SlowChunk } from '../../shared/live/live-state.js';
 import type { FastFrame, SlowFrame } from '../../shared/telemetry/messages.js';
 import type { ServerConfig } from '../config.js';
 import type { RollupAccumulator } from './rollup-accumulator.js';
-import type { AppendInput, BatchInput, RawCurrents, RollupBlock, StoreState, TelemetryReader } from './storage-protocol.js';
+import type { AppendInput, BatchInput, PredictionRow, RawCurrents, RollupBlock, StoreState, TelemetryReader } from './storage-protocol.js';
 import { StorageWorker } from './storage-worker-thread.js';
 
 /** A contiguous run of fast frames that becomes one `fast_batches` row. */
@@ -74,6 +75,7 @@ const EMPTY_STATE: StoreState = {
 export class TelemetryWriter implements TelemetryReader {
   private batches: OpenBatch[] = [];
   private slow: SlowFrame[] = [];
+  private predictionRows: PredictionRow[] = [];
   private openSamples = 0;
   private openFrames = 0;
   /** Handed to the worker, not yet confirmed by its state. */
@@ -160,6 +162,12 @@ export class TelemetryWriter implements TelemetryReader {
     this.slow.push(frame);
   }
 
+  /** Keeps a live prediction as it was shown (a later update of the same prediction replaces it when stored). */
+  addPrediction(p: LivePrediction): void {
+    if (this.closed) return;
+    this.predictionRows.push(toPredictionRow(p));
+  }
+
   counters(): WriterCounters {
     return {
       ...this.worker,
@@ -195,8 +203,12 @@ export class TelemetryWriter implements TelemetryReader {
     return this.thread.request({ kind: 'raw', fromMs, toMs, blockMs });
   }
 
-  slowRows(fromMs: number, toMs: number): Promise<SlowChunk> {
-    return this.thread.request({ kind: 'slow', fromMs, toMs });
+  slowRows(fromMs: number, toMs: number, blockMs?: number): Promise<SlowChunk> {
+    return this.thread.request({ kind: 'slow', fromMs, toMs, blockMs });
+  }
+
+  predictions(fromMs: number, toMs: number, maxPoints: number): Promise<HistoryPrediction> {
+    return this.thread.request({ kind: 'predictions', fromMs, toMs, maxPoints });
   }
 
   rollupBlocks(fromMs: number, toMs: number, blockMs: number): Promise<RollupBlock[]> {
@@ -211,11 +223,12 @@ export class TelemetryWriter implements TelemetryReader {
   private async handOver(): Promise<void> {
     const started = performance.now();
     const rollups = this.rollups.drain(this.closed);
-    if (this.batches.length === 0 && this.slow.length === 0 && rollups.length === 0) return;
+    if (this.batches.length === 0 && this.slow.length === 0 && rollups.length === 0 && this.predictionRows.length === 0) return;
     const batches = this.batches.map(toBatchInput);
-    const input: AppendInput = { batches, slow: this.slow, rollups, frames: this.openFrames, samples: this.openSamples };
+    const input: AppendInput = { batches, slow: this.slow, rollups, predictions: this.predictionRows, frames: this.openFrames, samples: this.openSamples };
     this.batches = [];
     this.slow = [];
+    this.predictionRows = [];
     this.openSamples = 0;
     this.openFrames = 0;
     this.inTransit.samples += input.samples;
@@ -246,4 +259,22 @@ function toBatchInput(b: OpenBatch): BatchInput {
   const samples = new Float64Array(6 * n);
   for (let c = 0; c < 6; c++) samples.set(b.channels[c], c * n);
   return { t0Ms: b.t0Ms, rateHz: b.rateHz, seqFirst: b.seqFirst, seqLast: b.seqLast, calibrationId: b.calibrationId, setpoint: b.setpoint, n, samples };
+}
+
+function toPredictionRow(p: LivePrediction): PredictionRow {
+  return {
+    tMs: Date.parse(p.computedAt),
+    profileId: p.profileId,
+    thetaDeg: p.thetaDeg,
+    phiDeg: p.phiDeg,
+    stable: p.stable,
+    reason: p.reason,
+    epsDd: p.epsDd,
+    fermiSurfaceAspect: p.fermiSurfaceAspect,
+    cloudAspect: p.cloudAspect,
+    tofAspect: p.tofAspect,
+    tofMajorAngleDeg: p.tofMajorAngleDeg,
+    collapseRatio: p.collapseRatio,
+    camera: p.camera,
+  };
 }

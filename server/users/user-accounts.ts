@@ -6,7 +6,7 @@ import { hashPassword, verifyPassword } from '../auth/password.js';
 import { isDemoAccount, normaliseEmail, type UserRecord } from '../auth/users-repository.js';
 import type { Db } from '../db/database.js';
 import { users } from '../db/schema.js';
-import { AccountEvents } from './account-events.js';
+import { AccountEvents, announceAccountChange } from './account-events.js';
 
 /** Why an account change was refused: `not-found` 404, `conflict` 409, `invalid` 400. */
 export class AccountError extends Error {
@@ -38,10 +38,12 @@ function view(row: UserRecord): UserAccount {
 
 /**
  * Managing accounts: list, add, change role, disable and enable (admins), and changing one's
- * own password. Every change is written with its audit entry in one transaction; a change of
- * role, disabling and a new password raise the account's token version, which revokes every
- * token issued before, and `events` tells the WebSocket fan-out to re-check that account's
- * sessions. At least one enabled admin always remains.
+ * own password. Every change is written with its audit entry in one transaction; disabling
+ * and a new password raise the account's token version, which revokes every token issued
+ * before, while a new role applies to the existing tokens at once (the role is read from the
+ * database on every request). `events` tells the WebSocket fan-out to re-check that account's
+ * sessions (closed when revoked, greeted again with the new role). At least one enabled admin
+ * always remains.
  */
 export class UserAccounts {
   constructor(
@@ -85,7 +87,9 @@ export class UserAccounts {
       }
       const [updated] = await tx
         .update(users)
-        .set({ role, disabled, tokenVersion: sql`${users.tokenVersion} + 1` })
+        // The role is read from the database on every request, so a role change applies to the
+        // account's tokens and open sockets at once; disabling revokes the tokens.
+        .set({ role, disabled, ...(disabled && !row.disabled ? { tokenVersion: sql`${users.tokenVersion} + 1` } : {}) })
         .where(eq(users.id, id))
         .returning();
       await appendAudit(tx, {
@@ -96,6 +100,7 @@ export class UserAccounts {
         newValue: { role, disabled },
         reason,
       });
+      await announceAccountChange(tx, id);
       return { user: view(updated), changed: true };
     });
     if (result.changed) this.events.changed(id);
@@ -114,6 +119,7 @@ export class UserAccounts {
         .returning();
       if (!row) throw new AccountError('not-found', `no account for ${address}`);
       await appendAudit(tx, { actor, action: 'user.password-set', subject: `user:${address}`, reason: 'set from the command line' });
+      await announceAccountChange(tx, row.id);
       return row;
     });
     this.events.changed(updated.id);
@@ -138,6 +144,7 @@ export class UserAccounts {
         .returning();
       if (!changed) throw new AccountError('conflict', 'the password was changed meanwhile; sign in again');
       await appendAudit(tx, { actor: row.email, action: 'user.password-change', subject: `user:${row.email}`, reason: 'changed by the account holder' });
+      await announceAccountChange(tx, id);
       return changed;
     });
     this.events.changed(id);

@@ -5,6 +5,7 @@ import { auditLog } from '../db/schema.js';
 import type { RunningServer } from '../server.js';
 import { databaseUrlFor } from '../testing/external-services.js';
 import { callApi, makeDataDir, removeDataDir, signIn, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
+import { waitFor } from '../../test/support/stack.js';
 
 const NEW_PASSWORD = 'a new pass phrase for night shift';
 
@@ -65,12 +66,13 @@ describe('accounts, passwords and sign-in throttling', () => {
     expect(res.body.error).toMatch(message);
   });
 
-  it('a role change revokes the account’s tokens; the next sign-in carries the new role', async () => {
+  it('a role change applies to the account’s tokens at once; the next sign-in carries the new role too', async () => {
     const before = (await login('night.operator@lindqvist-hall.example', 'night shift pass phrase')).token!;
     const id = await idOf('night.operator@lindqvist-hall.example');
     const changed = await callApi<{ user: UserAccount; changed: boolean }>(server, admin, 'PATCH', `/api/admin/users/${id}`, { role: 'viewer', reason: 'moved to day watch' });
     expect(changed.body).toMatchObject({ changed: true, user: { role: 'viewer' } });
-    expect((await me(before)).status).toBe(401);
+    expect((await me(before)).body.role).toBe('viewer');
+    expect((await callApi(server, before, 'POST', '/api/alarms/flow.x.LL/acknowledge')).status).toBe(403);
     const after = (await login('night.operator@lindqvist-hall.example', 'night shift pass phrase')).token!;
     expect((await me(after)).body.role).toBe('viewer');
   });
@@ -142,6 +144,20 @@ describe('accounts, passwords and sign-in throttling', () => {
     expect((await login('viewer@tiltwatch.example', TEST_PASSWORD)).status).toBe(200);
     const after = await callApi<SecurityReport>(server, admin, 'GET', '/api/admin/security');
     expect(after.body.events[0]).toMatchObject({ kind: 'sign-in.throttle-lifted', address: event.address, detail: { by: 'admin@tiltwatch.example' } });
+  });
+
+  it('keeps the growing delay of an account through a restart of the server', async () => {
+    for (let i = 0; i < 4; i++) expect((await login('operator@tiltwatch.example', `guess number ${i}`)).status).toBe(401);
+    expect((await login('operator@tiltwatch.example', NEW_PASSWORD)).status).toBe(429);
+    await server.close();
+    server = await startTestServer(dir, undefined, { TILTWATCH_LOGIN_ATTEMPTS_PER_MIN: '6' });
+    const security = async () => (await callApi<SecurityReport>(server, admin, 'GET', '/api/admin/security')).body;
+    expect((await security()).throttles).toContainEqual(expect.objectContaining({ scope: 'account', key: 'operator@tiltwatch.example', failures: 4 }));
+    // Once the 1 s delay has passed, the next wrong guess doubles it (the fifth failure), as without the restart.
+    await waitFor(async () => ((await login('operator@tiltwatch.example', 'guess number 4')).status === 401 ? true : undefined), 'the delay to pass');
+    expect((await login('operator@tiltwatch.example', NEW_PASSWORD)).status).toBe(429);
+    const delays = (await security()).events.filter((e) => e.kind === 'sign-in.account-delayed' && e.email === 'operator@tiltwatch.example').map((e) => e.detail?.['delayMs']);
+    expect(delays[0]).toBe(2000);
   });
 
   it('wrote every account change to the audit trail, without passwords', async () => {

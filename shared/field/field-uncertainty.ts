@@ -23,18 +23,33 @@ export function fieldUncertainty(cal: CalibrationBody, covariance: readonly (rea
   const b = fieldVector(cal, currentA);
   const i = [currentA.x, currentA.y, currentA.z];
   const r = cal.coilToTrap;
-  // G: 3×12.
-  const g = [0, 1, 2].map((row) => {
-    const out = new Array<number>(12);
+  // G: 3×12, row-major. Plain loops: history computes this for thousands of points per request.
+  const g = new Float64Array(36);
+  for (let row = 0; row < 3; row++) {
     for (let c = 0; c < 3; c++) {
-      for (let j = 0; j < 3; j++) out[c * 3 + j] = r[row][c] * i[j];
-      out[9 + c] = r[row][c];
+      for (let j = 0; j < 3; j++) g[row * 12 + c * 3 + j] = r[row][c] * i[j];
+      g[row * 12 + 9 + c] = r[row][c];
     }
-    return out;
-  });
-  const gs = g.map((row) => covariance[0].map((_, col) => row.reduce((s, v, k) => s + v * covariance[k][col], 0)));
-  const sigmaB = gs.map((row) => g.map((other) => row.reduce((s, v, k) => s + v * other[k], 0)));
-  const quad = (v: number[]) => Math.sqrt(Math.max(0, [0, 1, 2].reduce((s, p) => s + v[p] * [0, 1, 2].reduce((t, q) => t + sigmaB[p][q] * v[q], 0), 0)));
+  }
+  // Σ_B = G·Σ·Gᵀ (3×3).
+  const sigmaB = [new Float64Array(3), new Float64Array(3), new Float64Array(3)];
+  for (let p = 0; p < 3; p++) {
+    for (let k = 0; k < 12; k++) {
+      const gpk = g[p * 12 + k];
+      if (gpk === 0) continue;
+      const covRow = covariance[k];
+      for (let l = 0; l < 12; l++) {
+        const w = gpk * covRow[l];
+        if (w === 0) continue;
+        for (let q = 0; q < 3; q++) sigmaB[p][q] += w * g[q * 12 + l];
+      }
+    }
+  }
+  const quad = (v: number[]) => {
+    let sum = 0;
+    for (let p = 0; p < 3; p++) for (let q = 0; q < 3; q++) sum += v[p] * sigmaB[p][q] * v[q];
+    return Math.sqrt(Math.max(0, sum));
+  };
 
   const m = Math.hypot(b.x, b.y, b.z);
   if (!(m > ZERO_FIELD_GAUSS)) {

@@ -37,6 +37,7 @@ export const routes: Routes = [
         title: 'Sequences · Tiltwatch',
         loadComponent: () => import('./sequences/sequences-page').then((m) => m.SequencesPage),
       },
+      { path: 'shots', title: 'Shots · Tiltwatch', loadComponent: () => import('./shots/shots-page').then((m) => m.ShotsPage) },
       { path: 'alarms', title: 'Alarms · Tiltwatch', loadComponent: () => import('./alarms/alarms-page').then((m) => m.AlarmsPage) },
       {
         path: 'interlocks',

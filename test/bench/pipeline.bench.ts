@@ -23,7 +23,7 @@ import { seedPglite } from '../../server/testing/pglite-template.js';
 import { quantile, type Figure } from './figures.js';
 import { frameLatencies, type Published, type Viewed } from './pipeline/latency.js';
 import { cpuSeconds, firstLine, startChild, stopChild } from './pipeline/processes.js';
-import { countStored } from './pipeline/stored.js';
+import { countStored, type SeqRanges } from './pipeline/stored.js';
 
 const RATES = (process.env.BENCH_RATES ?? '1,10,20,30,40,50,60,80').split(',').map(Number);
 const LEVEL_SECONDS = Number(process.env.BENCH_LEVEL_SECONDS ?? 30);
@@ -33,8 +33,6 @@ const LEVEL_SECONDS = Number(process.env.BENCH_LEVEL_SECONDS ?? 30);
  */
 const FILL_RATE = 20;
 const P99_TARGET_MS = 50;
-/** Sequence numbers of level i start at i × SEQ_SPAN, so the database can be counted per level. */
-const SEQ_SPAN = 10_000_000;
 const DEMO_SAMPLE_HZ = 1000;
 const CHANNELS = 6;
 
@@ -58,6 +56,8 @@ interface Level {
   published: number;
   p50: number;
   p99: number;
+  /** The sequence numbers this level published, so the database can be counted per level. */
+  seq: SeqRanges;
   missing: number;
   rejected: number;
   lost: number;
@@ -76,15 +76,21 @@ export async function benchPipeline(): Promise<Figure[]> {
   await seedPglite(dir);
   const serverProcess = startChild('bench-server.ts', [dir]);
   // What the empty telemetry tables already take, so the disk figure counts the data alone.
-  const empty = await countStored(dir, [], SEQ_SPAN);
+  const empty = await countStored(dir, []);
   const levels: Level[] = [];
+  let fill: SeqRanges | null = null;
+  // One controller throughout: each level carries the sequence numbers on from the one before.
+  const nextSeq = () => {
+    const last = levels.at(-1)?.seq;
+    return last ? { fast: last.fast[1] + 1, slow: last.slow[1] + 1 } : { fast: 0, slow: 0 };
+  };
   let storageLoop = { eventLoopMaxMs: 0, eventLoopSteps: 0, eventLoopStepsOver10Ms: 0 };
   try {
     const server = JSON.parse(await firstLine(serverProcess)) as { url: string; mqttUrl: string; controller: { username: string; password: string }; pid: number };
     const health = async () => (await (await fetch(`${server.url}/api/health`)).json()) as Health;
     console.log(`\n  rate   frames   p50 ms   p99 ms  missing  rejected  lost  dropped  flushErr  written  server CPU  loop max ms  load avg`);
-    for (const [index, rate] of RATES.entries()) {
-      const level = await runLevel(rate, index * SEQ_SPAN, dir, server, health);
+    for (const rate of RATES) {
+      const level = await runLevel(rate, nextSeq(), dir, server, health);
       levels.push(level);
       storageLoop = (await health()).storage;
       console.log(
@@ -96,13 +102,13 @@ export async function benchPipeline(): Promise<Figure[]> {
       if (!level.ok) break;
     }
     // Fill phase for the disk figure (not judged): its frames are counted from the database below.
-    await runLevel(FILL_RATE, RATES.length * SEQ_SPAN, dir, server, health);
+    fill = (await runLevel(FILL_RATE, nextSeq(), dir, server, health)).seq;
   } finally {
     await stopChild(serverProcess);
   }
 
   // The server closed its writer (a last flush); now count what the database really holds.
-  const stored = await countStored(dir, [...levels.map((_, i) => i * SEQ_SPAN), RATES.length * SEQ_SPAN], SEQ_SPAN);
+  const stored = await countStored(dir, [...levels.map((l) => l.seq), ...(fill ? [fill] : [])]);
   rmSync(dir, { recursive: true, force: true });
   levels.forEach((level, i) => {
     if (stored.levels[i].fastFrames !== level.published) level.ok = false;
@@ -143,7 +149,7 @@ export async function benchPipeline(): Promise<Figure[]> {
 
 async function runLevel(
   rate: number,
-  seqBase: number,
+  seqBase: { fast: number; slow: number },
   dir: string,
   server: { url: string; mqttUrl: string; controller: { username: string; password: string }; pid: number },
   health: () => Promise<Health>,
@@ -163,7 +169,7 @@ async function runLevel(
     JSON.stringify({ mqttUrl: server.mqttUrl, ...server.controller, rate, seconds: LEVEL_SECONDS, seqBase, out: publishedFile }),
   ]);
   await once(publisher, 'exit');
-  const published = JSON.parse(readFileSync(publishedFile, 'utf8')) as Published & { fast: number; slow: number };
+  const published = JSON.parse(readFileSync(publishedFile, 'utf8')) as Published & { fast: number; slow: number; seqLast: { fast: number; slow: number } };
   // Drained: every frame accepted (or refused) and the writer's queue empty.
   let after = await health();
   const drainUntil = performance.now() + 30_000;
@@ -183,6 +189,7 @@ async function runLevel(
     published: published.fast,
     p50: quantile(latencies, 0.5),
     p99: quantile(latencies, 0.99),
+    seq: { fast: [seqBase.fast, published.seqLast.fast], slow: [seqBase.slow, published.seqLast.slow] },
     missing,
     rejected: after.frames.rejected - before.frames.rejected,
     lost: after.frames.lost - before.frames.lost,

@@ -17,6 +17,7 @@ export default defineConfig({
       'server/ingest/ingest.spec.ts',
       'server/storage/storage.spec.ts',
       'server/profiles/profiles.spec.ts',
+      'server/shots/shots.spec.ts',
       'server/fanout/live-fanout.spec.ts',
       'server/prediction/live-prediction.spec.ts',
     ],

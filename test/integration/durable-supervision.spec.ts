@@ -5,7 +5,6 @@
  * start with no trip on record is shown as tripped. Real server, real PGlite, a scripted
  * controller on the real broker; failing writes are made by a trigger in the same database.
  */
-import { sql } from 'drizzle-orm';
 import type mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { AlarmListItem, InterlockStatus } from '../../shared/alarms/alarm-api.js';
@@ -13,6 +12,7 @@ import type { Role } from '../../shared/auth/roles.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import { openDatabase, type OpenDatabase } from '../../server/db/database.js';
 import type { RunningServer } from '../../server/server.js';
+import { refuseWrites } from '../../server/testing/refuse-writes.js';
 import { startControllerFeed, type ControllerFeed } from '../../server/testing/controller-feed.js';
 import { callApi, connectController, makeDataDir, removeDataDir, signIn, startTestServer } from '../../server/testing/test-server.js';
 import { waitFor } from '../support/stack.js';
@@ -58,20 +58,14 @@ describe('durable alarm and interlock actions', () => {
   const interlock = async () => (await call<InterlockStatus>('viewer', 'GET', '/api/interlock')).body;
   const alarm = async (id: string) => (await call<{ alarms: AlarmListItem[] }>('viewer', 'GET', '/api/alarms?state=all')).body.alarms.find((a) => a.id === id)!;
 
-  /** Makes every write to `table` fail (as a full disk or a lost connection would) until `allow`. */
-  async function refuseWrites(table: string): Promise<{ allow(): Promise<void> }> {
-    await database.db.execute(sql.raw(`CREATE OR REPLACE FUNCTION test_refuse_write() RETURNS trigger AS $$
-      BEGIN RAISE EXCEPTION 'storage refused for the test'; END $$ LANGUAGE plpgsql`));
-    await database.db.execute(sql.raw(`CREATE TRIGGER test_refuse BEFORE INSERT OR UPDATE ON ${table} FOR EACH ROW EXECUTE FUNCTION test_refuse_write()`));
-    return { allow: async () => void (await database.db.execute(sql.raw(`DROP TRIGGER test_refuse ON ${table}`))) };
-  }
+  const refuse = (table: string) => refuseWrites(database.db, table);
 
   it('answers 503 and leaves the alarm unacknowledged when the acknowledgement cannot be stored', async () => {
     feed.flows = { x: 0.5, y: 3.2, z: 3.3 };
     await waitFor(async () => ((await alarm('flow.x.LL')).state === 'unacknowledged' ? true : undefined), 'the low-low flow alarm');
     expect((await interlock()).firstOut?.condition).toBe('low-flow-x');
 
-    const refusal = await refuseWrites('alarm_states');
+    const refusal = await refuse('alarm_states');
     const failed = await call<{ error: string }>('operator', 'POST', '/api/alarms/flow.x.LL/acknowledge');
     await refusal.allow();
     expect(failed.status).toBe(503);
@@ -85,7 +79,7 @@ describe('durable alarm and interlock actions', () => {
   it('answers 503, keeps the latch closed and releases nothing when the reset cannot be stored', async () => {
     feed.flows = { x: 3.1, y: 3.2, z: 3.3 };
     await waitFor(async () => ((await interlock()).conditions.some((c) => c.active) ? undefined : true), 'the flow to come back');
-    const refusal = await refuseWrites('interlock_trips');
+    const refusal = await refuse('interlock_trips');
     const failed = await call<{ error: string }>('operator', 'POST', '/api/interlock/reset', { reason: 'valve x reopened' });
     await refusal.allow();
     expect(failed.status).toBe(503);

@@ -4,80 +4,21 @@
  * mail, and the next start is not tripped; and a kill -9 during ingest must lose nothing that
  * was reported done (a trip, acknowledged, shelved and out-of-service alarms).
  */
-import { execFileSync, spawn, type ChildProcessWithoutNullStreams } from 'node:child_process';
+import type { ChildProcessWithoutNullStreams } from 'node:child_process';
 import { once } from 'node:events';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import mqtt from 'mqtt';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { AlarmListItem, InterlockStatus } from '../../shared/alarms/alarm-api.js';
-import type { Role } from '../../shared/auth/roles.js';
-import { projectRoot } from '../../server/project-root.js';
 import type { RunningServer } from '../../server/server.js';
-import { testDatabaseUrl } from '../../server/testing/external-services.js';
 import { startControllerFeed } from '../../server/testing/controller-feed.js';
-import { makeDataDir, removeDataDir, startTestServer, signIn, callApi, TEST_PASSWORD } from '../../server/testing/test-server.js';
+import { makeDataDir, removeDataDir, startTestServer, signIn, callApi } from '../../server/testing/test-server.js';
+import { addAccounts, login, spawnServer } from '../support/server-process.js';
 import { waitFor } from '../support/stack.js';
-
-interface ServerProcess {
-  child: ChildProcessWithoutNullStreams;
-  url: string;
-  mqttUrl: string;
-  output: () => string;
-}
-
-/** Starts `server/main.ts` (with `args`) as a process group of its own on free ports in `dir`. */
-async function spawnServer(dir: string, args: string[]): Promise<ServerProcess> {
-  // In the external pass the process stores in the PostgreSQL database that later in-process servers on `dir` use too.
-  const database = await testDatabaseUrl(dir);
-  const child = spawn(process.execPath, ['--import', 'tsx', path.join('server', 'main.ts'), ...args], {
-    cwd: projectRoot(),
-    env: {
-      ...process.env,
-      PORT: '0',
-      MQTT_PORT: '0',
-      SIM_CONTROL_PORT: '0',
-      TILTWATCH_DATA_DIR: dir,
-      TILTWATCH_DEMO_PASSWORD: TEST_PASSWORD,
-      LOG_LEVEL: 'info',
-      ...(database ? { DATABASE_URL: database } : {}),
-    },
-    // Its own group, as a terminal runs a foreground job: Ctrl-C goes to the whole group.
-    detached: true,
-  });
-  let output = '';
-  child.stdout.on('data', (chunk: Buffer) => (output += chunk.toString()));
-  child.stderr.on('data', (chunk: Buffer) => (output += chunk.toString()));
-  const line = await waitFor(() => output.split('\n').find((l) => l.includes('"msg":"Tiltwatch server started"')), 'the server process to start', 60_000);
-  const started = JSON.parse(line) as { url: string; mqtt: string };
-  return { child, url: started.url, mqttUrl: started.mqtt, output: () => output };
-}
 
 async function health(url: string): Promise<{ frames: { acceptedByKind: { fast: number } } }> {
   return (await fetch(`${url}/api/health`)).json() as Promise<{ frames: { acceptedByKind: { fast: number } } }>;
-}
-
-/** A real (non-demo) account per role, as a lab makes them: with the users command. */
-const accountOf = (role: Role) => `${role}.on-shift@lindqvist-hall.example`;
-
-async function addAccounts(dir: string, roles: Role[]): Promise<void> {
-  const database = await testDatabaseUrl(dir);
-  for (const role of roles) {
-    execFileSync(process.execPath, ['--import', 'tsx', path.join('server', 'users', 'users-cli.ts'), 'add', accountOf(role), '--role', role], {
-      cwd: projectRoot(),
-      env: { ...process.env, TILTWATCH_DATA_DIR: dir, LOG_LEVEL: 'warn', ...(database ? { DATABASE_URL: database } : {}) },
-      input: `${TEST_PASSWORD}\n`,
-    });
-  }
-}
-
-async function login(url: string, role: Role): Promise<string> {
-  const res = await fetch(`${url}/api/auth/login`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ email: accountOf(role), password: TEST_PASSWORD }),
-  });
-  return ((await res.json()) as { token: string }).token;
 }
 
 async function post(url: string, token: string, route: string, body?: unknown): Promise<number> {

@@ -1,4 +1,4 @@
-import { parse } from 'csv-parse/sync';
+import { DECIMAL, printable, readCsvRecords } from '../../csv/csv-records.js';
 import { CalibrationInputError } from './fit-input-error.js';
 
 export type Triple = [number, number, number];
@@ -36,8 +36,6 @@ const KNOWN_COLUMNS = new Set<string>([...CURRENT_COLUMNS, ...VECTOR_COLUMNS, 'f
 export const MAX_DATA_LINES = 100_000;
 /** Largest magnitude accepted in any cell: far beyond any coil current (A) or field (G) of a lab magnet. */
 const MAX_ABS_VALUE = 1e6;
-/** A plain decimal number, optionally with an exponent; nothing else (no hex, no Infinity, no spaces inside). */
-const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 const EXPECTED =
   'current_x_A, current_y_A, current_z_A and then field_G (optional sigma_G), frequency_MHz (optional sigma_MHz) or field_x_G, field_y_G, field_z_G';
@@ -47,15 +45,9 @@ const EXPECTED =
  * csv-parse and checks every cell. Refusals name the file line (header = line 1) and column.
  */
 export function parseCalibrationCsv(text: string, options: CsvOptions = {}): CalibrationData {
-  if (text.includes('\u0000')) throw new CalibrationInputError('the file contains a NUL character: upload the plain-text CSV file');
-  let records: { record: string[]; info: { lines: number } }[];
-  try {
-    // With `info: true` each record comes as { record, info }; the typings do not model that option.
-    records = parse(text, { bom: true, trim: true, skip_empty_lines: true, comment: '#', relax_column_count: true, info: true }) as unknown as typeof records;
-  } catch (error) {
-    const e = error as Error & { lines?: number };
-    throw new CalibrationInputError(`${e.lines ? `line ${e.lines}: ` : ''}the file is not readable as CSV (${e.message})`);
-  }
+  const records = readCsvRecords(text, (message) => {
+    throw new CalibrationInputError(message);
+  }).map((r) => ({ record: r.cells, info: { lines: r.line } }));
   if (records.length === 0) throw new CalibrationInputError(`the file is empty: expected a header line with ${EXPECTED}`);
   const header = records[0].record;
   const headerLine = records[0].info.lines;
@@ -151,10 +143,4 @@ export function parseCalibrationCsv(text: string, options: CsvOptions = {}): Cal
 
 function refuseCoefficient(options: CsvOptions, what: string): void {
   if (options.mhzPerGauss !== undefined) throw new CalibrationInputError(`${what} has no frequency_MHz column: leave the MHz per G coefficient out`);
-}
-
-/** A cell quoted back in a message: control characters and lone surrogates shown as \\u escapes, at most 40 characters. */
-function printable(raw: string): string {
-  const shown = raw.length > 40 ? `${raw.slice(0, 40)}…` : raw;
-  return shown.replace(/[\u0000-\u001f\u007f]|[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/g, (ch) => `\\u${ch.charCodeAt(0).toString(16).padStart(4, '0')}`);
 }

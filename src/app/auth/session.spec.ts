@@ -109,6 +109,16 @@ describe('Session', () => {
     expect(localStorage.getItem(SESSION_STORAGE_KEY)).toBeNull();
   });
 
+  it('takes a changed role of its own account (from the live feed greeting) and keeps it across a reload; another account is ignored', () => {
+    localStorage.setItem(SESSION_STORAGE_KEY, JSON.stringify({ token: token({ exp: IN_ONE_HOUR_S }), user: OPERATOR }));
+    const session = reloaded();
+    session.takeUser({ email: 'lead@tiltwatch.example', role: 'viewer' });
+    expect(session.role()).toBe('operator');
+    session.takeUser({ email: OPERATOR.email, role: 'viewer' });
+    expect(session.role()).toBe('viewer');
+    expect(reloaded().role()).toBe('viewer');
+  });
+
   it('forgets the session on sign-out', async () => {
     localStorage.setItem(SESSION_STORAGE_KEY, JSON.stringify({ token: token({ exp: IN_ONE_HOUR_S }), user: OPERATOR }));
     const session = reloaded();

@@ -87,10 +87,19 @@ export class Session {
 
   /** Re-reads the user (and so the role) from the server, which may have changed it. */
   async refreshUser(): Promise<void> {
-    const user = await firstValueFrom(this.http.get<SessionUser>('/api/auth/me'));
+    this.takeUser(await firstValueFrom(this.http.get<SessionUser>('/api/auth/me')));
+  }
+
+  /**
+   * Takes the user as the server now has it (an admin may have changed the role: the live
+   * feed's greeting says so at once), so screens offer only what the new role may do.
+   * Another account's user is ignored.
+   */
+  takeUser(user: SessionUser): void {
     const session = this.current();
-    if (!session || !isUser(user)) return;
-    const next = { ...session, user };
+    if (!session || !isUser(user) || user.email !== session.user.email) return;
+    if (user.role === session.user.role) return;
+    const next = { ...session, user: { email: user.email, role: user.role } };
     localStorage.setItem(SESSION_STORAGE_KEY, JSON.stringify(next));
     this.current.set(next);
   }

@@ -171,6 +171,8 @@ export class LiveFeed {
       return; // a broken message must not stop the feed; the next one replaces it
     }
     if (message.type === 'hello') {
+      // Sent again when an admin changes this account's role: the screens follow at once.
+      this.session.takeUser(message.user);
       const serverTime = Date.parse(message.serverTime);
       this.clockOffsetMs = Number.isFinite(serverTime) ? serverTime - Date.now() : 0;
       this.attempt = 0;

@@ -34,20 +34,34 @@ describe('InterlocksPage', () => {
     localStorage.clear();
   });
 
-  /** Opens the page signed in with `role`; the server reports a tripped interlock. */
-  async function open(role: Role): Promise<void> {
+  /** Opens the page signed in with `role`; the server reports `status` (a tripped interlock). */
+  async function open(role: Role, status = TRIPPED): Promise<void> {
     configureSignedIn(role);
     http = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(InterlocksPage);
     TestBed.tick();
-    answerStatus();
+    answerStatus(status);
     await fixture.whenStable();
   }
 
   /** Answers every read of the interlock state asked so far (the page re-reads it after a reset). */
-  function answerStatus(): void {
-    for (const r of http.match('/api/interlock')) r.flush(TRIPPED);
+  function answerStatus(status = TRIPPED): void {
+    for (const r of http.match('/api/interlock')) r.flush(status);
   }
+
+  const historyCard = () => host().querySelector('[aria-labelledby="history-title"]')!;
+
+  it('says so when the trip history cannot be read, instead of an empty list', async () => {
+    await open('viewer', { ...TRIPPED, history: [], historyUnavailable: true });
+    expect(historyCard().textContent).toContain('The trip history cannot be read now');
+    expect(historyCard().textContent).not.toContain('No trips recorded');
+  });
+
+  it('says that no trips are recorded when the history is read and empty', async () => {
+    await open('viewer');
+    expect(historyCard().textContent).toContain('No trips recorded');
+    expect(historyCard().textContent).not.toContain('cannot be read');
+  });
 
   const host = () => fixture.nativeElement as HTMLElement;
   const resetButton = () => [...host().querySelectorAll('button')].find((b) => b.textContent!.includes('Reset software interlock'));

@@ -4,10 +4,12 @@
  * demo rate for `seconds`. Everything is scaled: fast frames (20 samples at 1 kHz of data
  * time) and slow frames (10 Hz of data time) both come `rate` times as often, so data time runs
  * `rate` times faster than the wall clock; it starts `rate × seconds` in the past so that it
- * never runs ahead of the server's clock. Sequence numbers start at `seqBase`.
+ * never runs ahead of the server's clock. Fast and slow sequence numbers start at `seqBase.fast`
+ * and `seqBase.slow`: the bench carries them on from the level before, so the server sees one
+ * controller whose numbers keep rising (a jump would be refused at the edge as it should be).
  *
  * Arguments: one JSON object { mqttUrl, username, password, rate, seconds, seqBase, out }.
- * Writes { fast, slow, sentAt, lastSampleMs } to `out` (sentAt on the wall clock the
+ * Writes { fast, slow, seqLast, sentAt, t0Ms } to `out` (sentAt on the wall clock the
  * processes share, ms) and exits.
  */
 import { writeFileSync } from 'node:fs';
@@ -22,7 +24,7 @@ interface Args {
   password: string;
   rate: number;
   seconds: number;
-  seqBase: number;
+  seqBase: { fast: number; slow: number };
   out: string;
 }
 
@@ -39,18 +41,19 @@ const sim = new Simulation({
   startMs: wallStart - args.rate * args.seconds * 1000,
   sampleRateHz: 1000,
   frameMs: FRAME_MS,
-  seed: args.seqBase + 1,
+  seed: args.seqBase.fast + 1,
   thermalSpeedup: 1,
   demo: true,
   demoIdleMs: 3_600_000,
 });
-const client = await mqtt.connectAsync(args.mqttUrl, { protocolVersion: 4, username: args.username, password: args.password, clientId: `bench-publisher-${args.seqBase}` });
+const client = await mqtt.connectAsync(args.mqttUrl, { protocolVersion: 4, username: args.username, password: args.password, clientId: `bench-publisher-${args.seqBase.fast}` });
 (client.stream as { setNoDelay?: (on: boolean) => void }).setNoDelay?.(true);
 
 const total = Math.round((args.seconds * 1000 * args.rate) / FRAME_MS);
 const sentAt = new Float64Array(total);
-const lastSampleMs = new Float64Array(total);
+const t0Ms = new Float64Array(total);
 let slow = 0;
+const seqLast = { fast: args.seqBase.fast - 1, slow: args.seqBase.slow - 1 };
 const t0 = performance.now();
 for (let i = 0; i < total; ) {
   const due = t0 + (i * FRAME_MS) / args.rate;
@@ -60,15 +63,17 @@ for (let i = 0; i < total; ) {
   while (i < total && t0 + (i * FRAME_MS) / args.rate <= performance.now()) {
     const { fast, slow: slowFrames } = sim.nextFrame();
     for (const s of slowFrames) {
-      client.publish(TOPICS.slow, JSON.stringify({ ...s, seq: s.seq + args.seqBase }));
+      seqLast.slow = s.seq + args.seqBase.slow;
+      client.publish(TOPICS.slow, JSON.stringify({ ...s, seq: seqLast.slow }));
       slow++;
     }
-    lastSampleMs[i] = fast.t0Ms + fast.currentA.x.length - 1;
-    client.publish(TOPICS.fast, JSON.stringify({ ...fast, seq: fast.seq + args.seqBase }));
+    t0Ms[i] = fast.t0Ms;
+    seqLast.fast = fast.seq + args.seqBase.fast;
+    client.publish(TOPICS.fast, JSON.stringify({ ...fast, seq: seqLast.fast }));
     sentAt[i] = epochNow();
     i++;
   }
 }
 await client.endAsync();
-writeFileSync(args.out, JSON.stringify({ fast: total, slow, sentAt: Array.from(sentAt), lastSampleMs: Array.from(lastSampleMs) }));
+writeFileSync(args.out, JSON.stringify({ fast: total, slow, seqLast, sentAt: Array.from(sentAt), t0Ms: Array.from(t0Ms) }));
 process.exit(0);

@@ -18,16 +18,22 @@ export interface StoredReport {
   telemetryBytes: number;
 }
 
-/** `seqBases[i]` is the first sequence number of level i; a level's numbers stay below the next base. */
-export async function countStored(dataDir: string, seqBases: number[], seqSpan: number): Promise<StoredReport> {
+/** First and last sequence numbers (inclusive) of one level's fast and slow frames. */
+export interface SeqRanges {
+  fast: [number, number];
+  slow: [number, number];
+}
+
+/** `ranges[i]` holds the sequence numbers level i published. */
+export async function countStored(dataDir: string, ranges: SeqRanges[]): Promise<StoredReport> {
   const database = await openDatabase({ dataDir, databaseUrl: null, pgliteFolder: 'telemetry' });
   try {
     const levels: StoredLevel[] = [];
-    for (const base of seqBases) {
+    for (const { fast: f, slow: s } of ranges) {
       const fast = await database.db.execute<{ n: string | null }>(
-        sql`select sum(seq_last - seq_first + 1) as n from fast_batches where seq_first >= ${base} and seq_last < ${base + seqSpan}`,
+        sql`select sum(seq_last - seq_first + 1) as n from fast_batches where seq_first >= ${f[0]} and seq_last <= ${f[1]}`,
       );
-      const slow = await database.db.execute<{ n: string }>(sql`select count(*) as n from slow_samples where seq >= ${base} and seq < ${base + seqSpan}`);
+      const slow = await database.db.execute<{ n: string }>(sql`select count(*) as n from slow_samples where seq >= ${s[0]} and seq <= ${s[1]}`);
       levels.push({ fastFrames: Number(rows<{ n: string | null }>(fast)[0]?.n ?? 0), slowFrames: Number(rows<{ n: string }>(slow)[0]?.n ?? 0) });
     }
     const rollups = await database.db.execute<{ n: string }>(sql`select count(*) as n from rollups_1s`);

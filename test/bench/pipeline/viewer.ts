@@ -1,8 +1,8 @@
 /**
  * The viewer process of the pipeline benchmark: signs in as the viewer, opens the WebSocket and
- * records, for every `live` message, when it arrived (the wall clock the processes share, ms) and the newest
- * sample time it carries. Prints `ready` once greeted; on SIGTERM writes { receivedAt,
- * liveTimeMs } to the file given as the second argument and exits.
+ * records, for every `live` message with chart points, when it arrived (the wall clock the
+ * processes share, ms) and the time of its newest chart point. Prints `ready` once greeted; on
+ * SIGTERM writes { receivedAt, newestPointMs } to the file given as the second argument and exits.
  *
  * Arguments: BASE_URL OUT_FILE.
  */
@@ -25,19 +25,19 @@ if (res.status !== 200) throw new Error(`sign-in failed: ${res.status}`);
 const { token } = (await res.json()) as { token: string };
 
 const receivedAt: number[] = [];
-const liveTimeMs: number[] = [];
+const newestPointMs: number[] = [];
 const ws = new WebSocket(`${baseUrl.replace(/^http/, 'ws')}/ws`);
 ws.on('open', () => ws.send(JSON.stringify({ type: 'auth', token })));
 ws.on('message', (data) => {
   const at = epochNow();
   const message = JSON.parse(data.toString()) as ServerMessage;
   if (message.type === 'hello') console.log('ready');
-  if (message.type !== 'live' || message.live.time === null) return;
+  if (message.type !== 'live' || message.series.t.length === 0) return;
   receivedAt.push(at);
-  liveTimeMs.push(Date.parse(message.live.time));
+  newestPointMs.push(message.series.t[message.series.t.length - 1]);
 });
 process.on('SIGTERM', () => {
   ws.close();
-  writeFileSync(out, JSON.stringify({ receivedAt, liveTimeMs }));
+  writeFileSync(out, JSON.stringify({ receivedAt, newestPointMs }));
   process.exit(0);
 });

@@ -1,0 +1,113 @@
+import { HttpClient } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSortModule, type Sort } from '@angular/material/sort';
+import { MatTableModule } from '@angular/material/table';
+import { ActivatedRoute, Router } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
+import { hasRole } from '../../../shared/auth/roles';
+import type { ShotsResponse } from '../../../shared/shots/shots-api';
+import type { RunRecord } from '../../../shared/steering/steering-api';
+import { errorText } from '../api/error-text';
+import { Session } from '../auth/session';
+import { formatLocalDateTime, formatNumber, formatQuantity, NO_VALUE } from '../readout/format-quantity';
+import { SteeringRequests } from '../steering/steering-requests';
+import { MeasurementUpload } from './measurement-upload';
+import { ShotChart } from './shot-chart';
+import { agreement, shotsCsv, shotView, sortShots, type ShotColumn, type ShotView } from './shot-comparison';
+
+/**
+ * The Shots page: the shots of a run with the prediction stored at each and the TOF image the
+ * imaging analysis measured, as a sortable table, two charts against θ (aspect ratios with
+ * error bars, and their difference), how far measured and predicted deformations are apart,
+ * a CSV export, and for operators the upload of measurement files.
+ */
+@Component({
+  selector: 'tw-shots-page',
+  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatSelectModule, MatSortModule, MatTableModule, MeasurementUpload, ShotChart],
+  templateUrl: './shots-page.html',
+  styleUrl: './shots-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ShotsPage {
+  private readonly http = inject(HttpClient);
+  private readonly requests = inject(SteeringRequests);
+  private readonly router = inject(Router);
+  private readonly route = inject(ActivatedRoute);
+  private readonly session = inject(Session);
+
+  protected readonly isOperator = computed(() => hasRole(this.session.role() ?? 'viewer', 'operator'));
+  protected readonly runs = signal<RunRecord[]>([]);
+  protected readonly runId = signal<number | null>(null);
+  protected readonly views = signal<ShotView[]>([]);
+  protected readonly sort = signal<Sort>({ active: 'atMs', direction: '' });
+  protected readonly loading = signal(false);
+  protected readonly problem = signal<string | null>(null);
+  protected readonly notice = signal<string | null>(null);
+
+  protected readonly columns: ShotColumn[] = [
+    'label', 'atMs', 'thetaDeg', 'phiDeg', 'magnitudeG', 'predictedAspect', 'measuredAspect', 'deformationRatio', 'predictedAngleDeg', 'measuredAngleDeg',
+  ];
+  protected readonly rows = computed(() => sortShots(this.views(), this.sort().active as ShotColumn, this.sort().direction));
+  protected readonly agreement = computed(() => agreement(this.views()));
+  protected readonly measuredCount = computed(() => this.views().filter((v) => v.measuredAspect !== null).length);
+  protected readonly run = computed(() => this.runs().find((r) => r.id === this.runId()) ?? null);
+
+  protected readonly number = (value: number | null, digits: number) => (value === null ? NO_VALUE : formatNumber(value, digits));
+  protected readonly quantity = formatQuantity;
+  protected readonly dateTime = (iso: string | number) => formatLocalDateTime(typeof iso === 'number' ? iso : Date.parse(iso));
+
+  constructor() {
+    void this.loadRuns();
+  }
+
+  private async loadRuns(): Promise<void> {
+    try {
+      const runs = await this.requests.runs();
+      this.runs.set(runs);
+      const asked = Number(this.route.snapshot.queryParamMap.get('run'));
+      const first = runs.find((r) => r.id === asked) ?? runs.find((r) => r.shots.length > 0) ?? runs[0];
+      if (first) await this.showRun(first.id);
+    } catch (err) {
+      this.problem.set(errorText(err));
+    }
+  }
+
+  protected async showRun(runId: number): Promise<void> {
+    this.runId.set(runId);
+    void this.router.navigate([], { relativeTo: this.route, queryParams: { run: runId }, replaceUrl: true });
+    await this.loadShots();
+  }
+
+  private async loadShots(): Promise<void> {
+    const runId = this.runId();
+    if (runId === null) return;
+    this.loading.set(true);
+    this.problem.set(null);
+    try {
+      const body = await firstValueFrom(this.http.get<ShotsResponse>('/api/shots', { params: { run: runId } }));
+      if (this.runId() === runId) this.views.set(body.shots.map(shotView));
+    } catch (err) {
+      this.problem.set(errorText(err));
+    } finally {
+      this.loading.set(false);
+    }
+  }
+
+  protected async measurementsStored(count: number): Promise<void> {
+    this.notice.set(`Stored ${count} measured ${count === 1 ? 'image' : 'images'}.`);
+    await this.loadShots();
+  }
+
+  protected exportCsv(): void {
+    const blob = new Blob([shotsCsv(this.rows())], { type: 'text/csv;charset=utf-8' });
+    const link = document.createElement('a');
+    link.href = URL.createObjectURL(blob);
+    link.download = `tiltwatch-shots-run-${this.runId()}.csv`;
+    link.click();
+    URL.revokeObjectURL(link.href);
+  }
+}
