@@ -5,7 +5,7 @@
  * the focus stays where it is.
  */
 export async function keepFocusOnAlarm(host: HTMLElement, id: string, request: () => Promise<void>): Promise<void> {
-  const row = () => host.querySelector<HTMLElement>(`[data-alarm-id="${CSS.escape(id)}"]`);
+  const row = () => [...host.querySelectorAll<HTMLElement>('[data-alarm-id]')].find((el) => el.dataset['alarmId'] === id);
   row()?.focus();
   try {
     await request();

@@ -5,7 +5,7 @@ describe('formatAzimuth', () => {
   it('rounds first, then brings the azimuth into [0°, 360°)', () => {
     expect(formatAzimuth(359.996, 2)).toBe('0.00°');
     expect(formatAzimuth(359.994, 2)).toBe('359.99°');
-    expect(formatAzimuth(359.95, 1)).toBe('0.0°');
+    expect(formatAzimuth(359.96, 1)).toBe('0.0°');
     expect(formatAzimuth(360, 1)).toBe('0.0°');
     expect(formatAzimuth(0, 1)).toBe('0.0°');
   });
