@@ -20,7 +20,12 @@ describe('Clarity in Chromium', () => {
       body: body === undefined ? undefined : JSON.stringify(body),
     });
 
-  const signedIn = (role: 'operator' | 'lead') => openSignedIn(env, role, { viewport: { width: 1920, height: 1080 } });
+  /** A wall-size page signed in as `role`, once Live shows the field. */
+  async function signedIn(role: 'operator' | 'lead') {
+    const page = await openSignedIn(env, role, { viewport: { width: 1920, height: 1080 } });
+    await page.getByRole('region', { name: 'Field' }).waitFor({ timeout: 30_000 });
+    return page;
+  }
 
   it('opens Coil detail from the Live coil strip and from a rationale text, with readings, trip chain, alarms and charts', async () => {
     const page = await signedIn('operator');
