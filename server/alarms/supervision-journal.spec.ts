@@ -4,6 +4,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { auditLog, alarmEvents, alarmStates, interlockTrips } from '../db/schema.js';
 import { openDatabase, type OpenDatabase } from '../db/database.js';
 import { Interlock } from '../interlock/interlock.js';
+import { testDatabaseUrl } from '../testing/external-services.js';
 import { refuseWrites } from '../testing/refuse-writes.js';
 import { makeDataDir, removeDataDir } from '../testing/test-server.js';
 import type { AlarmEvent, AlarmMemory } from './alarm-state.js';
@@ -35,8 +36,9 @@ const raised: AlarmMemory = {
 };
 
 /**
- * The supervision journal with a real PGlite database; the database refuses writes through a
- * trigger (as during an outage). A "restart" is a new journal and log on the same data folder.
+ * The supervision journal with a real database (PGlite, or PostgreSQL in the external pass),
+ * which refuses writes through a trigger (as during an outage). A "restart" is a new journal
+ * and log on the same data folder.
  */
 describe('supervision journal', () => {
   let dir: string;
@@ -46,7 +48,7 @@ describe('supervision journal', () => {
 
   beforeEach(async () => {
     dir = await makeDataDir();
-    database = await openDatabase({ dataDir: dir, databaseUrl: null });
+    database = await openDatabase({ dataDir: dir, databaseUrl: await testDatabaseUrl(dir) });
     errors.length = 0;
   });
   afterEach(async () => {

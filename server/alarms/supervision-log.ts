@@ -98,8 +98,8 @@ export class SupervisionLog {
    * database answers.
    */
   async recordTrip(trip: TripRecord): Promise<void> {
+    if (this.closed) throw new Error('the server is shutting down; the trip was not recorded');
     const record = this.journal.append({ kind: 'trip', trip })!;
-    if (this.closed) throw new Error('the server is shutting down; the trip waits in the journal for the next start');
     await this.flush();
     if (this.journal.pending().some((r) => r.id === record.id)) throw this.failure?.error ?? new Error('the trip was not written');
   }

@@ -165,6 +165,8 @@ export const fastBatches = pgTable(
     codec: smallint('codec').notNull(),
     /** Currents x, y, z (A) and voltages x, y, z (V), `sample_count` each. */
     samples: sampleBlob('samples').notNull(),
+    /** 100 ms block means of the currents (server/storage/block-means.ts); null for rows stored before it existed. */
+    blockMeans: sampleBlob('block_means'),
     /** Setpoints of the batch's last frame, A. */
     setpointX: real('setpoint_x').notNull(),
     setpointY: real('setpoint_y').notNull(),

@@ -1,25 +1,15 @@
 import { eq } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { HandoverRecord } from '../../shared/handover/handover-api.js';
-import { openDatabase, type OpenDatabase } from '../db/database.js';
 import { handoverItems, handovers } from '../db/schema.js';
-import { makeDataDir, removeDataDir } from '../testing/test-server.js';
+import { useTempDatabase } from '../testing/temp-database.js';
 
 /** The database's own guards behind the workflow: frozen once accepted, one open at a time, items only closed. */
 describe('handover storage guards', () => {
-  let dir: string;
-  let database: OpenDatabase;
+  const database = useTempDatabase();
   const record = { filledAt: '2026-12-02T06:00:00.000Z' } as HandoverRecord;
   const period = { periodFrom: new Date('2026-12-01T18:00:00Z'), periodTo: new Date('2026-12-02T06:00:00Z') };
 
-  beforeAll(async () => {
-    dir = await makeDataDir();
-    database = await openDatabase({ dataDir: dir, databaseUrl: null });
-  });
-  afterAll(async () => {
-    await database?.close();
-    removeDataDir(dir);
-  });
 
   it('refuses any change to an accepted handover and any deletion', async () => {
     const { db } = database;

@@ -44,8 +44,8 @@ export function historyHandlers(deps: HistoryDeps): Pick<RouteHandlers, 'history
       });
       if (request.format === 'csv') return streamCsv(res, sources, plan, run);
       const body = await unavailableAs503(async (): Promise<HistoryResponse> => {
-        const window = await historyWindow(sources, plan);
-        const prediction = await deps.writer.predictions(fromMs, toMs, request.points);
+        // The main database (events) and the storage worker (the rest) answer side by side.
+        const [window, prediction, events] = await Promise.all([historyWindow(sources, plan), deps.writer.predictions(fromMs, toMs, request.points), historyEvents(deps.db, fromMs, toMs)]);
         return {
           from: new Date(fromMs).toISOString(),
           to: new Date(toMs).toISOString(),
@@ -54,7 +54,7 @@ export function historyHandlers(deps: HistoryDeps): Pick<RouteHandlers, 'history
           series: window.series,
           slow: window.slow,
           prediction,
-          events: await historyEvents(deps.db, fromMs, toMs),
+          events,
           run,
         };
       });

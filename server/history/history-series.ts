@@ -10,12 +10,18 @@ import type { SlowChunk } from '../../shared/live/live-state.js';
 import type { CalibrationCache } from '../field/calibration-cache.js';
 import { appendSeriesChunk, appendSlowChunk, DECIMATION_BLOCK_MS, emptySeriesChunk, emptySlowChunk } from '../live/series-chunk.js';
 import { rawSeries, rollupSeries } from '../series/series-query.js';
+import { MEANS_BLOCK_MS } from '../storage/block-means.js';
 import type { TelemetryReader } from '../storage/storage-protocol.js';
 
 /** Points per chunk read from the storage worker. */
-const CHUNK_POINTS = 1000;
-/** Period of the slow readings, ms (10 Hz): coarser blocks are averaged. */
-const SLOW_PERIOD_MS = 100;
+const CHUNK_POINTS = 5000;
+/** Points whose σ are computed between two turns of the event loop. */
+const SIGMA_SLICE = 500;
+/**
+ * Raw windows give the slow readings (10 Hz, slowly changing) blocks this many times longer
+ * than the fast ones: a tenth of the points, every reading for windows under a minute.
+ */
+const SLOW_BLOCK_FACTOR = 10;
 
 export interface HistoryPlan {
   fromMs: number;
@@ -23,6 +29,8 @@ export interface HistoryPlan {
   source: 'raw' | 'rollup';
   /** Each point is the mean of a block this long, ms (blocks aligned to the epoch). */
   blockMs: number;
+  /** The same for the slow readings. */
+  slowBlockMs: number;
 }
 
 export interface HistoryChunk {
@@ -39,14 +47,22 @@ export interface HistorySources {
 }
 
 /**
- * Raw block means (10 ms or longer) while the window lies within raw retention and fewer
- * than one point per second is not needed; otherwise roll-ups in whole seconds.
+ * Raw block means while the window lies within raw retention and points finer than a second
+ * are asked for; otherwise roll-ups in whole seconds. Raw blocks are 10 ms, 20 ms, … up to
+ * 100 ms, then whole multiples of 100 ms read from the stored block means (block-means.ts);
+ * a raw window is read from whole blocks of the stored means' length (its ends rounded outwards).
  */
 export function planHistory(fromMs: number, toMs: number, points: number, nowMs: number, rawHours: number): HistoryPlan {
   const spanMs = toMs - fromMs;
-  const rawBlockMs = Math.max(1, Math.ceil(spanMs / points / DECIMATION_BLOCK_MS)) * DECIMATION_BLOCK_MS;
-  if (fromMs >= nowMs - rawHours * 3600_000 && rawBlockMs < 1000) return { fromMs, toMs, source: 'raw', blockMs: rawBlockMs };
-  return { fromMs, toMs, source: 'rollup', blockMs: Math.max(1, Math.ceil(spanMs / points / 1000)) * 1000 };
+  const fineMs = Math.max(1, Math.ceil(spanMs / points / DECIMATION_BLOCK_MS)) * DECIMATION_BLOCK_MS;
+  const rawBlockMs = fineMs > MEANS_BLOCK_MS ? Math.ceil(fineMs / MEANS_BLOCK_MS) * MEANS_BLOCK_MS : fineMs;
+  const unitMs = rawBlockMs % MEANS_BLOCK_MS === 0 ? MEANS_BLOCK_MS : DECIMATION_BLOCK_MS;
+  if (fromMs >= nowMs - rawHours * 3600_000 && rawBlockMs < 1000) {
+    const snap = (ms: number, round: (v: number) => number) => round(ms / unitMs) * unitMs;
+    return { fromMs: snap(fromMs, Math.floor), toMs: snap(toMs, Math.ceil), source: 'raw', blockMs: rawBlockMs, slowBlockMs: rawBlockMs * SLOW_BLOCK_FACTOR };
+  }
+  const blockMs = Math.max(1, Math.ceil(spanMs / points / 1000)) * 1000;
+  return { fromMs, toMs, source: 'rollup', blockMs, slowBlockMs: blockMs };
 }
 
 /** The window's points in time order, a chunk (≤ CHUNK_POINTS blocks, aligned to blocks) at a time. */
@@ -54,7 +70,7 @@ export async function* historyChunks(sources: HistorySources, plan: HistoryPlan)
   const chunkMs = plan.blockMs * CHUNK_POINTS;
   for (let a = plan.fromMs; a < plan.toMs; ) {
     const b = Math.min(plan.toMs, (Math.floor(a / chunkMs) + 1) * chunkMs);
-    yield plan.source === 'raw' ? await rawChunk(sources, a, b, plan.blockMs) : await rollupChunk(sources.reader, a, b, plan.blockMs);
+    yield plan.source === 'raw' ? await rawChunk(sources, a, b, plan.blockMs, plan.slowBlockMs) : await rollupChunk(sources.reader, a, b, plan.blockMs);
     a = b;
   }
 }
@@ -77,12 +93,13 @@ function emptyHistorySeries(): HistorySeries {
 }
 
 /** Raw block means; σ of each point from its batch's calibration covariance at the point's currents. */
-async function rawChunk(sources: HistorySources, fromMs: number, toMs: number, blockMs: number): Promise<HistoryChunk> {
+async function rawChunk(sources: HistorySources, fromMs: number, toMs: number, blockMs: number, slowBlockMs: number): Promise<HistoryChunk> {
   const raw = await rawSeries(sources.reader, sources.calibrations, fromMs, toMs, blockMs);
-  const slow = await sources.reader.slowRows(fromMs, toMs, blockMs > SLOW_PERIOD_MS ? blockMs : 0);
+  const slow = await sources.reader.slowRows(fromMs, toMs, slowBlockMs);
   const series: HistorySeries = { ...raw.series, sigmaBMagG: [], sigmaThetaDeg: [], sigmaPhiDeg: [] };
   const { x, y, z } = raw.series.currentA;
   for (let i = 0; i < raw.series.t.length; i++) {
+    if (i > 0 && i % SIGMA_SLICE === 0) await new Promise((resolve) => setImmediate(resolve));
     const u = uncertaintyOf(raw.calibrations[i], { x: x[i], y: y[i], z: z[i] });
     series.sigmaBMagG.push(u?.magnitudeGauss ?? null);
     series.sigmaThetaDeg.push(u?.thetaDeg ?? null);

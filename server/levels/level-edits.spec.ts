@@ -1,11 +1,11 @@
 import type { Request, RequestHandler, Response } from 'express';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { composeChannelBands } from '../../shared/levels/channel-bands.js';
 import { AlarmBook } from '../alarms/alarm-book.js';
 import { loadAlarmLimits } from '../alarms/alarm-limit-repository.js';
 import { alarmLimitHandlers } from '../alarms/alarm-limit-routes.js';
-import { openDatabase, type Db, type OpenDatabase } from '../db/database.js';
-import { makeDataDir, removeDataDir } from '../testing/test-server.js';
+import type { Db } from '../db/database.js';
+import { useTempDatabase } from '../testing/temp-database.js';
 import { DEMO_LEVEL_SET } from './demo-levels.js';
 import { levelHandlers } from './level-routes.js';
 import { LevelStore } from './level-store.js';
@@ -16,17 +16,7 @@ import { LevelStore } from './level-store.js';
  * so the second check runs while the first write is still pending.
  */
 describe('level set and alarm limits edited at the same moment', () => {
-  let dir: string;
-  let database: OpenDatabase;
-
-  beforeAll(async () => {
-    dir = await makeDataDir();
-    database = await openDatabase({ dataDir: dir, databaseUrl: null });
-  });
-  afterAll(async () => {
-    await database?.close();
-    removeDataDir(dir);
-  });
+  const database = useTempDatabase();
 
   it('stores only one of two edits that are each valid alone but together put an alarm beyond its trip level', async () => {
     let release!: () => void;

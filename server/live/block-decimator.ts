@@ -42,6 +42,24 @@ export class BlockDecimator {
     }
   }
 
+  /**
+   * Adds `n` samples known only by their mean time (epoch ms) and channel means, all within
+   * one block (a part of a finer aligned block). The block is emitted when a later block starts
+   * or at `flush`.
+   */
+  pushMean(tMs: number, n: number, x: number, y: number, z: number, sink: BlockSink): void {
+    const block = Math.floor(tMs / this.blockMs);
+    if (block !== this.block) {
+      this.flush(sink);
+      this.block = block;
+    }
+    this.n += n;
+    this.sumT += tMs * n;
+    this.sumX += x * n;
+    this.sumY += y * n;
+    this.sumZ += z * n;
+  }
+
   /** Emits the partly filled block, if any. */
   flush(sink: BlockSink): void {
     if (this.n > 0) sink(this.sumT / this.n, this.sumX / this.n, this.sumY / this.n, this.sumZ / this.n);

@@ -1,21 +1,10 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openDatabase, type OpenDatabase } from '../db/database.js';
+import { describe, expect, it } from 'vitest';
 import { auditLog, logbookAttachments, logbookEntries } from '../db/schema.js';
-import { makeDataDir, removeDataDir } from '../testing/test-server.js';
+import { useTempDatabase } from '../testing/temp-database.js';
 import { findEntries, insertEntry } from './logbook-repository.js';
 
 describe('logbook storage', () => {
-  let dir: string;
-  let database: OpenDatabase;
-
-  beforeAll(async () => {
-    dir = await makeDataDir();
-    database = await openDatabase({ dataDir: dir, databaseUrl: null });
-  });
-  afterAll(async () => {
-    await database?.close();
-    removeDataDir(dir);
-  });
+  const database = useTempDatabase();
 
   it('writes the entry, its files and the audit record together, and refuses to change or delete any of them', async () => {
     const { db } = database;

@@ -1,7 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openDatabase, type OpenDatabase } from '../db/database.js';
+import { describe, expect, it } from 'vitest';
 import { fastBatches, rollups1s, slowSamples } from '../db/schema.js';
-import { makeDataDir, removeDataDir } from '../testing/test-server.js';
+import { useTempDatabase } from '../testing/temp-database.js';
 import { pruneTelemetry } from './retention.js';
 import { encodeSamples, SAMPLE_CODEC } from './sample-codec.js';
 
@@ -9,17 +8,7 @@ const HOUR = 3600_000;
 const NOW = Date.UTC(2026, 5, 1);
 
 describe('telemetry retention', () => {
-  let dir: string;
-  let database: OpenDatabase;
-
-  beforeAll(async () => {
-    dir = await makeDataDir();
-    database = await openDatabase({ dataDir: dir, databaseUrl: null });
-  });
-  afterAll(async () => {
-    await database?.close();
-    removeDataDir(dir);
-  });
+  const database = useTempDatabase();
 
   const batch = (t0Ms: number) => {
     const samples = encodeSamples([0, 1, 2, 3, 4, 5].map((c) => [c, c + 0.5]));

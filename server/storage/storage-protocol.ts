@@ -61,7 +61,7 @@ export interface RawCurrents {
  */
 export interface TelemetryReader {
   rawCurrents(fromMs: number, toMs: number, blockMs: number): Promise<RawCurrents>;
-  /** Slow readings (temperatures °C, flows L/min), as block means when `blockMs` is longer than their 100 ms period. */
+  /** Slow readings (temperatures °C, flows L/min); means per `blockMs` block when given. */
   slowRows(fromMs: number, toMs: number, blockMs?: number): Promise<SlowChunk>;
   rollupBlocks(fromMs: number, toMs: number, blockMs: number): Promise<RollupBlock[]>;
   /** The predictions made in the window after the one in force at `fromMs`; at most `maxPoints` (the last of each equal time block). */

@@ -63,6 +63,47 @@ describe('TelemetryStore over PGlite', () => {
     expect(slow.temperatureC.z).toEqual([32]);
   });
 
+  it('reads long windows from the stored 100 ms block means, merging the parts of blocks cut by batch edges', async () => {
+    const store = new TelemetryStore(() => database.db, { maxPendingSamples: 10_000 });
+    // Two adjacent batches starting 50 ms into a block: the block at 500 ms is half in each.
+    store.append(batchInput(T0 + 30_050, 300));
+    store.append(batchInput(T0 + 30_550, 325));
+    await store.flush();
+    const means = await store.rawCurrents(T0 + 30_000, T0 + 31_100, 100);
+    expect(Array.from(means.t)).toEqual([30_074.5, 30_149.5, 30_249.5, 30_349.5, 30_449.5, 30_549.5, 30_649.5, 30_749.5, 30_849.5, 30_949.5, 31_024.5].map((ms) => T0 + ms));
+    // Sample k of each batch (k = 0…499, one per ms from its start) has x = 1 + k·1e-3.
+    const expected = (startMs: number, endMs: number) => {
+      let sum = 0;
+      for (let t = startMs; t < endMs; t++) sum += t < 30_550 ? 1 + (t - 30_050) * 1e-3 : 1 + (t - 30_550) * 1e-3;
+      return sum / (endMs - startMs);
+    };
+    expect(means.x[0]).toBeCloseTo(expected(30_050, 30_100), 5);
+    expect(means.x[5]).toBeCloseTo(expected(30_500, 30_600), 5);
+    expect(means.x.at(-1)).toBeCloseTo(expected(31_000, 31_050), 5);
+    // The same blocks from the samples themselves (a window off the 100 ms grid).
+    const exact = await store.rawCurrents(T0 + 30_000 + 1e-3, T0 + 31_100, 100);
+    expect(Array.from(exact.t)).toEqual(Array.from(means.t));
+    expect(Math.max(...Array.from(exact.x, (x, i) => Math.abs(x - means.x[i])))).toBeLessThanOrEqual(adcStep(CURRENT_ADC) / 2);
+  });
+
+  it('keeps each prediction once (a later update replaces it), with the one in force before a window, thinned to the points asked for', async () => {
+    const store = new TelemetryStore(() => database.db, { maxPendingSamples: 10_000 });
+    const p = (tMs: number, collapseRatio: number | null) => ({
+      tMs, profileId: 1, thetaDeg: 30, phiDeg: 20, stable: true, reason: null, epsDd: 0.15,
+      fermiSurfaceAspect: 0.9, cloudAspect: 1.1, tofAspect: 1.2, tofMajorAngleDeg: 10, collapseRatio, camera: null,
+    });
+    const base = T0 + 40_000;
+    const predictions = [p(base - 5000, 0.3), p(base, null), p(base + 100, 0.5), p(base + 200, 0.6), p(base + 900, 0.7)];
+    store.append({ batches: [], slow: [], rollups: [], predictions, frames: 0, samples: 0 });
+    store.append({ batches: [], slow: [], rollups: [], predictions: [p(base, 0.45)], frames: 0, samples: 0 });
+    await store.flush();
+    const all = await store.predictions(base - 1000, base + 1000, 100);
+    expect(all.t).toEqual([base - 5000, base, base + 100, base + 200, base + 900]);
+    expect(all.collapseRatio).toEqual([0.3, 0.45, 0.5, 0.6, 0.7]);
+    // Two points over the window: the last prediction of each half.
+    expect((await store.predictions(base - 1000, base + 1000, 2)).t).toEqual([base - 5000, base + 900]);
+  });
+
   it('keeps what arrives while the database is not available and writes it once it is', async () => {
     let available: Db | null = null;
     const outages: boolean[] = [];

@@ -12,6 +12,7 @@ import type { SlowChunk } from '../../shared/live/live-state.js';
 import { BlockDecimator } from '../live/block-decimator.js';
 import { appendSlowPoint, emptySlowChunk } from '../live/series-chunk.js';
 import type { RollupRow } from './rollup-accumulator.js';
+import { encodeBlockMeans, forEachBlockMean, MEANS_BLOCK_MS } from './block-means.js';
 import { decodeSamples, encodeSamples, SAMPLE_CODEC } from './sample-codec.js';
 import type { AppendInput, BatchInput, PredictionRow, RawCurrents, RollupBlock, StoreState, TelemetryReader } from './storage-protocol.js';
 import { WriteQueue, type WriteQueueOptions, type WriteUnit } from './write-queue.js';
@@ -76,12 +77,27 @@ export class TelemetryStore implements TelemetryReader {
     return { ...this.written, ...this.queue.state() };
   }
 
-  /** Block means (`blockMs` blocks) of the stored currents in [fromMs, toMs), with each batch's calibration id. */
+  /**
+   * Block means (`blockMs` blocks) of the stored currents in [fromMs, toMs), with each batch's
+   * calibration id. When the window and the blocks are whole multiples of 100 ms they are built
+   * from the stored 10 ms means (block-means.ts) without reading or inflating the samples.
+   */
   async rawCurrents(fromMs: number, toMs: number, blockMs: number): Promise<RawCurrents> {
+    const fromMeans = [fromMs, toMs, blockMs].every((v) => v % MEANS_BLOCK_MS === 0);
     const rows = await this.open()
-      .select({ t0Ms: fastBatches.t0Ms, rateHz: fastBatches.rateHz, n: fastBatches.sampleCount, calibrationId: fastBatches.calibrationId, codec: fastBatches.codec, samples: fastBatches.samples })
+      .select({
+        t0Ms: fastBatches.t0Ms,
+        rateHz: fastBatches.rateHz,
+        n: fastBatches.sampleCount,
+        calibrationId: fastBatches.calibrationId,
+        codec: fastBatches.codec,
+        blockMeans: fastBatches.blockMeans,
+        // PostgreSQL reads the large samples column only where it is needed.
+        samples: fromMeans ? sql<Uint8Array | null>`case when ${fastBatches.blockMeans} is null then ${fastBatches.samples} end` : fastBatches.samples,
+      })
       .from(fastBatches)
-      .where(and(gt(fastBatches.t1Ms, fromMs), lt(fastBatches.t0Ms, toMs)))
+      // Whole milliseconds for the integer columns; the samples are cut to the window below.
+      .where(and(gt(fastBatches.t1Ms, Math.floor(fromMs)), lt(fastBatches.t0Ms, Math.ceil(toMs))))
       .orderBy(asc(fastBatches.t0Ms));
     const out = { t: [] as number[], x: [] as number[], y: [] as number[], z: [] as number[], calibrationId: [] as number[] };
     const decimator = new BlockDecimator(blockMs);
@@ -94,7 +110,17 @@ export class TelemetryStore implements TelemetryReader {
       out.calibrationId.push(calibrationId);
     };
     for (const row of rows) {
+      if (fromMeans && row.blockMeans) {
+        forEachBlockMean(row.blockMeans, row.t0Ms, row.rateHz, (tMs, n, x, y, z) => {
+          if (tMs < fromMs || tMs >= toMs) return;
+          if ((row.calibrationId ?? -1) !== calibrationId) decimator.flush(take);
+          calibrationId = row.calibrationId ?? -1;
+          decimator.pushMean(tMs, n, x, y, z, take);
+        });
+        continue;
+      }
       if (row.codec !== SAMPLE_CODEC) throw new Error(`fast batch at ${row.t0Ms} uses codec ${row.codec}; this server reads codec ${SAMPLE_CODEC}`);
+      if (!row.samples) throw new Error(`fast batch at ${row.t0Ms} has no samples`);
       const periodMs = 1000 / row.rateHz;
       const first = Math.max(0, Math.ceil((fromMs - row.t0Ms) / periodMs));
       const end = Math.min(row.n, Math.ceil((toMs - row.t0Ms) / periodMs));
@@ -103,7 +129,6 @@ export class TelemetryStore implements TelemetryReader {
       calibrationId = row.calibrationId ?? -1;
       decimator.push(row.t0Ms + first * periodMs, row.rateHz, x.subarray(first, end), y.subarray(first, end), z.subarray(first, end), take);
     }
-    calibrationId = -1;
     decimator.flush(take);
     return {
       t: Float64Array.from(out.t),
@@ -114,17 +139,25 @@ export class TelemetryStore implements TelemetryReader {
     };
   }
 
-  /** Slow readings in [fromMs, toMs); means over `blockMs` blocks (aligned to the epoch) when given. */
+  /** Slow readings in [fromMs, toMs); with `blockMs`, means per block (aligned to the epoch, at the mean time of its readings). */
   async slowRows(fromMs: number, toMs: number, blockMs = 0): Promise<SlowChunk> {
-    const rows = await this.open()
-      .select()
-      .from(slowSamples)
-      .where(and(gte(slowSamples.tMs, fromMs), lt(slowSamples.tMs, toMs)))
-      .orderBy(asc(slowSamples.tMs));
+    const inWindow = and(gte(slowSamples.tMs, fromMs), lt(slowSamples.tMs, toMs));
     const out = emptySlowChunk();
-    const blocks = new SlowBlocks(blockMs, out);
-    for (const r of rows) blocks.add(r.tMs, [r.coilTempX, r.coilTempY, r.coilTempZ, r.flowX, r.flowY, r.flowZ]);
-    blocks.flush();
+    if (blockMs > 0) {
+      // Inlined (a whole number we computed), so SELECT and GROUP BY are the same expression to PostgreSQL.
+      const block = sql`(${slowSamples.tMs} / ${sql.raw(String(Math.trunc(blockMs)))})`;
+      const num = (column: Parameters<typeof avg>[0]) => avg(column).mapWith(Number);
+      const rows = await this.open()
+        .select({ t: num(slowSamples.tMs), tx: num(slowSamples.coilTempX), ty: num(slowSamples.coilTempY), tz: num(slowSamples.coilTempZ), fx: num(slowSamples.flowX), fy: num(slowSamples.flowY), fz: num(slowSamples.flowZ) })
+        .from(slowSamples)
+        .where(inWindow)
+        .groupBy(block)
+        .orderBy(block);
+      for (const r of rows) appendSlowPoint(out, r.t, { x: r.tx, y: r.ty, z: r.tz }, { x: r.fx, y: r.fy, z: r.fz });
+      return out;
+    }
+    const rows = await this.open().select().from(slowSamples).where(inWindow).orderBy(asc(slowSamples.tMs));
+    for (const r of rows) appendSlowPoint(out, r.tMs, { x: r.coilTempX, y: r.coilTempY, z: r.coilTempZ }, { x: r.flowX, y: r.flowY, z: r.flowZ });
     return out;
   }
 
@@ -208,8 +241,9 @@ function* chunks<T>(rows: T[]): Generator<T[]> {
 
 function toBatchRow(b: BatchInput): typeof fastBatches.$inferInsert {
   const channels = [0, 1, 2, 3, 4, 5].map((c) => b.samples.subarray(c * b.n, (c + 1) * b.n));
+  const t0Ms = Math.floor(b.t0Ms); // stored to the millisecond; the column is an integer
   return {
-    t0Ms: Math.floor(b.t0Ms), // stored to the millisecond; the column is an integer
+    t0Ms,
     t1Ms: Math.ceil(b.t0Ms + (b.n * 1000) / b.rateHz),
     seqFirst: b.seqFirst,
     seqLast: b.seqLast,
@@ -218,6 +252,7 @@ function toBatchRow(b: BatchInput): typeof fastBatches.$inferInsert {
     calibrationId: b.calibrationId,
     codec: SAMPLE_CODEC,
     samples: encodeSamples(channels),
+    blockMeans: encodeBlockMeans(t0Ms, b.rateHz, b.n, b.samples),
     setpointX: b.setpoint.x,
     setpointY: b.setpoint.y,
     setpointZ: b.setpoint.z,
@@ -269,36 +304,4 @@ function predictionColumns(rows: (typeof predictionSamples.$inferSelect)[]): His
     collapseRatio: rows.map((r) => r.collapseRatio),
     camera: rows.map((r) => r.camera ?? null),
   };
-}
-
-/** Means of the six slow channels per `blockMs` block (every reading on its own when `blockMs` ≤ 0). */
-class SlowBlocks {
-  private block = Number.NaN;
-  private n = 0;
-  private sumT = 0;
-  private readonly sums = [0, 0, 0, 0, 0, 0];
-
-  constructor(
-    private readonly blockMs: number,
-    private readonly out: SlowChunk,
-  ) {}
-
-  add(tMs: number, values: number[]): void {
-    const block = this.blockMs > 0 ? Math.floor(tMs / this.blockMs) : tMs;
-    if (block !== this.block) this.flush();
-    this.block = block;
-    this.n++;
-    this.sumT += tMs;
-    for (let c = 0; c < 6; c++) this.sums[c] += values[c];
-  }
-
-  flush(): void {
-    if (this.n > 0) {
-      const m = this.sums.map((v) => v / this.n);
-      appendSlowPoint(this.out, this.sumT / this.n, { x: m[0], y: m[1], z: m[2] }, { x: m[3], y: m[4], z: m[5] });
-    }
-    this.n = 0;
-    this.sumT = 0;
-    this.sums.fill(0);
-  }
 }

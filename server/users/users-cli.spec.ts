@@ -3,6 +3,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { projectRoot } from '../project-root.js';
 import type { RunningServer } from '../server.js';
+import { testDatabaseUrl, usesPostgres } from '../testing/external-services.js';
 import { makeDataDir, removeDataDir, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
 
 interface Run {
@@ -11,12 +12,17 @@ interface Run {
   stderr: string;
 }
 
-/** Runs the users command as `npm run users` does, in a child process, with `input` on standard input. */
-function users(dataDir: string, args: string[], input: string): Promise<Run> {
+/**
+ * Runs the users command as `npm run users` does, in a child process, with `input` on standard
+ * input; on the data folder's PGlite, or in the external pass on the PostgreSQL database the
+ * test servers on `dataDir` use.
+ */
+async function users(dataDir: string, args: string[], input: string): Promise<Run> {
+  const databaseUrl = (await testDatabaseUrl(dataDir)) ?? '';
   return new Promise((resolve, reject) => {
     const child = spawn(process.execPath, ['--import', 'tsx', path.join('server', 'users', 'users-cli.ts'), ...args], {
       cwd: projectRoot(),
-      env: { ...process.env, TILTWATCH_DATA_DIR: dataDir, DATABASE_URL: '', LOG_LEVEL: 'silent' },
+      env: { ...process.env, TILTWATCH_DATA_DIR: dataDir, DATABASE_URL: databaseUrl, LOG_LEVEL: 'silent' },
       stdio: ['pipe', 'pipe', 'pipe'],
     });
     let stdout = '';
@@ -100,11 +106,17 @@ describe('accounts without --demo and the users command', { timeout: 120_000 }, 
       expect(signedIn.status).toBe(200);
       expect(signedIn.body.user?.role).toBe('admin');
 
-      // While the server holds the data folder, the command refuses politely and changes nothing.
-      const refused = await users(dir, ['add', 'second@lindqvist-hall.example', '--role', 'viewer'], 'second pass phrase\n');
-      expect(refused.code).toBe(2);
-      expect(refused.stderr).toMatch(/in use by Tiltwatch process .*stop the server to use this command/s);
-      expect((await login(server, 'second@lindqvist-hall.example', 'second pass phrase')).status).toBe(401);
+      const beside = await users(dir, ['add', 'second@lindqvist-hall.example', '--role', 'viewer'], 'second pass phrase\n');
+      if (usesPostgres()) {
+        // With a PostgreSQL server the command works next to the running server.
+        expect(beside.code).toBe(0);
+        expect((await login(server, 'second@lindqvist-hall.example', 'second pass phrase')).status).toBe(200);
+      } else {
+        // While the server holds the data folder, the command refuses politely and changes nothing.
+        expect(beside.code).toBe(2);
+        expect(beside.stderr).toMatch(/in use by Tiltwatch process .*stop the server to use this command/s);
+        expect((await login(server, 'second@lindqvist-hall.example', 'second pass phrase')).status).toBe(401);
+      }
     } finally {
       await server.close();
     }

@@ -16,7 +16,7 @@ import type { HealthReport } from '../../server/health/health-route.js';
 import type { RunningServer } from '../../server/server.js';
 import { startControllerFeed } from '../../server/testing/controller-feed.js';
 import { startPostgres, type PostgresServer } from '../../server/testing/postgres-server.js';
-import { callApi, makeEmptyDir, removeDataDir, signIn, startTestServer } from '../../server/testing/test-server.js';
+import { callApi, makeEmptyDir, removeDataDir, startTestServer } from '../../server/testing/test-server.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import { addAccounts, login, spawnServer } from '../support/server-process.js';
 import { waitFor } from '../support/stack.js';
@@ -56,6 +56,8 @@ describe('supervision records through a PostgreSQL outage and a kill -9', () => 
       const get = async <T>(route: string) => (await (await fetch(`${proc.url}${route}`, { headers: { authorization: `Bearer ${viewer}` } })).json()) as T;
       const health = async () => (await (await fetch(`${proc.url}/api/health`)).json()) as HealthReport;
       await waitFor(async () => ((await health()).frames.acceptedByKind.fast > 50 ? true : undefined), 'telemetry', 30_000);
+      // Signed in before the outage: the server knows the account from memory while the database is down.
+      expect((await get<InterlockStatus>('/api/interlock')).state).toBe('ok');
 
       await postgres.stop();
       await waitFor(async () => ((await health()).database?.state === 'unreachable' ? true : undefined), 'the outage on /api/health', 20_000);
@@ -67,8 +69,11 @@ describe('supervision records through a PostgreSQL outage and a kill -9', () => 
       }, 'the trip during the outage', 20_000);
       expect(tripped.firstOut?.condition).toBe('low-flow-x');
       await waitFor(() => feed.commands.find((c) => c.topic === TOPICS.trip), 'the trip command');
-      const alarm = (await get<{ alarms: AlarmListItem[] }>('/api/alarms?state=active')).alarms.find((a) => a.id === 'flow.x.LL');
-      expect(alarm?.state).toBe('unacknowledged');
+      await waitFor(
+        async () => ((await get<{ alarms: AlarmListItem[] }>('/api/alarms?state=active')).alarms.find((a) => a.id === 'flow.x.LL')?.state === 'unacknowledged' ? true : undefined),
+        'the low-low flow alarm (after its on-delay)',
+        20_000,
+      );
       // The trip and the transitions are journaled and counted, the database refusing them.
       const waiting = await waitFor(async () => {
         const h = await health();
@@ -86,7 +91,7 @@ describe('supervision records through a PostgreSQL outage and a kill -9', () => 
 
     await postgres.start();
     server = await startTestServer(dir, {}, env);
-    const token = await signIn(server, 'viewer');
+    const token = await login(server.url, 'viewer');
     expect(server.counters().supervision).toMatchObject({ journalPending: 0, journalBytes: 0, failingSince: null });
     const status = (await callApi<InterlockStatus>(server, token, 'GET', '/api/interlock')).body;
     expect(status).toMatchObject({ state: 'tripped', firstOut: { condition: 'low-flow-x' } });

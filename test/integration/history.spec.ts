@@ -93,7 +93,16 @@ describe('history: stored window of telemetry, predictions and records', () => {
     const rolled = (await history(`from=${iso(fromMs)}&to=${iso(toMs)}&points=3`)).body;
     expect(rolled).toMatchObject({ source: 'rollup', resolutionMs: 2000 });
     const raw = (await history(`from=${iso(fromMs)}&to=${iso(toMs)}&points=3000`)).body;
-    expect(raw.source).toBe('raw');
+    expect(raw).toMatchObject({ source: 'raw', resolutionMs: 10 });
+    // 200 ms points come from the stored 100 ms block means, not the samples: the same means.
+    const coarse = (await history(`from=${iso(fromMs)}&to=${iso(toMs)}&points=30`)).body;
+    expect(coarse).toMatchObject({ source: 'raw', resolutionMs: 200 });
+    expect(coarse.series.t.length).toBe(30);
+    coarse.series.t.forEach((t, k) => {
+      const inBlock = raw.series.t.flatMap((rt, i) => (Math.floor(rt / 200) === Math.floor(t / 200) ? [i] : []));
+      const mean = inBlock.reduce((s, i) => s + raw.series.currentA.x[i], 0) / inBlock.length;
+      expect(coarse.series.currentA.x[k]).toBeCloseTo(mean, 4);
+    });
     rolled.series.t.forEach((t, k) => {
       const inBlock = raw.series.t.flatMap((rt, i) => (Math.abs(rt - t) < 1000 ? [i] : []));
       const mean = (values: number[]) => inBlock.reduce((s, i) => s + values[i], 0) / inBlock.length;
@@ -142,6 +151,8 @@ describe('history: stored window of telemetry, predictions and records', () => {
       return r.state === 'running' ? undefined : r;
     }, 'the run to end', 20_000);
     expect(run.state).toBe('done');
+    const noteAt = iso(Date.parse(run.shots[0].at) + 100);
+    expect((await api('operator', 'POST', '/api/logbook/entries', { text: 'Cloud looks rounder than predicted\nat the first angle', at: noteAt })).status).toBe(201);
     const { status, body } = await history(`run=${run.id}`);
     expect(status).toBe(200);
     expect(body.from).toBe(iso(Date.parse(run.startedAt) - 5000));
@@ -151,6 +162,8 @@ describe('history: stored window of telemetry, predictions and records', () => {
     expect(shots.map((e) => e.id)).toEqual(run.shots.map((s) => s.id));
     expect(shots.map((e) => e.at)).toEqual(run.shots.map((s) => s.at));
     expect(body.events.filter((e) => e.kind === 'run').map((e) => e.label)).toEqual([expect.stringMatching(/^Run \d+ started: sequence "History scan"/), `Run ${run.id} done`]);
+    expect(body.events.find((e) => e.kind === 'note')).toMatchObject({ at: noteAt, label: 'Logbook: Cloud looks rounder than predicted', actor: 'operator@tiltwatch.example' });
+    expect(body.events.map((e) => e.t)).toEqual([...body.events.map((e) => e.t)].sort((a, b) => a - b));
     // The shot's stored field is what the history shows at its moment.
     const shotMs = Date.parse(run.shots[0].at);
     const k = body.series.t.findIndex((t) => t >= shotMs);

@@ -27,6 +27,8 @@ export interface StackOptions {
   simulatorOptions?: Partial<SimulatorOptions>;
   /** Extra environment for the server's configuration. */
   env?: Record<string, string>;
+  /** Runs on the data folder before the server starts (e.g. to fill its PGlite clusters). */
+  beforeServer?: (dataDir: string) => Promise<void>;
 }
 
 export async function startStack(options: StackOptions = {}): Promise<Stack> {
@@ -42,6 +44,7 @@ export async function startStack(options: StackOptions = {}): Promise<Stack> {
     ...services.env,
     ...options.env,
   });
+  await options.beforeServer?.(dataDir);
   const server = withServices(await startServer(config, { demoAccounts: true }), services);
   let simulator: RunningSimulator | null = null;
   if (options.simulator !== false) {

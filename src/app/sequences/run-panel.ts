@@ -4,6 +4,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { RouterLink } from '@angular/router';
 import type { RunRecord, SequenceRecord } from '../../../shared/steering/steering-api';
 import { errorText } from '../api/error-text';
 import { formatLocalDateTime, formatLocalTime, formatNumber, formatQuantity, formatAzimuth, NO_VALUE } from '../readout/format-quantity';
@@ -19,7 +20,7 @@ const POLL_MS = 1000;
  */
 @Component({
   selector: 'tw-run-panel',
-  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule],
+  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, RouterLink],
   templateUrl: './run-panel.html',
   styleUrl: './run-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -73,4 +73,16 @@ describe('ShotsPage', { timeout: 30_000 }, () => {
     await open('operator');
     expect(host.querySelector('tw-measurement-upload')).not.toBeNull();
   });
+
+  it('reads the runs and the shown run\'s shots again on Reload', async () => {
+    await open('viewer');
+    const measured = SHOTS.map((s, i) => (i === 0 ? s : { ...s, measured: null }));
+    [...host.querySelectorAll('button')].find((b) => b.textContent!.includes('Reload'))!.click();
+    await settle();
+    http.expectOne('/api/runs').flush({ runs: [RUN] });
+    await settle();
+    http.expectOne((r) => r.url === '/api/shots' && r.params.get('run') === '3').flush({ shots: measured });
+    await settle();
+    expect(host.querySelector('.agreement .figure')!.textContent).toMatch(/0\.50\s*× predicted/);
+  });
 });

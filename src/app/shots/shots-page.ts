@@ -64,11 +64,16 @@ export class ShotsPage {
     void this.loadRuns();
   }
 
-  private async loadRuns(): Promise<void> {
+  /** Reads the runs again (a running one may have taken shots since) and the shown run's shots. */
+  protected async reload(): Promise<void> {
+    await this.loadRuns(this.runId());
+  }
+
+  private async loadRuns(keep: number | null = null): Promise<void> {
     try {
       const runs = await this.requests.runs();
       this.runs.set(runs);
-      const asked = Number(this.route.snapshot.queryParamMap.get('run'));
+      const asked = keep ?? Number(this.route.snapshot.queryParamMap.get('run'));
       const first = runs.find((r) => r.id === asked) ?? runs.find((r) => r.shots.length > 0) ?? runs[0];
       if (first) await this.showRun(first.id);
     } catch (err) {

@@ -1,0 +1,1 @@
+ALTER TABLE "fast_batches" ADD COLUMN "block_means" "bytea";
