@@ -1,6 +1,5 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -8,7 +7,7 @@ import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from '../../../shared/auth/u
 import { fieldMessage } from '../api/field-errors';
 import { Session } from '../auth/session';
 import { DialogSubmission } from '../shared-ui/dialog-submission';
-import { FormProblem } from '../shared-ui/form-problem';
+import { DialogFooter } from '../shared-ui/dialog-footer';
 
 /**
  * Changes the signed-in person's own password: the current one, the new one twice. Closes
@@ -17,7 +16,7 @@ import { FormProblem } from '../shared-ui/form-problem';
  */
 @Component({
   selector: 'tw-change-password-dialog',
-  imports: [FormProblem, MatButtonModule, MatDialogModule, MatFormFieldModule, MatInputModule, ReactiveFormsModule],
+  imports: [DialogFooter, MatDialogModule, MatFormFieldModule, MatInputModule, ReactiveFormsModule],
   template: `
     <h2 mat-dialog-title>Change your password</h2>
     <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
@@ -39,12 +38,8 @@ import { FormProblem } from '../shared-ui/form-problem';
           <input matInput type="password" formControlName="repeat" autocomplete="new-password" required />
         </mat-form-field>
         <p class="subject note">Your other sign-ins (other browsers, other computers) end when the password changes.</p>
-        <tw-form-problem [text]="submission.problem()" />
       </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button mat-button type="button" mat-dialog-close>Cancel</button>
-        <button mat-flat-button type="submit" [disabled]="submission.sending()">Change password</button>
-      </mat-dialog-actions>
+      <tw-dialog-footer [submission]="submission" confirm="Change password" />
     </form>
   `,
   styleUrl: '../shared-ui/dialog-form.scss',

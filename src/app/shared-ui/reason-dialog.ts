@@ -1,12 +1,11 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { fieldMessage } from '../api/field-errors';
 import { DialogSubmission } from './dialog-submission';
-import { FormProblem } from './form-problem';
+import { DialogFooter } from './dialog-footer';
 
 /** Longest reason the server accepts, characters. */
 export const MAX_REASON_CHARS = 500;
@@ -30,7 +29,7 @@ export interface ReasonDialogData {
  */
 @Component({
   selector: 'tw-reason-dialog',
-  imports: [FormProblem, MatButtonModule, MatDialogModule, MatFormFieldModule, MatInputModule, ReactiveFormsModule],
+  imports: [DialogFooter, MatDialogModule, MatFormFieldModule, MatInputModule, ReactiveFormsModule],
   template: `
     <h2 mat-dialog-title>{{ data.title }}</h2>
     <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
@@ -50,12 +49,8 @@ export interface ReasonDialogData {
           <mat-hint>Written to the audit trail with your name</mat-hint>
           <mat-error>{{ fieldMessage(form.controls.reason) }}</mat-error>
         </mat-form-field>
-        <tw-form-problem [text]="submission.problem()" />
       </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button mat-button type="button" mat-dialog-close>Cancel</button>
-        <button mat-flat-button type="submit" [disabled]="submission.sending()">{{ data.confirm }}</button>
-      </mat-dialog-actions>
+      <tw-dialog-footer [submission]="submission" [confirm]="data.confirm" />
     </form>
   `,
   styleUrl: './dialog-form.scss',

@@ -1,7 +1,6 @@
 import { HttpClient } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -11,7 +10,7 @@ import { ROLES, type Role } from '../../../shared/auth/roles';
 import { PASSWORD_MIN_LENGTH } from '../../../shared/auth/user-api';
 import { fieldMessage } from '../api/field-errors';
 import { DialogSubmission } from '../shared-ui/dialog-submission';
-import { FormProblem } from '../shared-ui/form-problem';
+import { DialogFooter } from '../shared-ui/dialog-footer';
 import { ROLE_MEANING } from './role-text';
 
 /**
@@ -20,7 +19,7 @@ import { ROLE_MEANING } from './role-text';
  */
 @Component({
   selector: 'tw-add-user-dialog',
-  imports: [FormProblem, MatButtonModule, MatDialogModule, MatFormFieldModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
+  imports: [DialogFooter, MatDialogModule, MatFormFieldModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
   template: `
     <h2 mat-dialog-title>Add an account</h2>
     <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
@@ -51,12 +50,8 @@ import { ROLE_MEANING } from './role-text';
           <input matInput formControlName="reason" maxlength="500" />
           <mat-error>{{ fieldMessage(form.controls.reason) }}</mat-error>
         </mat-form-field>
-        <tw-form-problem [text]="submission.problem()" />
       </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button mat-button type="button" mat-dialog-close>Cancel</button>
-        <button mat-flat-button type="submit" [disabled]="submission.sending()">Add account</button>
-      </mat-dialog-actions>
+      <tw-dialog-footer [submission]="submission" confirm="Add account" />
     </form>
   `,
   styleUrl: '../shared-ui/dialog-form.scss',

@@ -1,6 +1,5 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -9,7 +8,7 @@ import { ROLES, type Role } from '../../../shared/auth/roles';
 import type { UserAccount } from '../../../shared/auth/user-api';
 import { fieldMessage } from '../api/field-errors';
 import { DialogSubmission } from '../shared-ui/dialog-submission';
-import { FormProblem } from '../shared-ui/form-problem';
+import { DialogFooter } from '../shared-ui/dialog-footer';
 import { ROLE_MEANING } from './role-text';
 
 export interface RoleDialogData {
@@ -21,7 +20,7 @@ export interface RoleDialogData {
 /** Changes an account's role with a reason for the audit trail; the account's sign-ins end. */
 @Component({
   selector: 'tw-role-dialog',
-  imports: [FormProblem, MatButtonModule, MatDialogModule, MatFormFieldModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
+  imports: [DialogFooter, MatDialogModule, MatFormFieldModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
   template: `
     <h2 mat-dialog-title>Change role</h2>
     <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
@@ -42,12 +41,8 @@ export interface RoleDialogData {
           <mat-hint>Written to the audit trail with your name</mat-hint>
           <mat-error>{{ fieldMessage(form.controls.reason) }}</mat-error>
         </mat-form-field>
-        <tw-form-problem [text]="submission.problem()" />
       </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button mat-button type="button" mat-dialog-close>Cancel</button>
-        <button mat-flat-button type="submit" [disabled]="submission.sending()">Change role</button>
-      </mat-dialog-actions>
+      <tw-dialog-footer [submission]="submission" confirm="Change role" />
     </form>
   `,
   styleUrl: '../shared-ui/dialog-form.scss',
