@@ -29,3 +29,12 @@ if (!('ResizeObserver' in window)) {
     disconnect(): void {}
   };
 }
+
+// uPlot builds its lines as Path2D objects once a chart holds data; a stub that accepts every call.
+if (!('Path2D' in window)) {
+  (window as unknown as { Path2D: unknown }).Path2D = class {
+    constructor() {
+      return new Proxy(this, { get: (target, key) => (key in target ? target[key as keyof typeof target] : () => undefined) });
+    }
+  };
+}

@@ -1,8 +1,10 @@
 /**
  * The supervision journal: an append-only file in the data folder holding every supervision
  * record (a trip, a batch of alarm transitions) from the moment it is made until the database
- * has it. `append` writes one JSON line and fsyncs it before it returns, so a record survives a
- * database outage and a process stop or kill in between; the owner writes the pending records
+ * has it. `append` writes one JSON line before it returns, so a record survives a database
+ * outage and a process stop or kill in between (the operating system holds what a killed
+ * process wrote), and asks the operating system to flush it to the disk (fsync) in Node's
+ * thread pool, so the event loop never waits for the disk; the owner writes the pending records
  * to the database in order and calls `written` for each, and once none is pending the file is
  * emptied. Each record carries a unique id, stored with it in the database
  * (`supervision_records_applied`), so replaying a record whose write committed but whose
@@ -11,7 +13,7 @@
  * Bounded: beyond `maxBytes` new alarm transitions are refused and counted; trips are always
  * kept (one per latch: a reset needs the database, so an outage holds at most one or two).
  */
-import { closeSync, fstatSync, fsyncSync, ftruncateSync, openSync, readFileSync, writeSync } from 'node:fs';
+import { closeSync, fstatSync, fsync, fsyncSync, ftruncateSync, openSync, readFileSync, writeSync } from 'node:fs';
 import { randomUUID } from 'node:crypto';
 import path from 'node:path';
 import type { TripRecord } from '../interlock/interlock.js';
@@ -47,6 +49,8 @@ export interface JournalCounters {
   journalDropped: number;
   /** Lines of the file that could not be read at start (a write cut off by a crash). */
   journalUnreadable: number;
+  /** Flushes to the disk (fsync) the operating system refused. */
+  journalSyncErrors: number;
 }
 
 export interface SupervisionJournalOptions {
@@ -60,6 +64,7 @@ export class SupervisionJournal {
   private bytes = 0;
   private dropped = 0;
   private unreadable = 0;
+  private syncErrors = 0;
   private readonly maxBytes: number;
 
   /** Opens (or creates) the journal in `dataDir` and reads what an earlier run left in it. */
@@ -85,8 +90,9 @@ export class SupervisionJournal {
   }
 
   /**
-   * Appends `record` durably (written and fsynced before this returns) and returns it with its
-   * id; null when the journal is full and the record is an alarm-transition batch (counted).
+   * Appends `record` (written to the file before this returns, flushed to the disk in the
+   * background) and returns it with its id; null when the journal is full and the record is an
+   * alarm-transition batch (counted).
    */
   append(record: NewSupervisionRecord): SupervisionRecord | null {
     const stored = { id: randomUUID(), ...record } as SupervisionRecord;
@@ -96,7 +102,7 @@ export class SupervisionJournal {
       return null;
     }
     writeSync(this.fd, line);
-    fsyncSync(this.fd);
+    this.flushToDisk();
     this.bytes += line.length;
     this.pendingRecords.push(stored);
     return stored;
@@ -113,17 +119,31 @@ export class SupervisionJournal {
     if (index >= 0) this.pendingRecords.splice(index, 1);
     if (this.pendingRecords.length === 0 && this.bytes > 0) {
       ftruncateSync(this.fd, 0);
-      fsyncSync(this.fd);
+      this.flushToDisk();
       this.bytes = 0;
     }
   }
 
   counters(): JournalCounters {
-    return { journalPending: this.pendingRecords.length, journalBytes: this.bytes, journalDropped: this.dropped, journalUnreadable: this.unreadable };
+    return {
+      journalPending: this.pendingRecords.length,
+      journalBytes: this.bytes,
+      journalDropped: this.dropped,
+      journalUnreadable: this.unreadable,
+      journalSyncErrors: this.syncErrors,
+    };
   }
 
   close(): void {
+    fsyncSync(this.fd);
     closeSync(this.fd);
+  }
+
+  private flushToDisk(): void {
+    fsync(this.fd, (error) => {
+      // EBADF: the journal was closed meanwhile, and close() flushed it.
+      if (error && error.code !== 'EBADF') this.syncErrors++;
+    });
   }
 }
 

@@ -10,7 +10,7 @@ function inputs(patch: Partial<HealthInputs> = {}): HealthInputs {
     lastRejectedAtMs: null,
     lastDeliveryErrorAtMs: null,
     storage: { outage: false } as HealthInputs['storage'],
-    supervision: { journalPending: 0, journalBytes: 0, journalDropped: 0, journalUnreadable: 0, failingSince: null, lastError: null },
+    supervision: { journalPending: 0, journalBytes: 0, journalDropped: 0, journalUnreadable: 0, journalSyncErrors: 0, failingSince: null, lastError: null },
     database: null,
     ...patch,
   };
@@ -38,7 +38,7 @@ describe('health problems', () => {
   });
 
   it('names supervision records the database refuses (kept in the journal) and batches a full journal refused', () => {
-    const supervision = { journalPending: 2, journalBytes: 900, journalDropped: 1, journalUnreadable: 0, failingSince: '2026-12-02T06:59:30.000Z', lastError: 'ECONNREFUSED' };
+    const supervision = { journalPending: 2, journalBytes: 900, journalDropped: 1, journalUnreadable: 0, journalSyncErrors: 0, failingSince: '2026-12-02T06:59:30.000Z', lastError: 'ECONNREFUSED' };
     expect(healthProblems(inputs({ supervision }))).toEqual([
       expect.stringMatching(/supervision records since 2026-12-02T06:59:30.000Z \(2 trips or alarm-transition batches kept in the journal\): ECONNREFUSED/),
       expect.stringMatching(/^1 batches of alarm transitions were not recorded/),

@@ -46,9 +46,12 @@ export interface HistorySources {
   calibrations: CalibrationCache;
 }
 
+/** Longest raw block, ms: coarser points come from the 1 s roll-ups (at most half as many points as asked, far less to read). */
+const RAW_MAX_BLOCK_MS = 500;
+
 /**
- * Raw block means while the window lies within raw retention and points finer than a second
- * are asked for; otherwise roll-ups in whole seconds. Raw blocks are 10 ms, 20 ms, … up to
+ * Raw block means while the window lies within raw retention and blocks of at most
+ * `RAW_MAX_BLOCK_MS` are asked for; otherwise roll-ups in whole seconds. Raw blocks are 10 ms, 20 ms, … up to
  * 100 ms, then whole multiples of 100 ms read from the stored block means (block-means.ts);
  * a raw window is read from whole blocks of the stored means' length (its ends rounded outwards).
  */
@@ -57,7 +60,7 @@ export function planHistory(fromMs: number, toMs: number, points: number, nowMs:
   const fineMs = Math.max(1, Math.ceil(spanMs / points / DECIMATION_BLOCK_MS)) * DECIMATION_BLOCK_MS;
   const rawBlockMs = fineMs > MEANS_BLOCK_MS ? Math.ceil(fineMs / MEANS_BLOCK_MS) * MEANS_BLOCK_MS : fineMs;
   const unitMs = rawBlockMs % MEANS_BLOCK_MS === 0 ? MEANS_BLOCK_MS : DECIMATION_BLOCK_MS;
-  if (fromMs >= nowMs - rawHours * 3600_000 && rawBlockMs < 1000) {
+  if (fromMs >= nowMs - rawHours * 3600_000 && rawBlockMs <= RAW_MAX_BLOCK_MS) {
     const snap = (ms: number, round: (v: number) => number) => round(ms / unitMs) * unitMs;
     return { fromMs: snap(fromMs, Math.floor), toMs: snap(toMs, Math.ceil), source: 'raw', blockMs: rawBlockMs, slowBlockMs: rawBlockMs * SLOW_BLOCK_FACTOR };
   }

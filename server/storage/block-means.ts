@@ -41,8 +41,8 @@ export function encodeBlockMeans(t0Ms: number, rateHz: number, n: number, sample
  */
 export function forEachBlockMean(blob: Uint8Array, t0Ms: number, rateHz: number, visit: (tMs: number, n: number, x: number, y: number, z: number) => void): void {
   const m = blob.byteLength / 14;
-  // A copy: typed-array views need aligned offsets, and the driver's buffer may not be.
-  const buffer = blob.slice().buffer;
+  // A copy (not Buffer#slice, which is a view): typed-array views need an aligned buffer of their own.
+  const buffer = new Uint8Array(blob).buffer;
   const means = new Float32Array(buffer, 0, 3 * m);
   const counts = new Uint16Array(buffer, 12 * m, m);
   const periodMs = 1000 / rateHz;

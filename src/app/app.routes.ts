@@ -15,6 +15,7 @@ export const routes: Routes = [
     children: [
       { path: '', pathMatch: 'full', redirectTo: 'live' },
       { path: 'live', title: 'Live · Tiltwatch', loadComponent: () => import('./live/live-page').then((m) => m.LivePage) },
+      { path: 'replay', title: 'Replay · Tiltwatch', loadComponent: () => import('./replay/replay-page').then((m) => m.ReplayPage) },
       {
         path: 'map',
         title: 'Orientation map · Tiltwatch',

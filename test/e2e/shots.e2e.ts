@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { ShotsResponse } from '../../shared/shots/shots-api.js';
 import type { RunRecord, SequenceRecord } from '../../shared/steering/steering-api.js';
@@ -76,6 +77,13 @@ describe('Shots page in Chromium', () => {
     await page.setViewportSize({ width: 1366, height: 768 });
     await page.waitForTimeout(300);
     await page.screenshot({ path: join(ARTIFACT_DIR, 'shots-1366.png'), fullPage: true });
+
+    // The export: the table's rows with the units in the header.
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export CSV' }).click()]);
+    expect(download.suggestedFilename()).toBe(`tiltwatch-shots-run-${runId}.csv`);
+    const exported = (await readFile(await download.path(), 'utf8')).split('\r\n');
+    expect(exported[0]).toMatch(/^shot,label,time_utc,run,field_G,theta_deg,phi_deg,predicted_tof_aspect_ratio,/);
+    expect(exported.slice(1, 4).map((line) => line.split(',')[0])).toEqual(shots.map((s) => s.id));
 
     // Sorting by θ, largest first.
     await table.getByRole('button', { name: 'θ' }).click();

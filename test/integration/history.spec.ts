@@ -171,6 +171,13 @@ describe('history: stored window of telemetry, predictions and records', () => {
     const csv = await api<string>('viewer', 'GET', `/api/history?run=${run.id}&format=csv&points=500`);
     expect(csv.res.headers.get('content-disposition')).toMatch(new RegExp(`filename="?tiltwatch-run-${run.id}\\.csv`));
     expect((await history('run=999999')).status).toBe(404);
+    // Steering commands are marks too: the run left the field held; release it.
+    const releasedFrom = Date.now() - 1000;
+    expect((await api('operator', 'POST', '/api/steering/release', { reason: 'end of the history scan' })).status).toBe(200);
+    const after = (await history(`from=${iso(releasedFrom)}&to=${iso(Date.now() + 1000)}&points=10`)).body;
+    expect(after.events.filter((e) => e.kind === 'steer')).toEqual([
+      expect.objectContaining({ label: 'Steering released to the controller', actor: 'operator@tiltwatch.example', detail: 'end of the history scan' }),
+    ]);
   });
 
   it('refuses a malformed, reversed or too long window naming the parameter', async () => {

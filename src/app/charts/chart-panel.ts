@@ -39,6 +39,15 @@ export interface ChartAxis {
   step?: number;
 }
 
+/**
+ * A moment marked on the chart by a vertical line (the replay clock). Written outside change
+ * detection, as often as wanted; the chart looks at it once per animation frame.
+ */
+export class TimeMarker {
+  /** Unix epoch ms; NaN draws no line. */
+  timeMs = Number.NaN;
+}
+
 /** Gaps in the data longer than this (or five sample spacings) are drawn as gaps, ms. */
 const MIN_GAP_MS = 2000;
 
@@ -62,6 +71,10 @@ export class ChartPanel {
   readonly windowSeconds = input.required<number>();
   /** Set while the data is not current, e.g. "stale since 21:04:13". */
   readonly staleNote = input<string | null>(null);
+  /** End of the window, Unix epoch ms; null follows the newest sample (live). */
+  readonly endMs = input<number | null>(null);
+  /** A moment to mark with a vertical line, e.g. the replay clock. */
+  readonly marker = input<TimeMarker | null>(null);
 
   private readonly plotHost = viewChild.required<ElementRef<HTMLElement>>('plot');
   private plot: uPlot | null = null;
@@ -70,6 +83,8 @@ export class ChartPanel {
   private resizeRequest = 0;
   private drawnRevision = -1;
   private drawnWindowMs = 0;
+  private drawnEndMs: number | null = null;
+  private drawnMarkerMs = Number.NaN;
   private windowEndMs = Date.now();
   private readonly copy = new WindowCopy();
   private readonly lineValues: (number | null)[][] = [];
@@ -103,6 +118,7 @@ export class ChartPanel {
         scales,
         cursor: { drag: { x: false, y: false, setScale: false } },
         legend: { live: true },
+        hooks: { draw: [(u) => this.drawMarker(u, color('--tw-chart-marker'))] },
         axes: [
           {
             stroke: text,
@@ -172,10 +188,17 @@ export class ChartPanel {
     const plot = this.plot;
     const buffer = this.buffer();
     const windowMs = this.windowSeconds() * 1000;
-    if (!plot || (buffer.revision === this.drawnRevision && windowMs === this.drawnWindowMs)) return;
+    const endMs = this.endMs();
+    if (!plot) return;
+    if (buffer.revision === this.drawnRevision && windowMs === this.drawnWindowMs && endMs === this.drawnEndMs) {
+      const markerMs = this.marker()?.timeMs ?? Number.NaN;
+      if (!Object.is(markerMs, this.drawnMarkerMs)) plot.redraw(false, false);
+      return;
+    }
     this.drawnRevision = buffer.revision;
     this.drawnWindowMs = windowMs;
-    this.windowEndMs = buffer.newestTime ?? Date.now();
+    this.drawnEndMs = endMs;
+    this.windowEndMs = endMs ?? buffer.newestTime ?? Date.now();
     const n = buffer.copySince(this.windowEndMs - windowMs, this.copy);
     const times = this.copy.t;
     const gapMs = Math.max(MIN_GAP_MS, 5 * sampleSpacingMs(this.windowSeconds()));
@@ -192,6 +215,26 @@ export class ChartPanel {
       return out;
     });
     plot.setData([times.subarray(0, n), ...columns]);
+  }
+
+  /** The marker's vertical line over the plotting area, after uPlot drew the series. */
+  private drawMarker(u: uPlot, stroke: string): void {
+    const markerMs = this.marker()?.timeMs ?? Number.NaN;
+    this.drawnMarkerMs = markerMs;
+    if (!Number.isFinite(markerMs)) return;
+    const x = Math.round(u.valToPos(markerMs, 'x', true));
+    const { left, top, width, height } = u.bbox;
+    if (x < left || x > left + width) return;
+    const ctx = u.ctx;
+    ctx.save();
+    ctx.strokeStyle = stroke;
+    ctx.lineWidth = 2 * devicePixelRatio;
+    ctx.setLineDash([]); // solid, unlike the dashed and dotted series drawn before it
+    ctx.beginPath();
+    ctx.moveTo(x, top);
+    ctx.lineTo(x, top + height);
+    ctx.stroke();
+    ctx.restore();
   }
 
   private destroy(): void {

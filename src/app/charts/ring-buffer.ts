@@ -74,13 +74,7 @@ export class RingBuffer {
    * A binary search finds the start, so a short window of a long buffer costs only its length.
    */
   copySince(fromMs: number, out: WindowCopy): number {
-    let lo = 0;
-    let hi = this.count;
-    while (lo < hi) {
-      const mid = (lo + hi) >>> 1;
-      if (this.times[this.physical(mid)] < fromMs) lo = mid + 1;
-      else hi = mid;
-    }
+    const lo = this.countBefore(fromMs, false);
     const n = this.count - lo;
     if (out.t.length < n || out.columns.length !== this.columnCount) {
       const size = Math.max(n, this.capacity);
@@ -98,6 +92,34 @@ export class RingBuffer {
     }
     out.length = n;
     return n;
+  }
+
+  /** Logical index (0 = oldest) of the newest sample at or before `timeMs`; −1 when there is none. */
+  indexAtOrBefore(timeMs: number): number {
+    return this.countBefore(timeMs, true) - 1;
+  }
+
+  /** Time of the `logical`-th oldest sample, ms. */
+  timeAt(logical: number): number {
+    return this.times[this.physical(logical)];
+  }
+
+  /** Value in `column` of the `logical`-th oldest sample (NaN when missing). */
+  valueAt(logical: number, column: number): number {
+    return this.values[column][this.physical(logical)];
+  }
+
+  /** Number of samples older than `timeMs` (also those at `timeMs` when `inclusive`), by binary search. */
+  private countBefore(timeMs: number, inclusive: boolean): number {
+    let lo = 0;
+    let hi = this.count;
+    while (lo < hi) {
+      const mid = (lo + hi) >>> 1;
+      const t = this.times[this.physical(mid)];
+      if (t < timeMs || (inclusive && t === timeMs)) lo = mid + 1;
+      else hi = mid;
+    }
+    return lo;
   }
 
   /** Physical index of the `logical`-th oldest sample. */

@@ -38,8 +38,6 @@ export class TelemetryHistory {
   private spacingMs = sampleSpacingMs(DEFAULT_WINDOW_SECONDS);
   private held: SeriesResponse[] | null = null;
   private backfillRun = 0;
-  private readonly fastRow = new Float64Array(6);
-  private readonly slowRow = new Float64Array(6);
 
   constructor() {
     const stopListening = inject(LiveFeed).onSamples((series, slow) => {
@@ -77,42 +75,53 @@ export class TelemetryHistory {
   }
 
   private append(series: SeriesChunk | undefined, slow: SlowChunk | undefined): void {
-    if (series) {
-      const row = this.fastRow;
-      for (let i = 0; i < series.t.length; i++) {
-        const t = series.t[i];
-        if (!this.due(this.fast, t)) continue;
-        row[FAST.currentX] = series.currentA.x[i];
-        row[FAST.currentY] = series.currentA.y[i];
-        row[FAST.currentZ] = series.currentA.z[i];
-        row[FAST.bMag] = series.bMagG[i];
-        row[FAST.theta] = series.thetaDeg[i] ?? Number.NaN;
-        row[FAST.phi] = series.phiDeg[i] ?? Number.NaN;
-        this.fast.push(t, row);
-      }
-    }
-    if (slow) {
-      const row = this.slowRow;
-      for (let i = 0; i < slow.t.length; i++) {
-        const t = slow.t[i];
-        if (!this.due(this.slow, t)) continue;
-        row[SLOW.temperatureX] = slow.temperatureC.x[i];
-        row[SLOW.temperatureY] = slow.temperatureC.y[i];
-        row[SLOW.temperatureZ] = slow.temperatureC.z[i];
-        row[SLOW.flowX] = slow.flowLpm.x[i];
-        row[SLOW.flowY] = slow.flowLpm.y[i];
-        row[SLOW.flowZ] = slow.flowLpm.z[i];
-        this.slow.push(t, row);
-      }
-    }
+    appendChunks(this, series, slow, this.spacingMs);
   }
+}
 
-  /**
-   * True when a sample at `t` is far enough past the newest kept one to be worth keeping. The 5 %
-   * slack keeps every sample of a slightly jittered stream whose period equals the spacing.
-   */
-  private due(buffer: RingBuffer, t: number): boolean {
-    const newest = buffer.newestTime;
-    return newest === null || t - newest >= this.spacingMs * 0.95;
+/** Room for the rows of `appendChunks`, reused: the function sits on the path of every sample block. */
+const fastRow = new Float64Array(6);
+const slowRow = new Float64Array(6);
+
+/**
+ * Appends sample blocks to the `fast` (FAST columns) and `slow` (SLOW columns) buffers, keeping
+ * only samples at least `spacingMs` past the newest kept one (0 keeps every sample). A missing
+ * angle (|B| ≈ 0) is stored as NaN.
+ */
+export function appendChunks(target: { fast: RingBuffer; slow: RingBuffer }, series: SeriesChunk | undefined, slow: SlowChunk | undefined, spacingMs: number): void {
+  if (series) {
+    for (let i = 0; i < series.t.length; i++) {
+      const t = series.t[i];
+      if (!due(target.fast, t, spacingMs)) continue;
+      fastRow[FAST.currentX] = series.currentA.x[i];
+      fastRow[FAST.currentY] = series.currentA.y[i];
+      fastRow[FAST.currentZ] = series.currentA.z[i];
+      fastRow[FAST.bMag] = series.bMagG[i];
+      fastRow[FAST.theta] = series.thetaDeg[i] ?? Number.NaN;
+      fastRow[FAST.phi] = series.phiDeg[i] ?? Number.NaN;
+      target.fast.push(t, fastRow);
+    }
   }
+  if (slow) {
+    for (let i = 0; i < slow.t.length; i++) {
+      const t = slow.t[i];
+      if (!due(target.slow, t, spacingMs)) continue;
+      slowRow[SLOW.temperatureX] = slow.temperatureC.x[i];
+      slowRow[SLOW.temperatureY] = slow.temperatureC.y[i];
+      slowRow[SLOW.temperatureZ] = slow.temperatureC.z[i];
+      slowRow[SLOW.flowX] = slow.flowLpm.x[i];
+      slowRow[SLOW.flowY] = slow.flowLpm.y[i];
+      slowRow[SLOW.flowZ] = slow.flowLpm.z[i];
+      target.slow.push(t, slowRow);
+    }
+  }
+}
+
+/**
+ * True when a sample at `t` is far enough past the newest kept one to be worth keeping. The 5 %
+ * slack keeps every sample of a slightly jittered stream whose period equals the spacing.
+ */
+function due(buffer: RingBuffer, t: number, spacingMs: number): boolean {
+  const newest = buffer.newestTime;
+  return newest === null || t - newest >= spacingMs * 0.95;
 }

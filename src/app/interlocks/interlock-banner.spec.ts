@@ -79,4 +79,12 @@ describe('InterlockBanner', () => {
       'Hardware interlock tripped at the controller (cause: coolant flow low on x). It can only be reset at the controller itself, never from Tiltwatch.',
     ]);
   });
+
+  it('says it is about now while a replay shows', async () => {
+    fixture.componentRef.setInput('replaying', true);
+    await show(TRIPPED, { ...CONTROLLER, hardwareTripped: true, hardwareTripCause: 'coil X over-temperature' });
+    const [software, hardware] = alerts();
+    expect(software).toMatch(/^Now, not in the replay: Software interlock tripped/);
+    expect(hardware).toMatch(/^Now, not in the replay: Hardware interlock tripped at the controller/);
+  });
 });

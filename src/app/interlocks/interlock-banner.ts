@@ -18,6 +18,7 @@ import { tripHeadline } from './interlock-text';
       <section class="banner trip" role="alert" aria-label="Software interlock">
         <mat-icon aria-hidden="true">report</mat-icon>
         <p>
+          @if (replaying()) {<strong class="now">Now, not in the replay: </strong>}
           <strong>{{ text }}.</strong>
           Coil currents were ramped to zero. Reset once the cause has cleared:
           <a routerLink="/interlocks">open Interlocks</a>.
@@ -28,6 +29,7 @@ import { tripHeadline } from './interlock-text';
       <section class="banner trip" role="alert" aria-label="Hardware interlock">
         <mat-icon aria-hidden="true">bolt</mat-icon>
         <p>
+          @if (replaying()) {<strong class="now">Now, not in the replay: </strong>}
           <strong>Hardware interlock tripped at the controller{{ hardwareCause() }}.</strong>
           It can only be reset at the controller itself, never from Tiltwatch.
         </p>
@@ -41,6 +43,8 @@ export class InterlockBanner {
   /** The server's interlock state; null until known (nothing is shown then). */
   readonly status = input<InterlockStatus | null>(null);
   readonly controller = input<LiveState['controller'] | null>(null);
+  /** Set while the Replay page shows: the banner is about now, and says so. */
+  readonly replaying = input(false);
 
   protected readonly headline = computed(() => tripHeadline(this.status()));
   protected readonly hardwareTripped = computed(() => !!this.controller()?.hardwareTripped || !!this.status()?.hardwareTripped);

@@ -6,6 +6,9 @@ import { GaugeBar } from '../gauges/gauge-bar';
 import { formatQuantity } from '../readout/format-quantity';
 
 type Axis = keyof PerAxis<number>;
+
+/** The readings the strip shows; a replay has only some of them (the rest null). */
+export type CoilReadings = Pick<LiveState, 'currents' | 'setpoints' | 'voltageV' | 'temperatureC' | 'flowLpm' | 'waterSupplyC' | 'waterReturnC'>;
 const AXES: readonly Axis[] = ['x', 'y', 'z'];
 
 /**
@@ -22,12 +25,14 @@ const AXES: readonly Axis[] = ['x', 'y', 'z'];
   host: { role: 'region', 'aria-label': 'Coils' },
 })
 export class CoilStrip {
-  readonly live = input<LiveState | null>(null);
+  readonly readings = input<CoilReadings | null>(null);
   readonly bands = input.required<Record<BandId, ChannelBand>>();
   readonly stale = input(false);
+  /** A line under the strip, e.g. which channels a replay does not have. */
+  readonly note = input<string | null>(null);
 
   protected readonly axes = computed(() => {
-    const live = this.live();
+    const live = this.readings();
     const pick = (values: PerAxis<number> | null | undefined, axis: Axis) => values?.[axis] ?? null;
     return AXES.map((axis) => {
       const returnC = pick(live?.waterReturnC, axis);

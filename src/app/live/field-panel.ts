@@ -23,8 +23,12 @@ export class FieldPanel {
   readonly uncertainty = input<FieldUncertainty | null>(null);
   /** Set while the data is not current, e.g. "Stale since 21:04:13". */
   readonly staleNote = input<string | null>(null);
+  /** Set on the Replay page: history does not say which calibration produced each sample. */
+  readonly replay = input(false);
 
   protected readonly readout = computed(() => readField(this.field()));
+  /** Why the angles are not shown; in a replay a missing sample is explained by the stale note instead. */
+  protected readonly angleNote = computed(() => (this.replay() && !this.field() ? null : this.readout().angleNote));
   /** "± 0.21°" beside each reading, or null when the calibration carries no uncertainty. */
   protected readonly sigmas = computed(() => {
     const u = this.uncertainty();
@@ -38,6 +42,7 @@ export class FieldPanel {
   });
   protected readonly calibrationText = computed(() => {
     const cal = this.calibration();
-    return cal ? `v${cal.version} · ${cal.label}` : 'not known';
+    if (cal) return `v${cal.version} · ${cal.label}`;
+    return this.replay() ? 'in force then: see the calibration marks on the timeline' : 'not known';
   });
 }

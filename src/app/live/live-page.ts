@@ -2,13 +2,13 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
-import { ChartPanel, type ChartAxis, type ChartLine } from '../charts/chart-panel';
-import { FAST, SLOW, TelemetryHistory } from '../charts/telemetry-history';
+import { TelemetryCharts } from '../charts/telemetry-charts';
+import { TelemetryHistory } from '../charts/telemetry-history';
 import { DEFAULT_WINDOW_SECONDS, TIME_WINDOWS } from '../charts/time-window';
 import { isStale } from '../feed/connection-state';
 import { LiveFeed } from '../feed/live-feed';
 import { PredictionPanel } from '../prediction/prediction-panel';
-import { PREDICTED, PredictionSeries, predictionGapNote } from '../prediction/prediction-series';
+import { PredictionSeries, predictionGapNote } from '../prediction/prediction-series';
 import { ActiveProfile } from '../profiles/active-profile';
 import { formatLocalTime } from '../readout/format-quantity';
 import { CompactAlarmList } from '../alarms/compact-alarm-list';
@@ -19,16 +19,10 @@ import { ControllerStatus } from './controller-status';
 import { FieldPanel } from './field-panel';
 import { SteerTarget } from './steer-target';
 
-const AXIS_LINES = [
-  { axis: 'X', color: '--tw-series-1' },
-  { axis: 'Y', color: '--tw-series-2', dash: [7, 4] },
-  { axis: 'Z', color: '--tw-series-3', dash: [2, 3] },
-];
-
 /** The Live page: field, prediction, coils, controller state and charts of the recent past. */
 @Component({
   selector: 'tw-live-page',
-  imports: [ChartPanel, CoilStrip, CompactAlarmList, ControllerStatus, FieldPanel, MatButtonModule, MatButtonToggleModule, MatIconModule, PredictionPanel, SteerTarget],
+  imports: [CoilStrip, CompactAlarmList, ControllerStatus, FieldPanel, MatButtonModule, MatButtonToggleModule, MatIconModule, PredictionPanel, SteerTarget, TelemetryCharts],
   providers: [TelemetryHistory, PredictionSeries],
   templateUrl: './live-page.html',
   styleUrl: './live-page.scss',
@@ -60,33 +54,6 @@ export class LivePage {
 
   protected readonly windows = TIME_WINDOWS;
   protected readonly windowSeconds = signal(DEFAULT_WINDOW_SECONDS);
-
-  protected readonly currentLines: ChartLine[] = AXIS_LINES.map((l, i) => ({
-    label: `I${l.axis.toLowerCase()} (A)`, column: FAST.currentX + i, scale: 'A', color: l.color, dash: l.dash, digits: 3,
-  }));
-  protected readonly currentAxes: ChartAxis[] = [{ scale: 'A', label: 'Current (A)', side: 'left' }];
-
-  protected readonly temperatureLines: ChartLine[] = AXIS_LINES.map((l, i) => ({
-    label: `T${l.axis.toLowerCase()} (°C)`, column: SLOW.temperatureX + i, scale: '°C', color: l.color, dash: l.dash, digits: 2,
-  }));
-  protected readonly temperatureAxes: ChartAxis[] = [{ scale: '°C', label: 'Coil temperature (°C)', side: 'left' }];
-
-  protected readonly fieldLines: ChartLine[] = [
-    { label: 'θ (°)', column: FAST.theta, scale: 'deg', color: '--tw-series-1', digits: 1 },
-    { label: 'φ (°)', column: FAST.phi, scale: 'deg', color: '--tw-series-2', dash: [7, 4], digits: 1, breakAbove: 180 },
-    { label: '|B| (G)', column: FAST.bMag, scale: 'G', color: '--tw-series-3', dash: [2, 3], digits: 3 },
-  ];
-  protected readonly fieldAxes: ChartAxis[] = [
-    { scale: 'deg', label: 'Angle (°)', side: 'left', range: [0, 360], step: 90 },
-    { scale: 'G', label: '|B| (G)', side: 'right', fromZero: true },
-  ];
-
-  // The TOF line is the profile's first TOF time along its camera, as in the prediction panel.
-  protected readonly predictedLines: ChartLine[] = [
-    { label: 'β − 1 (%)', column: PREDICTED.betaDeviation, scale: '%', color: '--tw-series-1', digits: 3 },
-    { label: 'TOF aspect − 1 (%)', column: PREDICTED.tofDeviation, scale: '%', color: '--tw-series-2', dash: [7, 4], digits: 3 },
-  ];
-  protected readonly predictedAxes: ChartAxis[] = [{ scale: '%', label: 'Deformation (%)', side: 'left' }];
 
   constructor() {
     void this.history.showWindow(this.windowSeconds());

@@ -33,6 +33,8 @@ export class PredictionPanel {
   readonly staleNote = input<string | null>(null);
   /** Whether the prediction describes the gas now (the server's judgement); null when unknown. */
   readonly status = input<PredictionStatus | null>(null);
+  /** Set on the Replay page, so a missing prediction is explained as not recorded. */
+  readonly replay = input(false);
 
   /** Why the prediction does not describe the gas now (field too weak, telemetry stale); null while it does. */
   protected readonly notApplying = computed(() => {

@@ -13,7 +13,7 @@ describe('resampleHistory', () => {
   });
 
   it('gives nothing for an empty history', () => {
-    expect(resampleHistory({ t: [], fermiSurfaceAspect: [], tofAspect: [], collapseRatio: [] }, 100, 5000)).toEqual([]);
+    expect(resampleHistory({ t: [], fermiSurfaceAspect: [], tofAspect: [] }, 100, 5000)).toEqual([]);
   });
 });
 

@@ -57,7 +57,7 @@ export function predictionGapNote(status: PredictionStatus | null, staleNote: st
  * each value stands until the next one; sampling it keeps the chart's line unbroken where
  * the field simply stayed put.
  */
-export function resampleHistory(history: PredictionHistory, spacingMs: number, untilMs: number): PredictedPoint[] {
+export function resampleHistory(history: Pick<PredictionHistory, 't' | 'fermiSurfaceAspect' | 'tofAspect'>, spacingMs: number, untilMs: number): PredictedPoint[] {
   const points: PredictedPoint[] = [];
   const n = history.t.length;
   if (n === 0 || !(spacingMs > 0)) return points;

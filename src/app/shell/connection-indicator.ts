@@ -10,6 +10,9 @@ const LOOK: Record<LinkState, { icon: string; label: string }> = {
   offline: { icon: 'cloud_off', label: 'Offline' },
 };
 
+/** A healthy link while the page shows recorded data: nothing on screen is live. */
+const REPLAYING_LOOK = { icon: 'link', label: 'Link up' };
+
 /** The feed's health in the toolbar: icon and word always, colour only when not live. */
 @Component({
   selector: 'tw-connection-indicator',
@@ -35,13 +38,19 @@ export class ConnectionIndicator {
   /** Current browser time, ms (advances a few times per second). */
   readonly now = input.required<number>();
 
-  protected readonly look = computed(() => LOOK[this.reading().state]);
+  /** Set while the Replay page shows: the indicator then names the link, not the data on the page. */
+  readonly replaying = input(false);
+
+  protected readonly look = computed(() => {
+    const state = this.reading().state;
+    return this.replaying() && state === 'live' ? REPLAYING_LOOK : LOOK[state];
+  });
   protected readonly detail = computed(() => {
     const { state, reason, dataAgeMs, newestDataAtMs } = this.reading();
     const since = newestDataAtMs === null ? '' : ` since ${formatLocalTime(newestDataAtMs)}`;
     switch (state) {
       case 'live':
-        return '';
+        return this.replaying() ? 'the page shows a replay, not live data' : '';
       case 'delayed':
         return dataAgeMs === null ? '' : `data ${(dataAgeMs / 1000).toFixed(1)} s old`;
       case 'stale':

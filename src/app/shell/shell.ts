@@ -17,6 +17,7 @@ import { awaitsAcknowledgement } from '../alarms/alarm-look';
 import { Session } from '../auth/session';
 import { LiveFeed } from '../feed/live-feed';
 import { InterlockBanner } from '../interlocks/interlock-banner';
+import { ReplayPresence } from '../replay/replay-presence';
 import { ConnectionIndicator } from './connection-indicator';
 import { SafetyNote } from './safety-note';
 
@@ -50,6 +51,8 @@ export class Shell {
   protected readonly wide = toSignal(inject(BreakpointObserver).observe(WIDE_SCREEN).pipe(map((state) => state.matches)), {
     initialValue: true,
   });
+  /** While the Replay page shows, the toolbar and the interlock banner say they are about now. */
+  protected readonly replaying = inject(ReplayPresence).active;
   protected readonly navToggled = signal(false);
   protected readonly navOpen = computed(() => this.wide() || this.navToggled());
 

@@ -82,6 +82,8 @@ export class ShotsPage {
   }
 
   protected async showRun(runId: number): Promise<void> {
+    // Another run's rows must not stand under this run's heading while its shots load.
+    if (runId !== this.runId()) this.views.set([]);
     this.runId.set(runId);
     void this.router.navigate([], { relativeTo: this.route, queryParams: { run: runId }, replaceUrl: true });
     await this.loadShots();
@@ -113,6 +115,7 @@ export class ShotsPage {
     link.href = URL.createObjectURL(blob);
     link.download = `tiltwatch-shots-run-${this.runId()}.csv`;
     link.click();
-    URL.revokeObjectURL(link.href);
+    // Released once the download has taken the data.
+    setTimeout(() => URL.revokeObjectURL(link.href), 10_000);
   }
 }

@@ -1,0 +1,152 @@
+import type { FieldUncertainty } from '../../../shared/field/field-uncertainty';
+import type { FieldState } from '../../../shared/field/field-vector';
+import { directionFromAngles } from '../../../shared/field/field-vector';
+import type { LivePrediction, PerAxis } from '../../../shared/live/live-state';
+import { RingBuffer } from '../charts/ring-buffer';
+import { FAST, SLOW, appendChunks } from '../charts/telemetry-history';
+import type { CoilReadings } from '../live/coil-strip';
+import { resampleHistory } from '../prediction/prediction-series';
+import type { HistoryEvent, HistoryPrediction, HistoryResponse } from '../../../shared/history/history-api';
+
+/** Columns of `ReplayData.sigma`: one standard deviation of |B|, θ, φ (NaN without one). */
+const SIGMA = { magnitude: 0, theta: 1, phi: 2 } as const;
+
+/** Points of the predicted-shape chart over a whole replay window. */
+const PREDICTED_POINTS = 3000;
+
+/**
+ * A loaded window, fetched once and kept in typed arrays: the charts draw from the buffers
+ * directly and the panels pick their values from them at the replay clock.
+ */
+export interface ReplayData {
+  fromMs: number;
+  toMs: number;
+  resolutionMs: number;
+  /** Field and currents, `FAST` columns; every returned sample. */
+  fast: RingBuffer;
+  /** σ of |B|, θ, φ at the same times as `fast`. */
+  sigma: RingBuffer;
+  /** Coil temperatures and flows, `SLOW` columns. */
+  slow: RingBuffer;
+  /** Times of the recorded predictions (no columns); each stands until the next. */
+  predictionTimes: RingBuffer;
+  prediction: HistoryPrediction;
+  /** (β − 1) and (TOF aspect − 1) in percent, `PREDICTED` columns, for the chart. */
+  predicted: RingBuffer;
+  events: HistoryEvent[];
+}
+
+/** What the panels show at one moment of the replay; null parts were not recorded near that moment. */
+export interface ReplayMoment {
+  timeMs: number;
+  field: FieldState | null;
+  fieldUncertainty: FieldUncertainty | null;
+  coils: CoilReadings;
+  /** The prediction shown live at that moment, as recorded. */
+  prediction: LivePrediction | null;
+}
+
+/** Keeps a window's answer in typed arrays (one pass, no thinning). */
+export function toReplayData(response: HistoryResponse): ReplayData {
+  const { series, prediction } = response;
+  const fast = new RingBuffer(Math.max(1, series.t.length), 6);
+  const slow = new RingBuffer(Math.max(1, response.slow.t.length), 6);
+  appendChunks({ fast, slow }, series, response.slow, 0);
+  const sigma = new RingBuffer(Math.max(1, series.t.length), 3);
+  const row = new Float64Array(3);
+  for (let i = 0; i < series.t.length; i++) {
+    row[SIGMA.magnitude] = series.sigmaBMagG[i] ?? Number.NaN;
+    row[SIGMA.theta] = series.sigmaThetaDeg[i] ?? Number.NaN;
+    row[SIGMA.phi] = series.sigmaPhiDeg[i] ?? Number.NaN;
+    sigma.push(series.t[i], row);
+  }
+  const predictionTimes = new RingBuffer(Math.max(1, prediction.t.length), 0);
+  for (const t of prediction.t) predictionTimes.push(t, []);
+  const fromMs = Date.parse(response.from);
+  const toMs = Date.parse(response.to);
+  const points = resampleHistory(prediction, Math.max(1, (toMs - fromMs) / PREDICTED_POINTS), toMs + 1);
+  const predicted = new RingBuffer(Math.max(1, points.length), 2);
+  for (const point of points) predicted.push(point.t, point.values);
+  return { fromMs, toMs, resolutionMs: response.resolutionMs, fast, sigma, slow, predictionTimes, prediction, predicted, events: response.events };
+}
+
+/**
+ * How long a sample stands for the moments after it, ms: a few sample spacings, at least 2 s
+ * (the charts draw a gap at the same distance). Beyond that nothing was recorded and the
+ * panels show no value rather than an old one.
+ */
+export function holdMs(resolutionMs: number): number {
+  return Math.max(2000, 5 * resolutionMs);
+}
+
+/** The values in force at `timeMs`: the newest sample at or before it, if recent enough. */
+export function momentAt(data: ReplayData, timeMs: number): ReplayMoment {
+  const hold = holdMs(data.resolutionMs);
+  const fastIndex = recentIndex(data.fast, timeMs, hold);
+  const slowIndex = recentIndex(data.slow, timeMs, hold);
+  const fast = (column: number) => (fastIndex < 0 ? Number.NaN : data.fast.valueAt(fastIndex, column));
+  const slow = (column: number) => (slowIndex < 0 ? Number.NaN : data.slow.valueAt(slowIndex, column));
+  return {
+    timeMs,
+    field: fastIndex < 0 ? null : fieldState(fast(FAST.bMag), orNull(fast(FAST.theta)), orNull(fast(FAST.phi))),
+    fieldUncertainty: fastIndex < 0 ? null : uncertaintyAt(data.sigma, fastIndex),
+    coils: {
+      currents: perAxis(fast, FAST.currentX),
+      temperatureC: perAxis(slow, SLOW.temperatureX),
+      flowLpm: perAxis(slow, SLOW.flowX),
+      setpoints: null,
+      voltageV: null,
+      waterSupplyC: null,
+      waterReturnC: null,
+    },
+    prediction: predictionAt(data, data.predictionTimes.indexAtOrBefore(timeMs)),
+  };
+}
+
+/** Index of the newest sample at or before `timeMs` and no older than `hold`; −1 otherwise. */
+function recentIndex(buffer: RingBuffer, timeMs: number, hold: number): number {
+  const i = buffer.indexAtOrBefore(timeMs);
+  return i >= 0 && timeMs - buffer.timeAt(i) <= hold ? i : -1;
+}
+
+function uncertaintyAt(sigma: RingBuffer, index: number): FieldUncertainty | null {
+  const magnitudeGauss = sigma.valueAt(index, SIGMA.magnitude);
+  if (Number.isNaN(magnitudeGauss)) return null;
+  return { magnitudeGauss, thetaDeg: orNull(sigma.valueAt(index, SIGMA.theta)), phiDeg: orNull(sigma.valueAt(index, SIGMA.phi)) };
+}
+
+/** The `index`-th recorded prediction as the live state carried it. */
+function predictionAt(data: ReplayData, index: number): LivePrediction | null {
+  if (index < 0) return null;
+  const p = data.prediction;
+  return {
+    stable: p.stable[index],
+    reason: p.reason[index],
+    fermiSurfaceAspect: p.fermiSurfaceAspect[index],
+    cloudAspect: p.cloudAspect[index],
+    tofAspect: p.tofAspect[index],
+    tofMajorAngleDeg: p.tofMajorAngleDeg[index],
+    collapseRatio: p.collapseRatio[index],
+    epsDd: p.epsDd[index],
+    profileId: p.profileId[index],
+    thetaDeg: p.thetaDeg[index],
+    phiDeg: p.phiDeg[index],
+    computedAt: new Date(p.t[index]).toISOString(),
+    camera: p.camera[index],
+  };
+}
+
+function orNull(value: number): number | null {
+  return Number.isFinite(value) ? value : null;
+}
+
+function perAxis(read: (column: number) => number, first: number): PerAxis<number> | null {
+  const x = read(first);
+  return Number.isNaN(x) ? null : { x, y: read(first + 1), z: read(first + 2) };
+}
+
+/** The field as the field panel takes it, rebuilt from the recorded |B|, θ and φ. */
+function fieldState(magnitude: number, thetaDeg: number | null, phiDeg: number | null): FieldState {
+  const unit = thetaDeg === null || phiDeg === null ? { x: 0, y: 0, z: 0 } : directionFromAngles(thetaDeg, phiDeg);
+  return { vector: { x: magnitude * unit.x, y: magnitude * unit.y, z: magnitude * unit.z }, magnitude, thetaDeg, phiDeg };
+}

@@ -1,0 +1,133 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { join } from 'node:path';
+import type { Page } from 'playwright-core';
+import type { HistoryResponse } from '../../shared/history/history-api.js';
+import type { LiveState } from '../../shared/live/live-state.js';
+import { ARTIFACT_DIR, launchBrowser, signInOnPage, type TestBrowser } from '../support/browser.js';
+import { signIn, startStack, waitFor, type Stack } from '../support/stack.js';
+
+/** Local date as the calendar field reads it in the browser's (en-US) locale, and hh:mm:ss. */
+function dateText(ms: number): string {
+  const d = new Date(ms);
+  return `${d.getMonth() + 1}/${d.getDate()}/${d.getFullYear()}`;
+}
+function timeText(ms: number): string {
+  const d = new Date(ms);
+  return [d.getHours(), d.getMinutes(), d.getSeconds()].map((n) => String(n).padStart(2, '0')).join(':');
+}
+
+describe('Replay page in Chromium', () => {
+  let stack: Stack;
+  let chrome: TestBrowser;
+  beforeAll(async () => {
+    stack = await startStack();
+    chrome = await launchBrowser();
+  });
+  afterAll(async () => {
+    await chrome?.close();
+    await stack?.close();
+  });
+
+  /** The replay clock, Unix epoch ms, as the page shows it. */
+  async function clockMs(page: Page): Promise<number> {
+    return Number(await page.getByRole('timer', { name: 'Replay clock' }).locator('time').getAttribute('data-time-ms'));
+  }
+
+  /** θ and |B| as the field panel must show them at `timeMs`: the newest recorded sample at or before it. */
+  function expectedField(history: HistoryResponse, timeMs: number): { theta: string; magnitude: string } {
+    const t = history.series.t;
+    let i = t.length - 1;
+    while (i >= 0 && t[i] > timeMs) i--;
+    if (i < 0) throw new Error(`no sample before ${new Date(timeMs).toISOString()}`);
+    return { theta: `${history.series.thetaDeg[i]!.toFixed(1)}°`, magnitude: `${history.series.bMagG[i].toFixed(3)}\u00a0G` };
+  }
+
+  async function expectReadoutAtClock(page: Page, history: HistoryResponse): Promise<void> {
+    const at = await clockMs(page);
+    const want = expectedField(history, at);
+    const field = page.getByRole('region', { name: 'Field' });
+    await expect.poll(() => field.innerText()).toContain(want.theta);
+    expect(await field.innerText()).toContain(want.magnitude);
+  }
+
+  it('plays a recorded window: seeks by mark and timeline, changes speed, and shows what history holds', async () => {
+    // Let the simulator run a while, with a logbook note in the middle as a mark.
+    const operator = await signIn(stack.server.url, 'operator');
+    const firstDataMs = await waitFor(async () => {
+      const live = (await (await fetch(`${stack.server.url}/api/live`, { headers: { authorization: `Bearer ${operator}` } })).json()) as LiveState;
+      return live.time ? Date.parse(live.time) : undefined;
+    }, 'the first telemetry', 30_000);
+    await waitFor(() => (Date.now() > firstDataMs + 10_000 ? true : undefined), 'ten seconds of telemetry', 30_000);
+    const noteAtMs = firstDataMs + 5000;
+    const note = await fetch(`${stack.server.url}/api/logbook/entries`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', authorization: `Bearer ${operator}` },
+      body: JSON.stringify({ text: 'Field steady for the replay check', at: new Date(noteAtMs).toISOString() }),
+    });
+    expect(note.status).toBe(201);
+    const toMs = Date.now();
+
+    const page = await chrome.browser.newPage();
+    await page.setViewportSize({ width: 1920, height: 1080 });
+    await page.goto(stack.server.url);
+    await signInOnPage(page, 'viewer@tiltwatch.example', 'tiltwatch-demo');
+    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Replay' }).click();
+
+    const windowForm = page.getByRole('form', { name: 'A time window' });
+    await windowForm.getByLabel('From date').fill(dateText(firstDataMs));
+    await windowForm.getByLabel('From time').fill(timeText(firstDataMs));
+    await windowForm.getByLabel('To date').fill(dateText(toMs + 1000));
+    await windowForm.getByLabel('To time').fill(timeText(toMs + 1000));
+    const answer = page.waitForResponse((r) => r.url().includes('/api/history?') && r.status() === 200);
+    await windowForm.getByRole('button', { name: 'Load window' }).click();
+    const history = (await (await answer).json()) as HistoryResponse;
+    expect(history.series.t.length).toBeGreaterThan(10);
+
+    const bar = page.getByRole('region', { name: 'Replay controls' });
+    await expect.poll(() => bar.innerText()).toMatch(/Replay — recorded .+, not live\./);
+    await expect.poll(() => page.getByRole('status', { name: 'Connection' }).innerText()).not.toMatch(/^\s*\S*\s*Live\b/);
+
+    // Jump to the note's mark.
+    await page.getByRole('button', { name: /^Jump to Note .*Field steady for the replay check/ }).click();
+    await expect.poll(() => clockMs(page)).toBe(Date.parse(history.events.find((e) => e.kind === 'note')!.at));
+    await expectReadoutAtClock(page, history);
+
+    // Play at 0.5×, then pause: the clock moved on, and the readout is history's at the new moment.
+    const before = await clockMs(page);
+    const speed = (label: string) => bar.getByRole('radio', { name: label, exact: true });
+    await speed('0.5×').click();
+    await bar.getByRole('button', { name: 'Play', exact: true }).click();
+    await expect.poll(() => clockMs(page), { timeout: 10_000 }).toBeGreaterThan(before + 500);
+    await bar.getByRole('button', { name: 'Pause', exact: true }).click();
+    await expectReadoutAtClock(page, history);
+
+    // At 20× the whole window (about 11 s) plays in well under its own length, then stops at its end.
+    const toWindowEnd = Date.parse(history.to);
+    await page.getByRole('slider', { name: 'Replay position' }).press('Home');
+    await speed('20×').click();
+    const startedPlaying = Date.now();
+    await bar.getByRole('button', { name: 'Play', exact: true }).click();
+    await expect.poll(() => clockMs(page), { timeout: 8000 }).toBe(toWindowEnd);
+    expect(Date.now() - startedPlaying).toBeLessThan(toWindowEnd - Date.parse(history.from));
+    await expect.poll(() => bar.getByRole('button', { name: 'Play', exact: true }).count()).toBe(1);
+
+    // Click the timeline a quarter of the way along; step with the keyboard.
+    const track = page.getByRole('slider', { name: 'Replay position' });
+    const box = (await track.boundingBox())!;
+    await track.click({ position: { x: box.width * 0.25, y: box.height / 2 } });
+    const fromMs = Date.parse(history.from);
+    const span = Date.parse(history.to) - fromMs;
+    await expect.poll(async () => Math.abs((await clockMs(page)) - (fromMs + 0.25 * span))).toBeLessThan(span * 0.01);
+    await expectReadoutAtClock(page, history);
+    const clicked = await clockMs(page);
+    await track.press('ArrowRight');
+    await expect.poll(() => clockMs(page)).toBeCloseTo(clicked + 0.01 * span, 0);
+    await expectReadoutAtClock(page, history);
+
+    await page.waitForTimeout(500); // let the charts draw their marker before the pictures
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'replay-1920.png'), fullPage: true });
+    await page.setViewportSize({ width: 1366, height: 768 });
+    await page.waitForTimeout(500);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'replay-1366.png'), fullPage: true });
+  });
+});
