@@ -16,11 +16,13 @@ export interface TourStop {
 
 export const TOUR: readonly TourStop[] = [
   { name: 'live', path: '/live', role: 'lead' },
+  { name: 'replay', path: '/replay', role: 'lead' },
   { name: 'map', path: '/map', role: 'lead' },
   { name: 'profiles', path: '/profiles', role: 'lead' },
   { name: 'coil-x', path: '/coils/x', role: 'lead' },
   { name: 'steer', path: '/steer', role: 'lead' },
   { name: 'sequences', path: '/sequences', role: 'lead' },
+  { name: 'shots', path: '/shots', role: 'lead' },
   { name: 'alarms', path: '/alarms', role: 'lead' },
   { name: 'alarms-history', path: '/alarms', role: 'lead', tab: 'History' },
   { name: 'alarms-limits', path: '/alarms', role: 'lead', tab: 'Limits' },
