@@ -70,7 +70,6 @@ export const API_ROUTES = [
   { id: 'runs.abort', method: 'post', path: '/api/runs/:id/abort', minRole: 'operator', summary: 'Abort a run and hold the present field: { reason }' },
   { id: 'shots.list', method: 'get', path: '/api/shots', minRole: 'viewer', summary: 'Shots of a run or a window (?run=ID or ?from=ISO&to=ISO) with prediction and measured TOF image → { shots }' },
   { id: 'shots.measurements', method: 'post', path: '/api/shots/measurements', minRole: 'operator', summary: 'Store measured TOF images (multipart: file, CSV shot, tof_aspect_ratio, tof_angle_deg, sigma_aspect_ratio) → 201 { stored }; all lines or none' },
-  { id: 'admin.outbox', method: 'get', path: '/api/admin/outbox', minRole: 'admin', summary: 'Messages received by the local mail catcher' },
   { id: 'logbook.write', method: 'post', path: '/api/logbook/entries', minRole: 'operator', summary: 'Write a logbook entry: JSON { text, tags?, at?, link?, amends? } or multipart with files "file" → 201 { id }' },
   { id: 'logbook.list', method: 'get', path: '/api/logbook/entries', minRole: 'viewer', summary: 'Logbook entries, newest first (?q=&from=&to=&tag=&limit=) → { entries }' },
   { id: 'logbook.attachment', method: 'get', path: '/api/logbook/attachments/:id', minRole: 'viewer', summary: 'One attachment, served as its checked type' },

@@ -40,7 +40,10 @@ export function shotHandlers(deps: { db: Db; now?: () => Date }): Pick<RouteHand
       const selection: ShotSelection = query.run !== undefined ? { runId: query.run } : { from: query.from!, to: query.to! };
       if ('runId' in selection && !(await runExists(db, selection.runId))) throw new HttpError(404, `No run with id ${selection.runId}: see GET /api/runs`);
       const shots = await listShots(db, selection, MAX_LISTED_SHOTS + 1);
-      if (shots.length > MAX_LISTED_SHOTS) throw new HttpError(400, `Invalid request query: from, to: the window holds more than ${MAX_LISTED_SHOTS} shots; choose a shorter one`);
+      if (shots.length > MAX_LISTED_SHOTS) {
+        const where = 'runId' in selection ? `run: run ${selection.runId} took` : 'from, to: the window holds';
+        throw new HttpError(400, `Invalid request query: ${where} more than ${MAX_LISTED_SHOTS} shots; ask for shorter windows with from and to`);
+      }
       const body: ShotsResponse = { shots };
       res.json(body);
     },

@@ -92,6 +92,10 @@ describe('history: stored window of telemetry, predictions and records', () => {
     await waitFor(async () => ((await history(`from=${iso(fromMs)}&to=${iso(toMs)}&points=3`)).body.series.t.length === 3 ? true : undefined), 'the roll-ups of the window');
     const rolled = (await history(`from=${iso(fromMs)}&to=${iso(toMs)}&points=3`)).body;
     expect(rolled).toMatchObject({ source: 'rollup', resolutionMs: 2000 });
+    const rolledCsv = parse((await api<string>('viewer', 'GET', `/api/history?from=${iso(fromMs)}&to=${iso(toMs)}&points=3&format=csv`)).body, { columns: true }) as Record<string, string>[];
+    expect(rolledCsv.map((row) => [Number(row.time_unix_ms), Number(row.field_phi_deg), Number(row.coil_temperature_y_degC)])).toEqual(
+      rolled.series.t.map((t, k) => [t, rolled.series.phiDeg[k], rolled.slow.temperatureC.y[k]]),
+    );
     const raw = (await history(`from=${iso(fromMs)}&to=${iso(toMs)}&points=3000`)).body;
     expect(raw).toMatchObject({ source: 'raw', resolutionMs: 10 });
     // 200 ms points come from the stored 100 ms block means, not the samples: the same means.
