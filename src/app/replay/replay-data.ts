@@ -6,7 +6,7 @@ import { RingBuffer } from '../charts/ring-buffer';
 import { FAST, SLOW, appendChunks } from '../charts/telemetry-history';
 import type { CoilReadings } from '../live/coil-strip';
 import { resampleHistory } from '../prediction/prediction-series';
-import type { HistoryEvent, HistoryPrediction, HistoryResponse } from '../../../shared/history/history-api';
+import type { HistoryEvent, HistoryPrediction, HistoryResponse, HistoryRun } from '../../../shared/history/history-api';
 
 /** Columns of `ReplayData.sigma`: one standard deviation of |B|, θ, φ (NaN without one). */
 const SIGMA = { magnitude: 0, theta: 1, phi: 2 } as const;
@@ -34,6 +34,8 @@ export interface ReplayData {
   /** (β − 1) and (TOF aspect − 1) in percent, `PREDICTED` columns, for the chart. */
   predicted: RingBuffer;
   events: HistoryEvent[];
+  /** The run the window was loaded for; null for a time window. */
+  run: HistoryRun | null;
 }
 
 /** What the panels show at one moment of the replay; null parts were not recorded near that moment. */
@@ -67,7 +69,7 @@ export function toReplayData(response: HistoryResponse): ReplayData {
   const points = resampleHistory(prediction, Math.max(1, (toMs - fromMs) / PREDICTED_POINTS), toMs + 1);
   const predicted = new RingBuffer(Math.max(1, points.length), 2);
   for (const point of points) predicted.push(point.t, point.values);
-  return { fromMs, toMs, resolutionMs: response.resolutionMs, fast, sigma, slow, predictionTimes, prediction, predicted, events: response.events };
+  return { fromMs, toMs, resolutionMs: response.resolutionMs, fast, sigma, slow, predictionTimes, prediction, predicted, events: response.events, run: response.run };
 }
 
 /**

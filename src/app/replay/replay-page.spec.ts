@@ -117,9 +117,10 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
     await select.open();
     await select.clickOptions({ text: /θ scan v3/ });
     host.querySelector<HTMLButtonElement>('form[aria-label="A run"] button[type="submit"]')!.click();
-    http.expectOne('/api/history?run=7').flush(historyFixture());
+    const run = { id: 7, label: 'sequence "θ scan" version 3', state: 'done', startedAt: RUN.startedAt, endedAt: RUN.endedAt };
+    http.expectOne('/api/history?run=7').flush({ ...historyFixture(), run });
     await fixture.whenStable();
-    expect(text('.replay-label')).toContain('not live');
+    expect(text('.replay-label')).toMatch(/not live\. \(run 7: sequence "θ scan" version 3, done\)$/);
   });
 
   it('names the field of a reversed window and asks nothing', async () => {

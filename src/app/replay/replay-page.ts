@@ -9,6 +9,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
+import { ActivatedRoute } from '@angular/router';
 import type { RunRecord } from '../../../shared/steering/steering-api';
 import { TelemetryCharts } from '../charts/telemetry-charts';
 import { ChannelBandsSource } from '../gauges/channel-bands';
@@ -66,6 +67,11 @@ export class ReplayPage {
     const sameDay = new Date(data.fromMs).toDateString() === new Date(data.toMs).toDateString();
     return `${formatLocalDateTime(data.fromMs)} – ${sameDay ? formatLocalTime(data.toMs) : formatLocalDateTime(data.toMs)}`;
   });
+  /** "run 7: …, done" beside the window when a run was loaded. */
+  protected readonly runText = computed(() => {
+    const run = this.data()?.run;
+    return run ? `run ${run.id}: ${run.label}, ${run.state}` : null;
+  });
   protected readonly clockText = computed(() => replayClockText(this.player.positionMs()));
   protected readonly clockDate = computed(() => new Date(this.player.positionMs()).toLocaleDateString(undefined, { day: 'numeric', month: 'short', year: 'numeric' }));
   /** Said in the panels when nothing was recorded close to the replayed moment. */
@@ -78,6 +84,12 @@ export class ReplayPage {
     const presence = inject(ReplayPresence);
     presence.active.set(true);
     inject(DestroyRef).onDestroy(() => presence.active.set(false));
+    // `/replay?run=7` (linked from a run) opens that run at once.
+    const run = Number(inject(ActivatedRoute).snapshot.queryParamMap.get('run'));
+    if (Number.isInteger(run) && run > 0) {
+      this.runId.set(run);
+      void this.loadRun();
+    }
   }
 
   protected updateForm(change: Partial<WindowForm>): void {
