@@ -112,7 +112,7 @@ describe('AlarmBook', () => {
     for (const reason of [undefined, '', '   ', 42]) {
       const err = requestError(() => book.shelve('stale.H', OPERATOR, 10, reason));
       expect(err.code).toBe('invalid');
-      expect(err.message).toMatch(/reason is required/);
+      expect(err.message).toMatch(/Reason: is required/);
     }
   });
 

@@ -215,7 +215,8 @@ export class AlarmBook {
         if (typeof minutes !== 'number' || !Number.isFinite(minutes) || minutes <= 0 || minutes > this.maxShelveMinutes) {
           throw new AlarmRequestError(
             'invalid',
-            `minutes must be a number of minutes above 0 and at most ${this.maxShelveMinutes}; got ${JSON.stringify(minutes) ?? String(minutes)}`,
+            `Minutes: must be a number of minutes above 0 and at most ${this.maxShelveMinutes}; got ${JSON.stringify(minutes) ?? String(minutes)}`,
+            'minutes',
           );
         }
         return alarm.shelve(actor, minutes, checkReason(request.reason, 'shelving'), now);
@@ -367,7 +368,7 @@ function checkActor(actor: string): string {
 
 function checkReason(reason: unknown, purpose: string): string {
   const text = typeof reason === 'string' ? reason.trim() : '';
-  if (text === '') throw new AlarmRequestError('invalid', `reason is required for ${purpose}: say why in a few words`);
-  if (text.length > MAX_REASON_CHARS) throw new AlarmRequestError('invalid', `reason must be at most ${MAX_REASON_CHARS} characters`);
+  if (text === '') throw new AlarmRequestError('invalid', `Reason: is required for ${purpose}: say why in a few words`, 'reason');
+  if (text.length > MAX_REASON_CHARS) throw new AlarmRequestError('invalid', `Reason: must be at most ${MAX_REASON_CHARS} characters`, 'reason');
   return text;
 }

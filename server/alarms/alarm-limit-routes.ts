@@ -5,15 +5,22 @@
  * reason), and the alarm keeps its state while the next evaluation applies the new level.
  */
 import type { Db } from '../db/database.js';
-import { changeReason } from '../http/change-reason.js';
+import { z } from 'zod';
+import { CHANGE_REASON_LABEL, changeReason } from '../http/change-reason.js';
+import { labelledInside } from '../http/field-labels.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { alarmLimitProblem } from '../levels/level-checks.js';
 import type { LevelStore } from '../levels/level-store.js';
 import type { AlarmBook } from './alarm-book.js';
-import { AlarmLimitError, parseAlarmLimit, type AlarmLimit } from './alarm-limit.js';
+import { ALARM_LIMIT_LABELS, AlarmLimitError, parseAlarmLimit, type AlarmLimit } from './alarm-limit.js';
 import { saveAlarmLimit } from './alarm-limit-repository.js';
 import { actorOf, httpErrorOf } from './alarm-routes.js';
+
+/** The labels of a limit edit as the limit editor shows them (the route checks the body itself). */
+export const LimitEditBody = labelledInside(z.unknown(), 'Alarm limit', (path) =>
+  path[0] === 'reason' ? CHANGE_REASON_LABEL : ((ALARM_LIMIT_LABELS as Readonly<Record<string, string>>)[path.join('.')] ?? null),
+);
 
 const EDITABLE = ['level', 'limit', 'deadband', 'onDelayMs', 'offDelayMs', 'priority', 'latching', 'suppressDuringRamp', 'rationale'] as const;
 

@@ -7,6 +7,8 @@ export class AlarmRequestError extends Error {
   constructor(
     readonly code: 'not-found' | 'invalid' | 'conflict',
     message: string,
+    /** Path of the request field the message is about (`reason`, `minutes`), for the form. */
+    readonly field: string | null = null,
   ) {
     super(message);
     this.name = 'AlarmRequestError';

@@ -67,11 +67,11 @@ describe('alarm routes', () => {
     const path = '/api/alarms/current.x.H/shelve';
     const noReason = await call<{ error: string }>('operator', 'POST', path, { minutes: 30 });
     expect(noReason.status).toBe(400);
-    expect(noReason.body.error).toMatch(/reason is required for shelving/);
+    expect(noReason.body.error).toMatch(/^Reason: is required for shelving/);
     for (const minutes of [0, 481, 'ten', null]) {
       const bad = await call<{ error: string }>('operator', 'POST', path, { minutes, reason: 'known fault on supply x' });
       expect(bad.status).toBe(400);
-      expect(bad.body.error).toMatch(/minutes must be a number of minutes above 0 and at most 480/);
+      expect(bad.body.error).toMatch(/^Minutes: must be a number of minutes above 0 and at most 480/);
     }
     expect((await call('viewer', 'POST', path, { minutes: 30, reason: 'x' })).status).toBe(403);
     const shelved = await call<AlarmActionResult>('operator', 'POST', path, { minutes: 30, reason: 'known fault on supply x' });
@@ -91,9 +91,9 @@ describe('alarm routes', () => {
     expect((await call('operator', 'POST', path, { on: true, reason: 'chiller sensor replaced' })).status).toBe(403);
     const noReason = await call<{ error: string }>('lead', 'POST', path, { on: true });
     expect(noReason.status).toBe(400);
-    expect(noReason.body.error).toMatch(/reason is required/);
+    expect(noReason.body.error).toMatch(/^Reason: is required/);
     const noFlag = await call<{ error: string }>('lead', 'POST', path, { reason: 'chiller sensor replaced' });
-    expect(noFlag.body.error).toMatch(/on must be true/);
+    expect(noFlag.body.error).toMatch(/^Out of service: must be true/);
     const off = await call<AlarmActionResult>('lead', 'POST', path, { on: true, reason: 'chiller sensor replaced' });
     expect(off.body.alarm.state).toBe('out-of-service');
     const on = await call<AlarmActionResult>('lead', 'POST', path, { on: false, reason: 'sensor back' });

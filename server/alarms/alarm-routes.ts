@@ -10,6 +10,7 @@ import { z } from 'zod';
 import type { AlarmActionResult, AlarmHealthReport } from '../../shared/alarms/alarm-api.js';
 import type { Db } from '../db/database.js';
 import { writeFailureText } from '../db/write-failure.js';
+import { labelled } from '../http/field-labels.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { parseInput } from '../http/validate.js';
@@ -35,12 +36,13 @@ const HoursQuery = z.object({
     .refine((h) => Number.isFinite(h) && h > 0 && h <= MAX_HISTORY_HOURS, `hours must be a number of hours above 0 and at most ${MAX_HISTORY_HOURS}`)
     .default(HISTORY_DEFAULT_HOURS),
 });
-/** Shapes only; the book checks reasons and the minutes range and says what to fix. */
-const ShelveBody = z.object({ minutes: z.unknown().optional(), reason: z.unknown().optional() });
-const ReasonBody = z.object({ reason: z.unknown().optional() });
-const OutOfServiceBody = z.object({
-  on: z.boolean({ error: 'on must be true (take out of service) or false (return to service)' }),
-  reason: z.unknown().optional(),
+/** Shapes only; the book checks reasons and the minutes range and says what to fix. Labels as the reason dialog shows them. */
+const reason = labelled(z.unknown(), 'Reason').optional();
+export const ShelveBody = z.object({ minutes: labelled(z.unknown(), 'Minutes').optional(), reason });
+export const ReasonBody = z.object({ reason });
+export const OutOfServiceBody = z.object({
+  on: labelled(z.boolean({ error: 'must be true (take out of service) or false (return to service)' }), 'Out of service'),
+  reason,
 });
 
 export interface AlarmRouteDeps {
@@ -149,5 +151,5 @@ export function actorOf(req: Request): string {
 export function httpErrorOf(error: unknown): unknown {
   if (!(error instanceof AlarmRequestError)) return error;
   const status = error.code === 'not-found' ? 404 : error.code === 'invalid' ? 400 : 409;
-  return new HttpError(status, error.message);
+  return new HttpError(status, error.message, error.field);
 }

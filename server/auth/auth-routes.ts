@@ -3,6 +3,7 @@ import { ipKeyGenerator } from 'express-rate-limit';
 import { z } from 'zod';
 import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from '../../shared/auth/user-api.js';
 import { emailAddress, secretText } from '../http/fields.js';
+import { labelled } from '../http/field-labels.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { parseInput } from '../http/validate.js';
@@ -11,14 +12,16 @@ import { accountHttpError } from '../users/user-routes.js';
 import { SignInThrottledError, type LoginUseCase } from './login.js';
 import type { TokenIssuer } from './tokens.js';
 
-const LoginRequest = z.object({
-  email: emailAddress(),
-  password: secretText({ min: 1, max: PASSWORD_MAX_LENGTH }),
+/** Labels as the sign-in screen shows them. */
+export const LoginRequest = z.object({
+  email: labelled(emailAddress(), 'Email'),
+  password: labelled(secretText({ min: 1, max: PASSWORD_MAX_LENGTH }), 'Password'),
 });
 
-const PasswordChange = z.strictObject({
-  currentPassword: secretText({ min: 1, max: PASSWORD_MAX_LENGTH }),
-  newPassword: secretText({ min: PASSWORD_MIN_LENGTH, max: PASSWORD_MAX_LENGTH }),
+/** Labels as the Change password dialog shows them. */
+export const PasswordChange = z.strictObject({
+  currentPassword: labelled(secretText({ min: 1, max: PASSWORD_MAX_LENGTH }), 'Current password'),
+  newPassword: labelled(secretText({ min: PASSWORD_MIN_LENGTH, max: PASSWORD_MAX_LENGTH }), 'New password'),
 });
 
 /** The client address as the sign-in throttle counts it (an IPv6 client by its /56 network). */

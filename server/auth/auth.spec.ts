@@ -138,9 +138,9 @@ describe('sign-in and roles', () => {
   });
 
   it.each([
-    ['a missing password', { email: 'viewer@tiltwatch.example' }, /password/],
-    ['a malformed e-mail', { email: 'viewer', password: 'x' }, /email: must be an e-mail address/],
-    ['an empty body', {}, /email/],
+    ['a missing password', { email: 'viewer@tiltwatch.example' }, /^Password: must be text/],
+    ['a malformed e-mail', { email: 'viewer', password: 'x' }, /^Email: must be an e-mail address/],
+    ['an empty body', {}, /^Email: must be text.*; Password: must be text/],
     ['a body that is not JSON', '{"email":', /not valid JSON/],
   ])('answers 400 with a message for %s', async (_what, body, message) => {
     const res = await login(body);

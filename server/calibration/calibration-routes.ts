@@ -4,6 +4,7 @@ import type { CalibrationFitResponse } from '../../shared/field/calibration-reco
 import type { Db } from '../db/database.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
+import { labelled } from '../http/field-labels.js';
 import { queryNumber, reasonText } from '../http/fields.js';
 import { receiveSingleFile, safeFileName } from '../http/single-file-upload.js';
 import { parseInput } from '../http/validate.js';
@@ -15,7 +16,8 @@ import { CalibrationInputError } from './fit/fit-input-error.js';
 /** Largest calibration file accepted, bytes (100 000 lines of a few numbers). */
 export const MAX_CALIBRATION_FILE_BYTES = 4 * 1024 * 1024;
 
-const ApproveRequest = z.strictObject({ reason: reasonText() });
+/** Labels as the Calibration page's approval form shows them. */
+export const ApproveRequest = z.strictObject({ reason: labelled(reasonText(), 'Reason for approving') });
 const CalibrationId = z.object({ id: queryNumber({ min: 1, max: 2 ** 31 - 1, integer: true }) });
 
 /**

@@ -100,7 +100,7 @@ describe('calibration fits and approval over the API', () => {
     expect((await call('operator', 'POST', `/api/calibrations/${draft.id}/approve`, { reason: 'x' })).status).toBe(403);
     const noReason = await call<{ error: string }>('lead', 'POST', `/api/calibrations/${draft.id}/approve`, {});
     expect(noReason.status).toBe(400);
-    expect(noReason.body.error).toMatch(/reason/);
+    expect(noReason.body).toMatchObject({ field: 'reason', error: expect.stringMatching(/^Reason for approving: /) });
     expect((await call('lead', 'POST', `/api/calibrations/${draft.id}/approve`, { reason: '   ' })).status).toBe(400);
     expect((await call('lead', 'POST', '/api/calibrations/9999/approve', { reason: 'none' })).status).toBe(404);
     expect((await call('lead', 'POST', '/api/calibrations/abc/approve', { reason: 'none' })).status).toBe(400);

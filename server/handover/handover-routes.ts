@@ -17,24 +17,28 @@ import {
 import { HttpError } from '../http/http-error.js';
 import { safeText } from '../http/fields.js';
 import type { RouteHandlers } from '../http/route-table.js';
+import { labelled } from '../http/field-labels.js';
 import { parseInput } from '../http/validate.js';
 import type { NoticeOptions } from '../notify/compose-notice.js';
 import type { MailQueue } from '../notify/on-call-notifier.js';
 import { composeHandoverNotice } from './handover-notice.js';
 import type { HandoverWorkflow, Person } from './handover-workflow.js';
 
-const EditBody = z
+/** Labels as the handover sheet shows them. */
+export const EditBody = z
   .object({
-    summary: safeText({ max: MAX_SUMMARY_CHARS, min: 0 }).optional(),
-    notes: z.partialRecord(z.enum(HANDOVER_SECTIONS), safeText({ max: MAX_NOTE_CHARS, min: 0 })).optional(),
-    openItems: z
-      .array(z.object({ text: safeText({ max: MAX_ITEM_CHARS, hint: 'say what is left to do' }) }).strict(), { error: 'openItems: a list of { text }' })
-      .max(MAX_NEW_ITEMS, `at most ${MAX_NEW_ITEMS} new items`)
-      .optional(),
+    summary: labelled(safeText({ max: MAX_SUMMARY_CHARS, min: 0 }), 'Summary').optional(),
+    notes: labelled(z.partialRecord(z.enum(HANDOVER_SECTIONS), labelled(safeText({ max: MAX_NOTE_CHARS, min: 0 }), 'Your notes on this')), 'Your notes on this').optional(),
+    openItems: labelled(
+      z
+        .array(z.object({ text: labelled(safeText({ max: MAX_ITEM_CHARS, hint: 'say what is left to do' }), 'New open item') }).strict(), { error: 'must be a list of { text }' })
+        .max(MAX_NEW_ITEMS, `at most ${MAX_NEW_ITEMS} new items`),
+      'New open item',
+    ).optional(),
   })
   .strict();
-const AcceptBody = z.object({ comment: safeText({ max: MAX_NOTE_CHARS, min: 0 }).optional() }).strict();
-const CloseBody = z.object({ note: safeText({ max: MAX_ITEM_CHARS, hint: 'say how it was settled' }) }).strict();
+export const AcceptBody = z.object({ comment: labelled(safeText({ max: MAX_NOTE_CHARS, min: 0 }), 'Comment').optional() }).strict();
+export const CloseBody = z.object({ note: labelled(safeText({ max: MAX_ITEM_CHARS, hint: 'say how it was settled' }), 'How was it settled?') }).strict();
 
 export type HandoverRoutes = 'handovers.list' | 'handovers.create' | 'handovers.get' | 'handovers.update' | 'handovers.submit' | 'handovers.accept' | 'handover-items.close';
 

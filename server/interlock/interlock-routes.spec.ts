@@ -85,7 +85,7 @@ describe('software interlock routes', () => {
     expect((await call('viewer', 'POST', '/api/interlock/reset', { reason: 'checked' })).status).toBe(403);
     const noReason = await call<{ error: string }>('operator', 'POST', '/api/interlock/reset', { reason: ' ' });
     expect(noReason.status).toBe(400);
-    expect(noReason.body.error).toMatch(/a reason is required/);
+    expect(noReason.body).toMatchObject({ field: 'reason', error: expect.stringMatching(/^Reason for the reset: is required/) });
 
     feed.currents = { x: 5, y: 21, z: 6 };
     await waitFor(async () => ((await status()).conditions.find((c) => c.name === 'over-current-y')?.active ? true : undefined), 'the condition to hold');

@@ -10,6 +10,8 @@ import type { InterlockResetRefusal, InterlockStatus } from '../../shared/alarms
 import type { SupervisionLog } from '../alarms/supervision-log.js';
 import { actorOf } from '../alarms/alarm-routes.js';
 import type { Db } from '../db/database.js';
+import { z } from 'zod';
+import { labelled } from '../http/field-labels.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import type { LiveStore } from '../live/live-store.js';
@@ -21,6 +23,11 @@ import { unlessDatabaseDown } from '../db/database-health.js';
 
 /** Trips listed in `history`. */
 const HISTORY_TRIPS = 20;
+
+/** How the Interlocks page labels the reason of a reset. */
+const RESET_REASON_LABEL = 'Reason for the reset';
+/** The labels of a reset request (the interlock itself checks the reason). */
+export const ResetBody = z.object({ reason: labelled(z.unknown(), RESET_REASON_LABEL) });
 
 export interface InterlockRouteDeps {
   db: Db;
@@ -47,7 +54,7 @@ export function interlockHandlers(deps: InterlockRouteDeps): Pick<RouteHandlers,
     'interlock.reset': async (req, res) => {
       const result = await supervisor.resetInterlock(actorOf(req), (req.body as { reason?: unknown } | undefined)?.reason);
       if (!result.ok) {
-        if (result.code === 'reason-required') throw new HttpError(400, result.message);
+        if (result.code === 'reason-required') throw new HttpError(400, `${RESET_REASON_LABEL}: ${result.message}`, 'reason');
         if (result.code === 'not-recorded') throw new HttpError(503, result.message);
         const refusal: InterlockResetRefusal = {
           error: result.message,

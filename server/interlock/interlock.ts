@@ -213,10 +213,10 @@ export class Interlock {
   prepareReset(actor: string, reason: unknown, nowMs: number): PreparedReset | ResetRefusal {
     const why = typeof reason === 'string' ? reason.trim() : '';
     if (why === '') {
-      return { ok: false, code: 'reason-required', message: 'a reason is required to reset the interlock: say what caused the trip and what was done' };
+      return { ok: false, code: 'reason-required', message: 'is required to reset the interlock: say what caused the trip and what was done' };
     }
     if (why.length > MAX_RESET_REASON_CHARS) {
-      return { ok: false, code: 'reason-required', message: `the reason must be at most ${MAX_RESET_REASON_CHARS} characters` };
+      return { ok: false, code: 'reason-required', message: `must be at most ${MAX_RESET_REASON_CHARS} characters` };
     }
     const trip = this.trip;
     if (!trip) return { ok: false, code: 'not-tripped', message: 'the interlock is not tripped; there is nothing to reset' };

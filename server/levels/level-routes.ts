@@ -4,15 +4,21 @@
  * audited, once it validates and no alarm limit lies beyond a trip level; `GET /api/channels`
  * (viewer): the display bands composed from the level set and the alarm limits in force.
  */
+import { z } from 'zod';
 import { composeChannelBands } from '../../shared/levels/channel-bands.js';
+import { levelFieldLabel } from '../../shared/levels/level-set.js';
 import type { AlarmBook } from '../alarms/alarm-book.js';
 import { actorOf } from '../alarms/alarm-routes.js';
-import { changeReason } from '../http/change-reason.js';
+import { CHANGE_REASON_LABEL, changeReason } from '../http/change-reason.js';
+import { labelled, labelledInside } from '../http/field-labels.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { tripLevelProblem } from './level-checks.js';
 import { LevelSetError, parseLevelSet } from './level-set-schema.js';
 import type { LevelStore } from './level-store.js';
+
+/** The labels of a level-set change as the levels form shows them (the route checks the body itself). */
+export const LevelsBody = z.object({ levels: labelledInside(z.unknown(), 'Levels', levelFieldLabel), reason: labelled(z.unknown(), CHANGE_REASON_LABEL) });
 
 export type LevelRoutes = 'levels.get' | 'levels.history' | 'levels.update' | 'channels';
 

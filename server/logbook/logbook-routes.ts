@@ -80,7 +80,7 @@ export function logbookHandlers(deps: { db: Db; targets: LinkTargets; now?: () =
         const input = parseEntryInput(req.body ?? {}, now());
         const files = await checkFiles((req.files as Express.Multer.File[] | undefined) ?? []);
         if (input.amends !== null && !(await entryExists(db, input.amends))) {
-          throw new HttpError(400, `Corrects entry (amends): there is no entry ${input.amends}`);
+          throw new HttpError(400, `Corrects entry: there is no entry ${input.amends}`, 'amends');
         }
         await checkLink(targets, input.link);
         const id = await insertEntry(db, actorOf(req), input, files);

@@ -1,7 +1,8 @@
 import type { Request } from 'express';
 import { z } from 'zod';
-import { parseSampleProfile, SampleProfileError } from '../../shared/profiles/sample-profile.js';
+import { PROFILE_LABELS, parseSampleProfile, SampleProfileError } from '../../shared/profiles/sample-profile.js';
 import type { Db } from '../db/database.js';
+import { labelled, labelledInside } from '../http/field-labels.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { parseInput } from '../http/validate.js';
@@ -13,13 +14,21 @@ const reason = z
   .min(1, 'must say why (it goes into the audit trail)')
   .max(500, 'must be at most 500 characters');
 
-const SaveRequest = z.strictObject({
+/** An input of the profile form by its path in a profile (`trapHz.1` → "Frequency along y"). */
+export function profileFieldLabel(path: readonly PropertyKey[]): string | null {
+  const label: string | readonly string[] | undefined = (PROFILE_LABELS as Record<string, string | readonly string[]>)[String(path[0])];
+  if (typeof label === 'string') return label;
+  return label?.[Number(path[1])] ?? null;
+}
+
+/** Labels as the profile form and the activation form show them. */
+export const SaveRequest = z.strictObject({
   // Checked by parseSampleProfile, whose messages name each input as the form labels it.
-  profile: z.unknown(),
-  reason,
+  profile: labelledInside(z.unknown(), 'Profile', profileFieldLabel),
+  reason: labelled(reason, 'Reason for this version'),
 });
 
-const ActivateRequest = z.strictObject({ reason });
+export const ActivateRequest = z.strictObject({ reason: labelled(reason, 'Reason for activating') });
 
 const ProfileId = z.object({
   id: z.coerce.number({ error: 'must be a profile version id' }).int('must be a whole number').positive('must be a profile version id ≥ 1'),

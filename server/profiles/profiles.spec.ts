@@ -124,8 +124,8 @@ describe('sample profiles over the API', () => {
     ['an unknown species', { profile: { ...DEMO_PROFILE, species: '999Xx' }, reason: 'r' }, /species/],
     ['an unknown profile key', { profile: { ...DEMO_PROFILE, trapFrequency: 1 }, reason: 'r' }, /unknown key\(s\) trapFrequency/],
     ['no TOF time', { profile: { ...DEMO_PROFILE, tofMs: [] }, reason: 'r' }, /TOF times must list at least one time/],
-    ['no reason', { profile: DEMO_PROFILE }, /reason: must be text saying why/],
-    ['an empty reason', { profile: DEMO_PROFILE, reason: '  ' }, /reason: must say why/],
+    ['no reason', { profile: DEMO_PROFILE }, /^Reason for this version: must be text saying why/],
+    ['an empty reason', { profile: DEMO_PROFILE, reason: '  ' }, /^Reason for this version: must say why/],
   ])('answers 400 naming what to fix for %s, and stores nothing', async (_what, body, message) => {
     const count = (await list()).length;
     const res = await call<{ error: string }>('lead', 'POST', '/api/profiles', body);
@@ -137,7 +137,7 @@ describe('sample profiles over the API', () => {
   it('asks for a reason when activating', async () => {
     const res = await call<{ error: string }>('lead', 'POST', '/api/profiles/1/activate', {});
     expect(res.status).toBe(400);
-    expect(res.body.error).toMatch(/reason: must be text saying why/);
+    expect(res.body.error).toMatch(/^Reason for activating: must be text saying why/);
   });
 });
 

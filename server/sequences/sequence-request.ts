@@ -6,6 +6,7 @@ import { z } from 'zod';
 import type { SequenceStep } from '../../shared/steering/steering-api.js';
 import { MAX_RAMP_MS } from '../../shared/steering/target.js';
 import { HttpError } from '../http/http-error.js';
+import { labelled, labelledInside } from '../http/field-labels.js';
 import { magnitudeG, phiDeg, reason, text, thetaDeg } from '../steering/steer-request.js';
 
 /** Most steps one sequence may hold. */
@@ -37,9 +38,23 @@ export function parseSteps(value: unknown): SequenceStep[] {
   return steps as SequenceStep[];
 }
 
-export const SaveSequenceBody = z.strictObject({ name: text('Name', 100), steps: z.unknown(), reason });
-export const PreviewBody = z.strictObject({ steps: z.unknown() });
-export const RunBody = z.strictObject({ reason });
+const STEP_INPUTS: Readonly<Record<string, string>> = { kind: 'Kind', magnitudeG: '|B|', thetaDeg: 'θ', phiDeg: 'φ', durationMs: 'Duration', label: 'Label' };
+
+/** An input of the sequence editor by its path in the steps (`2.thetaDeg` → "θ of step 3"). */
+export function stepFieldLabel(path: readonly PropertyKey[]): string | null {
+  const step = Number(path[0]) + 1;
+  if (!Number.isInteger(step)) return null;
+  const input = path.length > 1 ? STEP_INPUTS[String(path[1])] : undefined;
+  return input ? `${input} of step ${step}` : `Step ${step}`;
+}
+
+const steps = labelledInside(z.unknown(), 'Steps', stepFieldLabel);
+
+/** Labels as the sequence editor and the run and abort forms show them. */
+export const SaveSequenceBody = z.strictObject({ name: labelled(text('Name', 100), 'Name'), steps, reason: labelled(reason, 'Reason (goes into the audit trail)') });
+export const PreviewBody = z.strictObject({ steps });
+export const RunBody = z.strictObject({ reason: labelled(reason, 'Reason for the run') });
+export const RunAbortBody = z.strictObject({ reason: labelled(reason, 'Reason for the abort') });
 
 export const IdParam = z.object({
   id: z.coerce.number({ error: 'must be an id' }).int('must be a whole number').positive('must be an id ≥ 1').max(2_147_483_647, 'must be an id'),

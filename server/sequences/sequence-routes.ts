@@ -12,9 +12,8 @@ import { parseInput } from '../http/validate.js';
 import { rampsOfSequence } from '../steering/planner.js';
 import type { SteerDesk } from '../steering/steer-desk.js';
 import { answerRefusal } from '../steering/steering-routes.js';
-import { ReasonBody } from '../steering/steer-request.js';
 import { findRun, listRuns } from './run-repository.js';
-import { IdParam, parseSteps, PreviewBody, RunBody, SaveSequenceBody } from './sequence-request.js';
+import { IdParam, parseSteps, PreviewBody, RunAbortBody, RunBody, SaveSequenceBody } from './sequence-request.js';
 import { listSequences, saveSequence } from './sequence-repository.js';
 import type { SequenceRunner } from './sequence-runner.js';
 
@@ -53,7 +52,7 @@ export function sequenceHandlers(deps: { db: Db; desk: SteerDesk; runner: Sequen
     },
     'runs.abort': async (req, res) => {
       const { id } = parseInput(IdParam, req.params, 'path');
-      const { reason } = parseInput(ReasonBody, req.body, 'body');
+      const { reason } = parseInput(RunAbortBody, req.body, 'body');
       if (!(await findRun(db, id))) throw new HttpError(404, `No run with id ${id}: see GET /api/runs`);
       await runner.abort(id, actorOf(req), reason);
       res.json(await findRun(db, id));

@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import { MAX_RAMP_MS, MAX_TARGET_GAUSS } from '../../shared/steering/target.js';
 import { textProblem } from '../../shared/validation/edge-rules.js';
+import { labelled } from '../http/field-labels.js';
 import { reasonText } from '../http/fields.js';
 
 /** Trimmed text of 1…`max` characters, with the shared edge rules (no NUL, control characters or lone surrogates). */
@@ -29,17 +30,18 @@ const number = (label: string, unit: string, min: number, max: number, maxExclus
 
 export const reason = reasonText();
 
-export const magnitudeG = number('|B|', 'G', 0, MAX_TARGET_GAUSS);
-export const thetaDeg = number('θ', '°', 0, 180);
-export const phiDeg = number('φ', '°', 0, 360, true);
+export const magnitudeG = labelled(number('|B|', 'G', 0, MAX_TARGET_GAUSS), '|B|');
+export const thetaDeg = labelled(number('θ', '°', 0, 180), 'θ');
+export const phiDeg = labelled(number('φ', '°', 0, 360, true), 'φ');
 
+/** Labels as the Steer page's New target form shows them. */
 export const SteerRequestBody = z.strictObject({
   magnitudeG,
   thetaDeg,
   phiDeg,
-  rampMs: number('Ramp time', 'ms', 0, MAX_RAMP_MS),
-  reason,
+  rampMs: labelled(number('Ramp time', 'ms', 0, MAX_RAMP_MS), 'Ramp time'),
+  reason: labelled(reason, 'Reason (goes into the audit trail)'),
 });
 
-export const ReasonBody = z.strictObject({ reason });
+export const ReasonBody = z.strictObject({ reason: labelled(reason, 'Reason for abort or release') });
 

@@ -13,6 +13,8 @@ export class AccountError extends Error {
   constructor(
     readonly kind: 'not-found' | 'conflict' | 'invalid',
     message: string,
+    /** Path of the request field the message is about, for the form. */
+    readonly field: string | null = null,
   ) {
     super(message);
     this.name = 'AccountError';
@@ -131,7 +133,7 @@ export class UserAccounts {
   async changePassword(id: number, current: string, next: string): Promise<UserRecord> {
     const [row] = await this.db.select().from(users).where(eq(users.id, id));
     if (!row || row.disabled) throw new AccountError('not-found', 'this account no longer exists or is disabled');
-    if (!(await verifyPassword(row.passwordHash, current))) throw new AccountError('invalid', 'currentPassword: is not your current password');
+    if (!(await verifyPassword(row.passwordHash, current))) throw new AccountError('invalid', 'Current password: is not your current password', 'currentPassword');
     if (next === current) throw new AccountError('invalid', 'newPassword: must differ from the current password');
     const passwordHash = await hashPassword(next);
     const updated = await this.db.transaction(async (tx) => {

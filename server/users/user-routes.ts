@@ -8,6 +8,7 @@ import { normaliseEmail } from '../auth/users-repository.js';
 import { appendAudit } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
 import { emailAddress, queryNumber, reasonText, safeText, secretText } from '../http/fields.js';
+import { labelled } from '../http/field-labels.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
 import { parseInput } from '../http/validate.js';
@@ -15,29 +16,40 @@ import { AccountError, type UserAccounts } from './user-accounts.js';
 
 const role = z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` });
 
-const NewUser = z.strictObject({
-  email: emailAddress(),
-  role,
-  password: secretText({ min: PASSWORD_MIN_LENGTH, max: PASSWORD_MAX_LENGTH }),
-  reason: reasonText().optional(),
+/** Labels as the Add account dialog shows them. */
+export const NewUser = z.strictObject({
+  email: labelled(emailAddress(), 'E-mail'),
+  role: labelled(role, 'Role'),
+  password: labelled(secretText({ min: PASSWORD_MIN_LENGTH, max: PASSWORD_MAX_LENGTH }), 'First password'),
+  reason: labelled(reasonText(), 'Note for the audit trail').optional(),
 });
 
-const UserChange = z
-  .strictObject({ role: role.optional(), disabled: z.boolean({ error: 'must be true or false' }).optional(), reason: reasonText() })
+/** Labels as the Change role and Disable dialogs show them. */
+export const UserChange = z
+  .strictObject({
+    role: labelled(role, 'New role').optional(),
+    disabled: labelled(z.boolean({ error: 'must be true or false' }), 'Disabled').optional(),
+    reason: labelled(reasonText(), 'Reason'),
+  })
   .refine((c) => c.role !== undefined || c.disabled !== undefined, 'send role, disabled or both');
 
 const UserId = z.object({ id: z.coerce.number({ error: 'must be an account id' }).int('must be a whole number').positive('must be an account id ≥ 1') });
 
 const SecurityQuery = z.object({ hours: queryNumber({ min: 1, max: 24 * 30, unit: 'h' }).default(24) });
 
-const Lift = z
-  .strictObject({ email: safeText({ max: 320 }).optional(), address: safeText({ max: 100 }).optional(), reason: reasonText() })
+/** Labels as the Sign-in security panel's Lift dialog shows them. */
+export const Lift = z
+  .strictObject({
+    email: labelled(safeText({ max: 320 }), 'Account').optional(),
+    address: labelled(safeText({ max: 100 }), 'Address').optional(),
+    reason: labelled(reasonText(), 'Reason'),
+  })
   .refine((l) => l.email !== undefined || l.address !== undefined, 'send the email or the address whose throttle to lift');
 
 /** AccountError → 404 / 409 / 400 with its message; anything else unchanged. */
 export function accountHttpError(error: unknown): unknown {
   if (!(error instanceof AccountError)) return error;
-  return new HttpError(error.kind === 'not-found' ? 404 : error.kind === 'conflict' ? 409 : 400, error.message);
+  return new HttpError(error.kind === 'not-found' ? 404 : error.kind === 'conflict' ? 409 : 400, error.message, error.field);
 }
 
 function actorOf(req: Request): string {

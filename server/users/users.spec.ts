@@ -58,8 +58,8 @@ describe('accounts, passwords and sign-in throttling', () => {
 
   it.each([
     ['an existing e-mail', { email: 'lead@tiltwatch.example', role: 'lead', password: 'long enough password' }, 409, /exists already/],
-    ['an unknown role', { email: 'x@lindqvist-hall.example', role: 'owner', password: 'long enough password' }, 400, /role: must be one of viewer, operator, lead, admin/],
-    ['a short password', { email: 'x@lindqvist-hall.example', role: 'viewer', password: 'short' }, 400, /password: must be at least 12 characters/],
+    ['an unknown role', { email: 'x@lindqvist-hall.example', role: 'owner', password: 'long enough password' }, 400, /^Role: must be one of viewer, operator, lead, admin/],
+    ['a short password', { email: 'x@lindqvist-hall.example', role: 'viewer', password: 'short' }, 400, /^First password: must be at least 12 characters/],
   ])('refuses to add an account with %s', async (_what, body, status, message) => {
     const res = await callApi<{ error: string }>(server, admin, 'POST', '/api/admin/users', body);
     expect(res.status).toBe(status);
@@ -103,9 +103,9 @@ describe('accounts, passwords and sign-in throttling', () => {
     const old = await signIn(server, 'operator');
     const wrong = await callApi<{ error: string }>(server, old, 'POST', '/api/auth/password', { currentPassword: 'not it at all', newPassword: NEW_PASSWORD });
     expect(wrong.status).toBe(400);
-    expect(wrong.body.error).toMatch(/currentPassword: is not your current password/);
+    expect(wrong.body.error).toMatch(/^Current password: is not your current password$/);
     const short = await callApi<{ error: string }>(server, old, 'POST', '/api/auth/password', { currentPassword: TEST_PASSWORD, newPassword: 'short' });
-    expect(short.body.error).toMatch(/newPassword: must be at least 12 characters/);
+    expect(short.body.error).toMatch(/^New password: must be at least 12 characters/);
     const changed = await callApi<{ token: string; user: { email: string } }>(server, old, 'POST', '/api/auth/password', { currentPassword: TEST_PASSWORD, newPassword: NEW_PASSWORD });
     expect(changed.status).toBe(200);
     expect((await me(changed.body.token)).body.email).toBe('operator@tiltwatch.example');

@@ -95,6 +95,18 @@ export function bandFieldLabel(kind: BandKind, part: 'scale' | 'normal', end: 0 
   return `${label} ${part === 'scale' ? 'scale' : 'normal band'} ${end === 0 ? 'from' : 'to'} (${unit})`;
 }
 
+/** The levels form's label of the input at `path` in a level set (`trips.currentHighA`), or null. */
+export function levelFieldLabel(path: readonly PropertyKey[]): string | null {
+  const [group, key, part, end] = path.map(String);
+  if (group === 'trips') return TRIP_LABELS[key as keyof TripLevels]?.label ?? null;
+  if (group === 'settings') return SETTING_LABELS[key as keyof OperatingSettings]?.label ?? null;
+  if (group === 'windingsR20Ohm' && (key === 'x' || key === 'y' || key === 'z')) return windingFieldLabel(key);
+  if (group === 'bands' && key in BAND_LABELS && (part === 'scale' || part === 'normal') && (end === '0' || end === '1')) {
+    return bandFieldLabel(key as BandKind, part, end === '0' ? 0 : 1);
+  }
+  return null;
+}
+
 /** The trip level of a band kind on one side, or null when that side does not trip. */
 export function tripLevelOf(trips: TripLevels, kind: BandKind, side: 'high' | 'low'): number | null {
   for (const [key, info] of Object.entries(TRIP_LABELS) as [keyof TripLevels, (typeof TRIP_LABELS)[keyof TripLevels]][]) {

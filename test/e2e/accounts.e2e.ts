@@ -1,44 +1,22 @@
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
-import { DEMO_PASSWORD, startStack, type Stack } from '../support/stack.js';
+import { describe, expect, it } from 'vitest';
+import { ARTIFACT_DIR } from '../support/browser.js';
+import { openSignedIn, useBrowserStack } from '../support/browser-stack.js';
+import { DEMO_PASSWORD } from '../support/stack.js';
 
 describe('Accounts in Chromium', () => {
-  let stack: Stack;
-  let chrome: TestBrowser;
-
-  beforeAll(async () => {
-    stack = await startStack({ simulator: false });
-    chrome = await launchBrowser();
-  });
-  afterAll(async () => {
-    await chrome?.close();
-    await stack?.close();
-  });
-
-  async function signIn(email: string, password: string) {
-    const page = await chrome.browser.newPage();
-    await page.goto(stack.server.url);
-    // Pages of one browser share the stored session: start signed out.
-    await page.evaluate('localStorage.clear()');
-    await page.goto(stack.server.url);
-    await page.getByLabel('Email').fill(email);
-    await page.getByLabel('Password').fill(password);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.getByRole('navigation', { name: 'Pages' }).waitFor();
-    return page;
-  }
+  const env = useBrowserStack({ simulator: false });
 
   it('an admin adds an account and disables another on the Users page; sign-in delays show there', async () => {
     // Three wrong guesses and one more put a delay on the lead account: a security event.
     for (let i = 0; i < 4; i++) {
-      await fetch(`${stack.server.url}/api/auth/login`, {
+      await fetch(`${env.stack.server.url}/api/auth/login`, {
         method: 'POST',
         headers: { 'content-type': 'application/json' },
         body: JSON.stringify({ email: 'lead@tiltwatch.example', password: `wrong guess ${i}` }),
       });
     }
-    const page = await signIn('admin@tiltwatch.example', DEMO_PASSWORD);
+    const page = await openSignedIn(env, 'admin');
     await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Users' }).click();
     await page.getByRole('heading', { name: 'Accounts' }).waitFor();
 
@@ -68,10 +46,19 @@ describe('Accounts in Chromium', () => {
   });
 
   it('a signed-in operator changes their own password from the account menu and stays signed in', async () => {
-    const page = await signIn('operator@tiltwatch.example', DEMO_PASSWORD);
+    const page = await openSignedIn(env, 'operator');
     await page.getByRole('button', { name: /Your account/ }).click();
     await page.getByRole('menuitem', { name: /Change password/ }).click();
     const dialog = page.getByRole('dialog');
+    // A refusal names the field as the dialog labels it, and stands next to that field.
+    await dialog.getByLabel('Current password').fill('not the password at all');
+    await dialog.getByLabel('New password', { exact: true }).fill('operator night pass phrase');
+    await dialog.getByLabel('New password again').fill('operator night pass phrase');
+    await dialog.getByRole('button', { name: 'Change password' }).click();
+    const current = dialog.locator('mat-form-field', { has: page.getByLabel('Current password') });
+    await expect.poll(() => current.innerText()).toMatch(/Current password: is not your current password/);
+    expect(await dialog.innerText()).not.toMatch(/currentPassword/);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'change-password-refused.png') });
     await dialog.getByLabel('Current password').fill(DEMO_PASSWORD);
     await dialog.getByLabel('New password', { exact: true }).fill('operator night pass phrase');
     await dialog.getByLabel('New password again').fill('operator night pass phrase');
@@ -81,7 +68,7 @@ describe('Accounts in Chromium', () => {
     await page.getByText('Password changed. Your other sign-ins have ended.').waitFor();
     await page.screenshot({ path: join(ARTIFACT_DIR, 'change-password-done.png') });
     expect(page.url()).not.toMatch(/sign-in/);
-    const res = await fetch(`${stack.server.url}/api/auth/login`, {
+    const res = await fetch(`${env.stack.server.url}/api/auth/login`, {
       method: 'POST',
       headers: { 'content-type': 'application/json' },
       body: JSON.stringify({ email: 'operator@tiltwatch.example', password: 'operator night pass phrase' }),

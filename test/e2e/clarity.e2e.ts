@@ -1,49 +1,29 @@
 import { join } from 'node:path';
-import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
-import { DEMO_PASSWORD, signIn, startStack, type Stack } from '../support/stack.js';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { ARTIFACT_DIR } from '../support/browser.js';
+import { openSignedIn, useBrowserStack } from '../support/browser-stack.js';
+import { DEMO_PASSWORD, signIn } from '../support/stack.js';
 
 /** Coil detail, profile validation, acknowledgement focus and live limit changes in Chromium. */
 describe('Clarity in Chromium', () => {
-  let stack: Stack;
-  let chrome: TestBrowser;
+  const env = useBrowserStack();
   let leadToken: string;
 
   beforeAll(async () => {
-    stack = await startStack();
-    chrome = await launchBrowser();
-    leadToken = await signIn(stack.server.url, 'lead');
-  });
-  afterAll(async () => {
-    await chrome?.close();
-    await stack?.close();
+    leadToken = await signIn(env.stack.server.url, 'lead');
   });
 
   const api = async (method: string, path: string, body?: unknown) =>
-    fetch(`${stack.server.url}${path}`, {
+    fetch(`${env.stack.server.url}${path}`, {
       method,
       headers: { authorization: `Bearer ${leadToken}`, 'content-type': 'application/json' },
       body: body === undefined ? undefined : JSON.stringify(body),
     });
 
-  /** The browser profile keeps the previous test's session: sign out the way a person would. */
-  async function signOutFirst(page: Page): Promise<void> {
-    await page.goto(stack.server.url);
-    const signOut = page.getByRole('button', { name: 'Sign out' });
-    await Promise.race([page.getByLabel('Email').waitFor(), signOut.waitFor()]);
-    if (await signOut.isVisible()) await signOut.click();
-    await page.getByLabel('Email').waitFor();
-  }
-
-  async function signedIn(role: 'operator' | 'lead'): Promise<Page> {
-    const page = await chrome.browser.newPage();
-    await page.setViewportSize({ width: 1920, height: 1080 });
-    await signOutFirst(page);
-    await page.getByLabel('Email').fill(`${role}@tiltwatch.example`);
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.getByRole('region', { name: 'Field' }).waitFor();
+  /** A wall-size page signed in as `role`, once Live shows the field. */
+  async function signedIn(role: 'operator' | 'lead') {
+    const page = await openSignedIn(env, role, { viewport: { width: 1920, height: 1080 } });
+    await page.getByRole('region', { name: 'Field' }).waitFor({ timeout: 30_000 });
     return page;
   }
 
@@ -104,6 +84,32 @@ describe('Clarity in Chromium', () => {
     await page.close();
   });
 
+  it('keeps the keyboard focus on the alarm row after Acknowledge on the Alarms page, never on the page body', async () => {
+    // The chiller delivers about 18 °C: a high supply-water limit of 15 °C raises at once.
+    expect((await api('PUT', '/api/alarm-limits/waterSupply.H', { limit: 15, onDelayMs: 0, reason: 'focus test' })).status).toBe(200);
+    const page = await signedIn('operator');
+    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: /Alarms/ }).click();
+    const row = page.getByRole('list', { name: 'Active alarms' }).locator('[data-alarm-id="waterSupply.H"]');
+    const acknowledge = row.getByRole('button', { name: 'Acknowledge' });
+    await acknowledge.waitFor({ timeout: 20_000 });
+    await acknowledge.focus();
+    await page.keyboard.press('Enter');
+    await expect.poll(() => acknowledge.count(), { timeout: 10_000 }).toBe(0);
+    // Where the keyboard is, after the row was drawn anew with its new state (the page's own code, run in the browser).
+    const focusedAlarm = () =>
+      page.locator('body').evaluate((body) => {
+        const active = body.ownerDocument.activeElement;
+        return active?.closest('[data-alarm-id]')?.getAttribute('data-alarm-id') ?? active?.tagName;
+      });
+    await expect.poll(focusedAlarm).toBe('waterSupply.H');
+    await page.waitForTimeout(1500); // a few pushes of the live list later, it is still there
+    expect(await focusedAlarm()).toBe('waterSupply.H');
+    expect(await row.evaluate((el) => el.ownerDocument.defaultView!.getComputedStyle(el).outlineStyle)).not.toBe('none');
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'alarms-focus-after-acknowledge.png'), fullPage: true });
+    expect((await api('PUT', '/api/alarm-limits/waterSupply.H', { limit: 25, onDelayMs: 10_000, reason: 'focus test done' })).status).toBe(200);
+    await page.close();
+  });
+
   it('keeps the keyboard focus on the alarm after Acknowledge on Live, and redraws a changed trip level without a reload', async () => {
     // Put the low supply-water alarm above the chiller's 18 °C so that it raises whatever the coils do.
     expect((await api('PUT', '/api/alarm-limits/waterSupply.L', { limit: 21, reason: 'focus test' })).status).toBe(200);
@@ -130,8 +136,10 @@ describe('Clarity in Chromium', () => {
   });
 
   it('offers a skip link and keeps the focus in the password field after a failed sign-in', async () => {
-    const page = await chrome.browser.newPage();
-    await signOutFirst(page);
+    const page = await env.chrome.browser.newPage();
+    await page.goto(env.stack.server.url);
+    await page.evaluate('localStorage.clear()');
+    await page.goto(env.stack.server.url);
     await page.getByLabel('Email').fill('operator@tiltwatch.example');
     await page.getByLabel('Password').fill('not-the-password');
     await page.getByLabel('Password').press('Enter');

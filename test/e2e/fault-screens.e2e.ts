@@ -6,39 +6,26 @@
  */
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import type { InterlockResetRefusal, InterlockStatus } from '../../shared/alarms/alarm-api.js';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser, signInOnPage } from '../support/browser.js';
-import { DEMO_PASSWORD, signIn, startStack, waitFor, type Stack } from '../support/stack.js';
+import { ARTIFACT_DIR } from '../support/browser.js';
+import { controlSimulator, openPage, openSignedIn, useBrowserStack } from '../support/browser-stack.js';
+import { signIn, waitFor } from '../support/stack.js';
 
 describe('Screens during a fault in Chromium', () => {
-  let stack: Stack;
-  let chrome: TestBrowser;
+  // A start-up stall of the shared cores must not latch a staleness trip before the fault.
+  const env = useBrowserStack({ env: { TILTWATCH_STALE_TRIP_MS: '2000' } });
   let page: Page;
 
   beforeAll(async () => {
-    // A start-up stall of the shared cores must not latch a staleness trip before the fault.
-    stack = await startStack({ env: { TILTWATCH_STALE_TRIP_MS: '2000' } });
-    chrome = await launchBrowser();
-    page = await chrome.browser.newPage();
-    await page.goto(stack.server.url);
-    await signInOnPage(page, 'operator@tiltwatch.example', DEMO_PASSWORD);
+    page = await openSignedIn(env, 'operator');
     await waitFor(async () => (/live/i.test(await page.getByRole('status', { name: 'Connection' }).innerText()) ? true : undefined), 'the live feed', 15_000);
   });
-  afterAll(async () => {
-    await chrome?.close();
-    await stack?.close();
-  });
 
-  const control = (method: 'POST' | 'DELETE', path: string, body?: unknown) =>
-    fetch(`${stack.simulator!.controlUrl}${path}`, {
-      method,
-      headers: body === undefined ? undefined : { 'content-type': 'application/json' },
-      body: body === undefined ? undefined : JSON.stringify(body),
-    });
+  const control = (method: 'POST' | 'DELETE', path: string, body?: unknown) => controlSimulator(env.stack, method, path, body);
   const interlock = async (token: string) =>
-    (await (await fetch(`${stack.server.url}/api/interlock`, { headers: { authorization: `Bearer ${token}` } })).json()) as InterlockStatus;
-  const open = (name: RegExp | string) => page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name }).click();
+    (await (await fetch(`${env.stack.server.url}/api/interlock`, { headers: { authorization: `Bearer ${token}` } })).json()) as InterlockStatus;
+  const open = (name: RegExp | string) => openPage(page, name);
 
   it('shows the present value of an active alarm live while the flow falls, and the value at the raise apart', async () => {
     expect((await control('POST', '/faults', { kind: 'cooling-loss', axis: 'x' })).status).toBe(201);
@@ -67,7 +54,7 @@ describe('Screens during a fault in Chromium', () => {
   });
 
   it("refuses the software reset while the controller's hardware trip holds, and resets once it was cleared at the apparatus", async () => {
-    const token = await signIn(stack.server.url, 'operator');
+    const token = await signIn(env.stack.server.url, 'operator');
     await waitFor(async () => ((await interlock(token)).hardwareTripped ? true : undefined), 'the hardware low-flow trip', 30_000);
     expect((await control('DELETE', '/faults')).status).toBe(200);
     await open('Interlocks');
@@ -79,7 +66,7 @@ describe('Screens during a fault in Chromium', () => {
     await expect.poll(async () => note.count(), { timeout: 10_000 }).toBe(1);
     const button = page.getByRole('button', { name: 'Reset software interlock' });
     expect(await button.isDisabled()).toBe(true);
-    const refused = await fetch(`${stack.server.url}/api/interlock/reset`, {
+    const refused = await fetch(`${env.stack.server.url}/api/interlock/reset`, {
       method: 'POST',
       headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
       body: JSON.stringify({ reason: 'flow back at 3 L/min' }),

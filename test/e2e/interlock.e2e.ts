@@ -1,7 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser, signInOnPage } from '../support/browser.js';
-import { DEMO_PASSWORD, startStack, waitFor, type Stack } from '../support/stack.js';
+import { ARTIFACT_DIR } from '../support/browser.js';
+import { controlSimulator, openPage, openSignedIn, useBrowserStack } from '../support/browser-stack.js';
+import { waitFor } from '../support/stack.js';
 
 /** `GET {controlUrl}/state`: the part of the simulated controller's front panel this test reads. */
 interface ControllerPanel {
@@ -9,32 +10,13 @@ interface ControllerPanel {
 }
 
 describe('Software interlock in Chromium', () => {
-  let stack: Stack;
-  let chrome: TestBrowser;
-
-  beforeAll(async () => {
-    // The browser and the whole stack share this machine's cores; a start-up stall of a few
-    // hundred ms must not latch a staleness trip before the cooling loss this test is about.
-    stack = await startStack({ env: { TILTWATCH_STALE_TRIP_MS: '2000' } });
-    chrome = await launchBrowser();
-  });
-  afterAll(async () => {
-    await chrome?.close();
-    await stack?.close();
-  });
-
-  async function control(method: 'POST' | 'DELETE' | 'GET', path: string, body?: unknown): Promise<Response> {
-    return fetch(`${stack.simulator!.controlUrl}${path}`, {
-      method,
-      headers: body === undefined ? undefined : { 'content-type': 'application/json' },
-      body: body === undefined ? undefined : JSON.stringify(body),
-    });
-  }
+  // The browser and the whole stack share this machine's cores; a start-up stall of a few
+  // hundred ms must not latch a staleness trip before the cooling loss this test is about.
+  const env = useBrowserStack({ env: { TILTWATCH_STALE_TRIP_MS: '2000' } });
+  const control = (method: 'POST' | 'DELETE' | 'GET', path: string, body?: unknown) => controlSimulator(env.stack, method, path, body);
 
   it('trips on a cooling loss, shows it on every screen, and resets with a reason once the flow is back', async () => {
-    const page = await chrome.browser.newPage();
-    await page.goto(stack.server.url);
-    await signInOnPage(page, 'operator@tiltwatch.example', DEMO_PASSWORD);
+    const page = await openSignedIn(env, 'operator');
     await expect.poll(async () => page.getByRole('status', { name: 'Connection' }).innerText(), { timeout: 15_000 }).toMatch(/live/i);
     const banner = page.getByRole('alert', { name: 'Software interlock' });
     expect(await banner.count()).toBe(0);
@@ -47,7 +29,7 @@ describe('Software interlock in Chromium', () => {
 
     // The operator acknowledges the low-low flow alarm on the Alarms page (unfolding any group
     // it sits in: the demo program's ramps may have raised an alarm shortly before).
-    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: /Alarms/ }).click();
+    await openPage(page, /Alarms/);
     const active = page.getByRole('list', { name: 'Active alarms' });
     await active.waitFor();
     const lowLowFlow = active.getByRole('article', { name: 'flow.x.LL' });
@@ -69,7 +51,7 @@ describe('Software interlock in Chromium', () => {
     // The cause is cleared; the controller's own low-flow trip, if it latched, is reset at the
     // controller's front panel, as a person would do standing at it.
     expect((await control('DELETE', '/faults')).status).toBe(200);
-    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Interlocks' }).click();
+    await openPage(page, 'Interlocks');
     const lowFlowX = page.getByRole('table', { name: 'Trip conditions' }).locator('tbody tr', { hasText: 'low flow x' });
     await expect.poll(async () => lowFlowX.innerText(), { timeout: 30_000 }).toMatch(/Clear/);
     const panel = (await (await control('GET', '/state')).json()) as ControllerPanel;

@@ -1,25 +1,13 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser, signInOnPage } from '../support/browser.js';
-import { DEMO_PASSWORD, startStack, type Stack } from '../support/stack.js';
+import { ARTIFACT_DIR } from '../support/browser.js';
+import { openSignedIn, useBrowserStack } from '../support/browser-stack.js';
 
 describe('Live page in Chromium', () => {
-  let stack: Stack;
-  let chrome: TestBrowser;
-
-  beforeAll(async () => {
-    stack = await startStack();
-    chrome = await launchBrowser();
-  });
-  afterAll(async () => {
-    await chrome?.close();
-    await stack?.close();
-  });
+  const env = useBrowserStack();
 
   it('shows moving values and charts to a signed-in operator', async () => {
-    const page = await chrome.browser.newPage();
-    await page.goto(stack.server.url);
-    await signInOnPage(page, 'operator@tiltwatch.example', DEMO_PASSWORD);
+    const page = await openSignedIn(env, 'operator');
 
     const field = page.getByRole('region', { name: 'Field' });
     await field.waitFor();

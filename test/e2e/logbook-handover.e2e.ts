@@ -1,9 +1,8 @@
 import { join } from 'node:path';
-import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
+import { describe, expect, it } from 'vitest';
+import { ARTIFACT_DIR } from '../support/browser.js';
+import { openPage, openSignedIn, useBrowserStack } from '../support/browser-stack.js';
 import { pngBytes } from '../support/sample-files.js';
-import { DEMO_PASSWORD, startStack, type Stack } from '../support/stack.js';
 
 /**
  * The Logbook and Handover screens in Chromium against the real stack: writing with a file and a
@@ -11,35 +10,11 @@ import { DEMO_PASSWORD, startStack, type Stack } from '../support/stack.js';
  * prepared and submitted by the operator and accepted by the lead after reading every section.
  */
 describe('Logbook and Handover in Chromium', () => {
-  let stack: Stack;
-  let chrome: TestBrowser;
-
-  beforeAll(async () => {
-    stack = await startStack({ env: { TILTWATCH_STALE_TRIP_MS: '2000' } });
-    chrome = await launchBrowser();
-  });
-  afterAll(async () => {
-    await chrome?.close();
-    await stack?.close();
-  });
-
-  async function signIn(page: Page, email: string): Promise<void> {
-    // The pages share one browser profile: forget the previous person's session first.
-    await page.goto(stack.server.url);
-    await page.evaluate('localStorage.clear()');
-    await page.goto(stack.server.url);
-    await page.getByLabel('Email').waitFor({ timeout: 60_000 });
-    await page.getByLabel('Email').fill(email);
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.getByRole('navigation', { name: 'Pages' }).waitFor();
-  }
-  const goTo = (page: Page, name: string) => page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name }).click();
+  const env = useBrowserStack({ env: { TILTWATCH_STALE_TRIP_MS: '2000' } });
 
   it('writes entries with files, shows raw HTML as text, searches, and keeps a correction beside the original', async () => {
-    const page = await chrome.browser.newPage();
-    await signIn(page, 'operator@tiltwatch.example');
-    await goTo(page, 'Logbook');
+    const page = await openSignedIn(env, 'operator');
+    await openPage(page, 'Logbook');
     const composer = page.getByRole('form', { name: 'Write an entry' });
     await composer.waitFor();
 
@@ -93,9 +68,8 @@ describe('Logbook and Handover in Chromium', () => {
   });
 
   it('hands a shift over: prepared and submitted by the operator, read and accepted by the lead', async () => {
-    const outgoing = await chrome.browser.newPage();
-    await signIn(outgoing, 'operator@tiltwatch.example');
-    await goTo(outgoing, 'Handover');
+    const outgoing = await openSignedIn(env, 'operator');
+    await openPage(outgoing, 'Handover');
     await outgoing.getByRole('button', { name: 'Start handover' }).click();
     const sheet = outgoing.getByRole('article', { name: 'Handover 1' });
     await sheet.waitFor();
@@ -115,9 +89,8 @@ describe('Logbook and Handover in Chromium', () => {
     await outgoing.screenshot({ path: join(ARTIFACT_DIR, 'handover-submitted.png'), fullPage: true });
     await outgoing.close();
 
-    const incoming = await chrome.browser.newPage();
-    await signIn(incoming, 'lead@tiltwatch.example');
-    await goTo(incoming, 'Handover');
+    const incoming = await openSignedIn(env, 'lead');
+    await openPage(incoming, 'Handover');
     const same = incoming.getByRole('article', { name: 'Handover 1' });
     await same.waitFor();
     expect(await same.innerText()).toMatch(/Handed over by\s*operator@tiltwatch\.example/);

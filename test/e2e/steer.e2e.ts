@@ -1,49 +1,29 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
-import { ARTIFACT_DIR, launchBrowser, type TestBrowser } from '../support/browser.js';
-import { DEMO_PASSWORD, startStack, type Stack } from '../support/stack.js';
+import { ARTIFACT_DIR } from '../support/browser.js';
+import { openPage, openSignedIn, useBrowserStack } from '../support/browser-stack.js';
+import { signIn } from '../support/stack.js';
 import type { SteeringStatus } from '../../shared/steering/steering-api.js';
 
 describe('Steer page in Chromium', () => {
-  let stack: Stack;
-  let chrome: TestBrowser;
+  // Staleness is not under test: the browser and the stack share this machine's cores.
+  const env = useBrowserStack({ env: { TILTWATCH_STALE_TRIP_MS: '3000' } });
 
-  beforeAll(async () => {
-    // Staleness is not under test: the browser and the stack share this machine's cores.
-    stack = await startStack({ env: { TILTWATCH_STALE_TRIP_MS: '3000' } });
-    chrome = await launchBrowser();
-  });
-  afterAll(async () => {
-    await chrome?.close();
-    await stack?.close();
-  });
-
-  async function signIn(role: 'viewer' | 'operator') {
-    const page = await chrome.browser.newPage();
-    // The browser keeps one session for all its pages: start signed out.
-    await page.goto(stack.server.url);
-    const email = page.getByLabel('Email');
-    const signOut = page.getByRole('button', { name: 'Sign out' });
-    await email.or(signOut).first().waitFor();
-    if (await signOut.isVisible()) await signOut.click();
-    await page.getByLabel('Email').fill(`${role}@tiltwatch.example`);
-    await page.getByLabel('Password').fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+  /** The Steer page, signed in as `role` once the live feed runs. */
+  async function steerPage(role: 'viewer' | 'operator') {
+    const page = await openSignedIn(env, role);
     await expect.poll(async () => page.getByRole('status', { name: 'Connection' }).innerText(), { timeout: 15_000 }).toMatch(/live/i);
-    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Steer' }).click();
+    await openPage(page, 'Steer');
     return page;
   }
 
   async function steeringStatus(): Promise<SteeringStatus> {
-    const login = await fetch(`${stack.server.url}/api/auth/login`, {
-      method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'viewer@tiltwatch.example', password: DEMO_PASSWORD }),
-    });
-    const { token } = (await login.json()) as { token: string };
-    return (await (await fetch(`${stack.server.url}/api/steering`, { headers: { authorization: `Bearer ${token}` } })).json()) as SteeringStatus;
+    const token = await signIn(env.stack.server.url, 'viewer');
+    return (await (await fetch(`${env.stack.server.url}/api/steering`, { headers: { authorization: `Bearer ${token}` } })).json()) as SteeringStatus;
   }
 
   it('pre-flights a target, refuses to send a failing one, and steers after the confirm step', async () => {
-    const page = await signIn('operator');
+    const page = await steerPage('operator');
     const form = page.getByRole('region', { name: 'New target' });
     await form.getByLabel('|B|').fill('40');
     await form.getByLabel('θ (from trap z)').fill('54.7');
@@ -84,7 +64,7 @@ describe('Steer page in Chromium', () => {
   });
 
   it('shows the state read-only to a viewer', async () => {
-    const page = await signIn('viewer');
+    const page = await steerPage('viewer');
     await page.getByRole('region', { name: 'What steers the field' }).waitFor();
     expect(await page.getByText('Viewing only: setting a target needs the operator role').count()).toBe(1);
     expect(await page.getByRole('button', { name: 'Run pre-flight' }).count()).toBe(0);

@@ -49,21 +49,21 @@ describe('logbook API', () => {
   });
 
   it('refuses empty text, hostile text and malformed fields with a 400 naming the field', async () => {
-    expect(await write({ text: '   ' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Text: .*cannot be empty/) } });
-    expect(await write({})).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Text:/) } });
-    expect(await write({ text: 'a\u0000b' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/text must not contain a NUL/) } });
-    expect(await write({ text: 'half \uD800 pair' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/text .*lone surrogate/) } });
+    expect(await write({ text: '   ' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Entry: .*cannot be empty/) } });
+    expect(await write({})).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Entry:/) } });
+    expect(await write({ text: 'a\u0000b' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Entry: must not contain a NUL/) } });
+    expect(await write({ text: 'half \uD800 pair' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Entry: .*lone surrogate/) } });
     // Form fields are not JSON: the logbook checks them itself.
-    expect(await upload({ text: 'a\u0000b' }, [])).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Text: .*NUL/) } });
+    expect(await upload({ text: 'a\u0000b' }, [])).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Entry: .*NUL/) } });
     expect(await upload({ text: 'ok', link: 'alarm:x\u0007' }, [])).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to:/) } });
     expect(await write({ text: 'x', tags: ['two words'] })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Tags:/) } });
-    expect(await write({ text: 'x', at: 'yesterday' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Refers to \(at\):/) } });
+    expect(await write({ text: 'x', at: 'yesterday' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Refers to:/) } });
     expect(await write({ text: 'x', at: new Date(Date.now() + 86_400_000).toISOString() })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/future/) } });
     expect(await write({ text: 'x', link: 'alarm:no.such.alarm' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no alarm/) } });
     expect(await write({ text: 'x', link: 'trip:2020-01-01T00:00:00Z' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no interlock trip/) } });
     expect(await write({ text: 'x', link: 'run:999' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no run number 999/) } });
     expect(await write({ text: 'x', link: 'shot:none-such' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no shot/) } });
-    expect(await write({ text: 'x', amends: 999_999 })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Corrects entry .*no entry 999999/) } });
+    expect(await write({ text: 'x', amends: 999_999 })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Corrects entry: .*no entry 999999/) } });
     expect(await write({ text: 'x', colour: 'red' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/Unknown field/) } });
     expect(await write({ text: 123 })).toMatchObject({ status: 400 });
   });

@@ -1,14 +1,16 @@
 import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, inject, signal, untracked } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatTabsModule } from '@angular/material/tabs';
+import { firstValueFrom } from 'rxjs';
 import { errorText } from '../api/error-text';
 import { Session } from '../auth/session';
 import { LiveFeed } from '../feed/live-feed';
 import type { AlarmHealthReport, AlarmListItem } from '../../../shared/alarms/alarm-api';
 import { formatLocalDateTime } from '../readout/format-quantity';
+import { keepFocusOnAlarm } from './alarm-focus';
 import { AlarmHistory } from './alarm-history';
 import { AlarmLimits } from './alarm-limits';
 import { AlarmList } from './alarm-list';
@@ -16,7 +18,7 @@ import type { AlarmActionRequest, ListedAlarm } from './alarm-row';
 import { AlarmRequests } from './alarm-requests';
 import { AlarmSystemHealth } from './alarm-system-health';
 import { channelLabel, channelQuantity } from './channel-text';
-import { ReasonDialog, type ReasonDialogData } from './reason-dialog';
+import { ReasonDialog, type ReasonDialogData } from '../shared-ui/reason-dialog';
 
 /** Longest shelving offered, minutes (one shift; the server enforces its own maximum). */
 export const MAX_SHELVE_MINUTES = 480;
@@ -44,6 +46,7 @@ export class AlarmsPage {
   private readonly feed = inject(LiveFeed);
   private readonly requests = inject(AlarmRequests);
   private readonly dialog = inject(MatDialog);
+  private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
   protected readonly role = inject(Session).role;
 
   /** Every alarm with its state; reloaded whenever the server pushes a change and after each request. */
@@ -101,11 +104,11 @@ export class AlarmsPage {
     const subject = `${channelLabel(alarm.channel)} (${alarm.id}): ${channelQuantity(alarm.channel, alarm.value)}, limit ${channelQuantity(alarm.channel, alarm.limit)}`;
     switch (action) {
       case 'acknowledge':
-        return this.send(() => this.requests.acknowledge(alarm.id));
+        return this.send(alarm.id, () => this.requests.acknowledge(alarm.id));
       case 'unshelve':
-        return this.send(() => this.requests.unshelve(alarm.id, ''));
+        return this.send(alarm.id, () => this.requests.unshelve(alarm.id, ''));
       case 'shelve':
-        return this.ask({
+        return this.ask(alarm.id, {
           title: 'Shelve alarm',
           subject: `${subject}. A shelved alarm is still evaluated and logged, but not shown to the shift.`,
           confirm: 'Shelve',
@@ -113,21 +116,21 @@ export class AlarmsPage {
           send: (reason, minutes) => this.requests.shelve(alarm.id, minutes ?? 0, reason),
         });
       case 'reset':
-        return this.ask({
+        return this.ask(alarm.id, {
           title: 'Reset latched alarm',
           subject: `${subject}. The condition has cleared; the reset also acknowledges it.`,
           confirm: 'Reset',
           send: (reason) => this.requests.reset(alarm.id, reason),
         });
       case 'out-of-service':
-        return this.ask({
+        return this.ask(alarm.id, {
           title: 'Take alarm out of service',
           subject: `${subject}. It will not be evaluated at all until returned to service.`,
           confirm: 'Take out of service',
           send: (reason) => this.requests.setOutOfService(alarm.id, true, reason),
         });
       case 'return-to-service':
-        return this.ask({
+        return this.ask(alarm.id, {
           title: 'Return alarm to service',
           subject,
           confirm: 'Return to service',
@@ -136,19 +139,23 @@ export class AlarmsPage {
     }
   }
 
-  private async send(request: () => Promise<unknown>): Promise<void> {
-    try {
-      await request();
-    } catch (err) {
-      this.problem.set(errorText(err));
-    }
-    this.all.reload();
+  /** Sends a request without a dialog; the keyboard stays on the alarm's row while its buttons change. */
+  private async send(alarmId: string, request: () => Promise<unknown>): Promise<void> {
+    await keepFocusOnAlarm(this.host.nativeElement, alarmId, async () => {
+      try {
+        await request();
+      } catch (err) {
+        this.problem.set(errorText(err));
+      }
+      this.all.reload();
+    });
   }
 
-  private ask(data: ReasonDialogData): void {
-    const ref = this.dialog.open<ReasonDialog, ReasonDialogData, true>(ReasonDialog, { data, width: '480px', autoFocus: 'first-tabbable' });
-    ref.afterClosed().subscribe((done) => {
-      if (done) this.all.reload();
+  /** Asks for the reason in a dialog; on closing, the keyboard comes back to the alarm's row. */
+  private ask(alarmId: string, data: ReasonDialogData): Promise<void> {
+    return keepFocusOnAlarm(this.host.nativeElement, alarmId, async () => {
+      const ref = this.dialog.open<ReasonDialog, ReasonDialogData, true>(ReasonDialog, { data, width: '480px', autoFocus: 'first-tabbable' });
+      if (await firstValueFrom(ref.afterClosed())) this.all.reload();
     });
   }
 }

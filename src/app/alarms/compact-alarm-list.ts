@@ -5,6 +5,7 @@ import { RouterLink } from '@angular/router';
 import type { ActiveAlarm } from '../../../shared/alarms/alarm-api';
 import { hasRole, type Role } from '../../../shared/auth/roles';
 import { errorText } from '../api/error-text';
+import { keepFocusOnAlarm } from './alarm-focus';
 import { PRIORITY_LOOK, awaitsAcknowledgement, levelWords, stateWords } from './alarm-look';
 import { AlarmRequests } from './alarm-requests';
 import { channelLabel, channelQuantity } from './channel-text';
@@ -46,17 +47,13 @@ export class CompactAlarmList {
 
   protected async acknowledge(alarm: ActiveAlarm): Promise<void> {
     this.problem.set(null);
-    this.line(alarm.id)?.focus();
-    try {
-      await this.requests.acknowledge(alarm.id);
-    } catch (err) {
-      this.problem.set(`${alarm.id} was not acknowledged: ${errorText(err)}`);
-    }
     // The button disappears with the new state; keep the keyboard on the same alarm's line.
-    setTimeout(() => this.line(alarm.id)?.focus());
-  }
-
-  private line(id: string): HTMLElement | null {
-    return this.host.nativeElement.querySelector<HTMLElement>(`[data-alarm-id="${CSS.escape(id)}"]`);
+    await keepFocusOnAlarm(this.host.nativeElement, alarm.id, async () => {
+      try {
+        await this.requests.acknowledge(alarm.id);
+      } catch (err) {
+        this.problem.set(`${alarm.id} was not acknowledged: ${errorText(err)}`);
+      }
+    });
   }
 }

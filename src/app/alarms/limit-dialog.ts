@@ -13,7 +13,7 @@ import { PRIORITY_LOOK } from './alarm-look';
 import type { AlarmLimitChanges, AlarmLimitRecord } from './alarm-records';
 import { AlarmRequests } from './alarm-requests';
 import { channelLabel, channelUnit } from './channel-text';
-import { MAX_REASON_CHARS } from './reason-dialog';
+import { MAX_REASON_CHARS } from '../shared-ui/reason-dialog';
 
 const num = (value: number) => new FormControl<number | null>(value);
 const text = (value: string) => new FormControl(value, { nonNullable: true });

@@ -125,6 +125,8 @@ export class ChartPanel {
             font,
             grid: { stroke: grid, width: 1 },
             ticks: { stroke: grid, width: 1 },
+            // Room for a whole "hh:mm:ss" and a gap between neighbours, also on narrow charts.
+            space: Math.round(6 * rem),
             values: (_u, splits, _axis, _space, increment) =>
               splits.map((t) => (increment >= 60_000 ? formatLocalTime(t).slice(0, 5) : formatLocalTime(t))),
           },

@@ -52,7 +52,7 @@ const PREDICTED_AXES: ChartAxis[] = [{ scale: '%', label: 'Deformation (%)', sid
     <tw-chart-panel caption="Field angles" [buffer]="fast()" [lines]="fieldLines" [axes]="fieldAxes" [windowSeconds]="windowSeconds()"
                     [endMs]="windowEndMs()" [marker]="marker()" [staleNote]="staleNote()" />
     <tw-chart-panel caption="Predicted shape" [buffer]="predicted()" [lines]="predictedLines" [axes]="predictedAxes" [windowSeconds]="windowSeconds()"
-                    [endMs]="windowEndMs()" [marker]="marker()" [staleNote]="staleNote()" />
+                    [endMs]="windowEndMs()" [marker]="marker()" [staleNote]="predictedNote() ?? staleNote()" />
   `,
   styleUrl: './telemetry-charts.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -69,6 +69,8 @@ export class TelemetryCharts {
   readonly windowEndMs = input<number | null>(null);
   readonly marker = input<TimeMarker | null>(null);
   readonly staleNote = input<string | null>(null);
+  /** Why the predicted shape has a gap now (field too weak to orient, stale data); null shows `staleNote`. */
+  readonly predictedNote = input<string | null>(null);
 
   protected readonly currentLines = CURRENT_LINES;
   protected readonly currentAxes = CURRENT_AXES;

@@ -11,6 +11,8 @@ import { MatIconModule } from '@angular/material/icon';
   templateUrl: './file-drop.html',
   styleUrl: './file-drop.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
+  // A file dropped just beside the zone must not make the browser open it in place of the app.
+  host: { '(window:dragover)': 'keepFileOutOfWindow($event)', '(window:drop)': 'keepFileOutOfWindow($event)' },
 })
 export class FileDrop {
   /** The file chosen so far, shown in the zone; null shows `prompt`. */
@@ -29,8 +31,19 @@ export class FileDrop {
     this.dragging.set(true);
   }
 
+  /** Leaving the zone for one of its own children is no leaving. */
+  protected dragLeave(event: DragEvent): void {
+    const zone = event.currentTarget as HTMLElement;
+    if (!(event.relatedTarget instanceof Node && zone.contains(event.relatedTarget))) this.dragging.set(false);
+  }
+
+  protected keepFileOutOfWindow(event: DragEvent): void {
+    if (event.dataTransfer?.types.includes('Files')) event.preventDefault();
+  }
+
   protected drop(event: DragEvent): void {
     event.preventDefault();
+    event.stopPropagation();
     this.dragging.set(false);
     this.choose(event.dataTransfer?.files ?? null);
   }

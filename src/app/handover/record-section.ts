@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import type { HandoverRecord, HandoverSection } from '../../../shared/handover/handover-api';
-import { formatLocalDateTime } from '../readout/format-quantity';
+import { formatAzimuth, formatLocalDateTime } from '../readout/format-quantity';
 
 /** The part of one checklist section the server filled in from its records (read-only). */
 @Component({
@@ -12,7 +12,7 @@ import { formatLocalDateTime } from '../readout/format-quantity';
         @let a = r.apparatus;
         <dl class="facts">
           <dt>Field</dt>
-          <dd>@if (a.field; as f) { {{ f.magnitudeG.toFixed(2) }} G, θ {{ f.thetaDeg === null ? '—' : f.thetaDeg.toFixed(1) + '°' }}, φ {{ f.phiDeg === null ? '—' : f.phiDeg.toFixed(1) + '°' }} } @else { no telemetry }</dd>
+          <dd>@if (a.field; as f) { {{ f.magnitudeG.toFixed(2) }} G, θ {{ f.thetaDeg === null ? '—' : f.thetaDeg.toFixed(1) + '°' }}, φ {{ azimuth(f.phiDeg, 1) }} } @else { no telemetry }</dd>
           <dt>Coil currents</dt>
           <dd>@if (a.currentsA; as c) { x {{ c.x.toFixed(2) }} A, y {{ c.y.toFixed(2) }} A, z {{ c.z.toFixed(2) }} A } @else { no telemetry }</dd>
           <dt>Software interlock</dt>
@@ -128,6 +128,8 @@ import { formatLocalDateTime } from '../readout/format-quantity';
 export class RecordSection {
   readonly record = input.required<HandoverRecord>();
   readonly section = input.required<HandoverSection>();
+
+  protected readonly azimuth = formatAzimuth;
 
   protected local(iso: string): string {
     return formatLocalDateTime(Date.parse(iso));

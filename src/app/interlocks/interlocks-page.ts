@@ -9,8 +9,9 @@ import { firstValueFrom } from 'rxjs';
 import type { InterlockCondition, InterlockResetRefusal, InterlockStatus, InterlockTripRecord } from '../../../shared/alarms/alarm-api';
 import { hasRole } from '../../../shared/auth/roles';
 import { quantityText } from '../alarms/channel-text';
-import { MAX_REASON_CHARS } from '../alarms/reason-dialog';
+import { MAX_REASON_CHARS } from '../shared-ui/reason-dialog';
 import { errorText } from '../api/error-text';
+import { fieldMessage, placeServerError } from '../api/field-errors';
 import { Session } from '../auth/session';
 import { LiveFeed } from '../feed/live-feed';
 import { formatLocalDateTime } from '../readout/format-quantity';
@@ -59,6 +60,7 @@ export class InterlocksPage {
   protected readonly maxReason = MAX_REASON_CHARS;
   protected readonly resetting = signal(false);
   protected readonly resetProblem = signal<string | null>(null);
+  protected readonly fieldMessage = fieldMessage;
   /** Conditions the server said still hold when it refused the reset. */
   protected readonly stillActive = signal<InterlockCondition[]>([]);
   protected readonly resetDone = signal<string | null>(null);
@@ -126,7 +128,7 @@ export class InterlocksPage {
       this.resetForm.reset();
       this.resetDone.set(`Reset at ${formatLocalDateTime(Date.now())}. The controller is released and holds zero current until it gets a new setpoint.`);
     } catch (err) {
-      this.resetProblem.set(errorText(err));
+      this.resetProblem.set(placeServerError(err, this.resetForm.controls));
       if (err instanceof HttpErrorResponse && err.status === 409) {
         this.stillActive.set((err.error as Partial<InterlockResetRefusal> | null)?.conditions ?? []);
       }

@@ -21,7 +21,7 @@ import {
   type TripLevels,
 } from '../../../shared/levels/level-set';
 import { fieldMessage, markField, placeServerError } from '../api/field-errors';
-import { MAX_REASON_CHARS } from '../alarms/reason-dialog';
+import { MAX_REASON_CHARS } from '../shared-ui/reason-dialog';
 
 interface NumberField {
   /** Path in the level set, as the server names it in a refusal (without `levels.`). */

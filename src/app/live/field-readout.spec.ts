@@ -34,6 +34,7 @@ describe('readField', () => {
   });
 
   it('shows an azimuth that would round to 360.0° as 0.0°', () => {
+    expect(readField({ vector: { x: 1, y: -0.0001, z: 0 }, magnitude: 1, thetaDeg: 90, phiDeg: 359.96 }).phi).toBe('0.0°');
     expect(readField({ vector: { x: 1, y: -0.0001, z: 0 }, magnitude: 1, thetaDeg: 90, phiDeg: 359.99 }).phi).toBe('0.0°');
   });
 });

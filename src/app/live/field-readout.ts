@@ -1,5 +1,5 @@
 import type { FieldState } from '../../../shared/field/field-vector';
-import { NO_VALUE, formatQuantity } from '../readout/format-quantity';
+import { NO_VALUE, formatAzimuth, formatQuantity } from '../readout/format-quantity';
 
 /** The field as the field panel shows it: text with units, ready for the template. */
 export interface FieldReadout {
@@ -22,13 +22,11 @@ export function readField(field: FieldState | null): FieldReadout {
     return { magnitudeGauss: NO_VALUE, magnitudeMilliTesla: NO_VALUE, theta: NO_VALUE, phi: NO_VALUE, angleNote: 'No field data yet.' };
   }
   const undefinedDirection = field.thetaDeg === null || field.phiDeg === null;
-  // An azimuth that rounds up to 360.0° is shown as 0.0°, its equal on the circle.
-  const phiDeg = field.phiDeg !== null && field.phiDeg >= 359.95 ? field.phiDeg - 360 : field.phiDeg;
   return {
     magnitudeGauss: formatQuantity(field.magnitude, 'G', 3),
     magnitudeMilliTesla: formatQuantity(field.magnitude * MILLITESLA_PER_GAUSS, 'mT', 4),
     theta: formatQuantity(field.thetaDeg, '°', 1),
-    phi: formatQuantity(phiDeg, '°', 1),
+    phi: formatAzimuth(field.phiDeg, 1),
     angleNote: undefinedDirection ? 'θ and φ are undefined while |B| ≈ 0: the field has no direction.' : null,
   };
 }

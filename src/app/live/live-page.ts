@@ -8,7 +8,7 @@ import { DEFAULT_WINDOW_SECONDS, TIME_WINDOWS } from '../charts/time-window';
 import { isStale } from '../feed/connection-state';
 import { LiveFeed } from '../feed/live-feed';
 import { PredictionPanel } from '../prediction/prediction-panel';
-import { PredictionSeries } from '../prediction/prediction-series';
+import { PredictionSeries, predictionGapNote } from '../prediction/prediction-series';
 import { ActiveProfile } from '../profiles/active-profile';
 import { formatLocalTime } from '../readout/format-quantity';
 import { CompactAlarmList } from '../alarms/compact-alarm-list';
@@ -48,6 +48,9 @@ export class LivePage {
     if (!isStale(reading.state)) return null;
     return reading.newestDataAtMs === null ? 'No data received yet' : `Stale since ${formatLocalTime(reading.newestDataAtMs)}`;
   });
+
+  /** Why the predicted-shape chart has a gap now (stale data, field too weak to orient), or null. */
+  protected readonly predictionGap = computed(() => predictionGapNote(this.live()?.predictionStatus ?? null, this.staleNote()));
 
   protected readonly windows = TIME_WINDOWS;
   protected readonly windowSeconds = signal(DEFAULT_WINDOW_SECONDS);

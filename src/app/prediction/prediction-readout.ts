@@ -1,5 +1,5 @@
 import type { LivePrediction } from '../../../shared/live/live-state';
-import { NO_VALUE, formatLocalTime, formatNumber, formatQuantity } from '../readout/format-quantity';
+import { NO_VALUE, formatLocalTime, formatNumber, formatQuantity, formatAzimuth } from '../readout/format-quantity';
 
 /** Whether the gas is predicted stable, collapsed, or not known yet. */
 export type StabilityKind = 'stable' | 'collapsed' | 'unknown';
@@ -57,7 +57,7 @@ export function readPrediction(prediction: LivePrediction | null): PredictionRea
     collapseRatio: ratio === null ? NO_VALUE : formatNumber(ratio, 3),
     stability: stable ? 'stable' : 'collapsed',
     stabilityText: stabilitySentence(stable, ratio),
-    direction: `θ ${formatQuantity(prediction.thetaDeg, '°', 1)}, φ ${formatQuantity(prediction.phiDeg, '°', 1)}`,
+    direction: `θ ${formatQuantity(prediction.thetaDeg, '°', 1)}, φ ${formatAzimuth(prediction.phiDeg, 1)}`,
     computedAt: Number.isFinite(computedAtMs) ? formatLocalTime(computedAtMs) : NO_VALUE,
   };
 }

@@ -1,11 +1,12 @@
 import { HttpClient } from '@angular/common/http';
 import { DestroyRef, Injectable, effect, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { LivePrediction } from '../../../shared/live/live-state';
+import type { LivePrediction, PredictionStatus } from '../../../shared/live/live-state';
 import type { PredictionHistory } from '../../../shared/profiles/profile-record';
 import { RingBuffer } from '../charts/ring-buffer';
 import { DEFAULT_WINDOW_SECONDS, POINTS_PER_WINDOW, sampleSpacingMs } from '../charts/time-window';
 import { LiveFeed } from '../feed/live-feed';
+import { formatNumber } from '../readout/format-quantity';
 
 /** Columns of `PredictionSeries.buffer`: (β − 1) and (TOF aspect − 1), both in percent. */
 export const PREDICTED = { betaDeviation: 0, tofDeviation: 1 } as const;
@@ -28,10 +29,26 @@ export function deviationPercent(aspect: number | null | undefined): number {
   return aspect === null || aspect === undefined ? Number.NaN : (aspect - 1) * 100;
 }
 
-/** The chart values of a prediction; a collapsed gas is a gap (NaN), never a number. */
-export function predictedValues(prediction: LivePrediction | null): [number, number] {
-  if (!prediction?.stable) return [Number.NaN, Number.NaN];
+/**
+ * The chart values of a prediction: a gap (NaN), never a number, for a collapsed gas and while
+ * the prediction does not apply (field too weak to orient the dipoles, stale or no telemetry).
+ */
+export function predictedValues(prediction: LivePrediction | null, status: PredictionStatus | null): [number, number] {
+  if (!prediction?.stable || status?.state !== 'applies') return [Number.NaN, Number.NaN];
   return [deviationPercent(prediction.fermiSurfaceAspect), deviationPercent(prediction.tofAspect)];
+}
+
+/**
+ * Why the predicted-shape chart shows a gap now, in a few words for its caption; null while
+ * the prediction applies. The stale case says when, through the chart's stale note.
+ */
+export function predictionGapNote(status: PredictionStatus | null, staleNote: string | null): string | null {
+  if (staleNote !== null) return `${staleNote}: no prediction plotted`;
+  if (!status || status.state === 'applies') return null;
+  if (status.state === 'weak-field' && status.fieldG !== null && status.minFieldG !== null) {
+    return `No prediction plotted: |B| = ${formatNumber(status.fieldG, 2)} G is below ${formatNumber(status.minFieldG, 2)} G, too weak to orient the dipoles`;
+  }
+  return `No prediction plotted: ${status.reason ?? 'the prediction does not apply now'}`;
 }
 
 /**
@@ -73,7 +90,7 @@ export class PredictionSeries {
       const live = this.feed.live();
       const t = live?.time ? Date.parse(live.time) : Number.NaN;
       if (!live || !Number.isFinite(t)) return;
-      const point: PredictedPoint = { t, values: predictedValues(live.prediction) };
+      const point: PredictedPoint = { t, values: predictedValues(live.prediction, live.predictionStatus) };
       if (!this.held) this.append(point);
       else if (this.held.length < MAX_HELD) this.held.push(point);
     });

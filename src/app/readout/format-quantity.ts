@@ -12,6 +12,17 @@ export function formatQuantity(value: number | null | undefined, unit: string, d
   return unit === '°' ? `${number}°` : `${number}\u00a0${unit}`;
 }
 
+/**
+ * An azimuth φ in degrees for display, rounded to `digits` decimals and then brought into
+ * [0°, 360°): 359.996° at two decimals reads "0.00°", its equal on the circle, never "360.00°".
+ */
+export function formatAzimuth(phiDeg: number | null | undefined, digits: number): string {
+  if (phiDeg === null || phiDeg === undefined || !Number.isFinite(phiDeg)) return NO_VALUE;
+  const rounded = Number(phiDeg.toFixed(digits));
+  const wrapped = ((rounded % 360) + 360) % 360;
+  return formatQuantity(Number(wrapped.toFixed(digits)), '°', digits);
+}
+
 /** A number with fixed decimals and a true minus sign (U+2212); "−0.00" is shown as "0.00". */
 export function formatNumber(value: number, digits: number): string {
   const text = value.toFixed(digits);

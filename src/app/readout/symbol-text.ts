@@ -17,7 +17,7 @@ const PATTERN = new RegExp(`(${SYMBOLS.map((s) => s.plain.replace(/[.*+?^${}()|[
 @Component({
   selector: 'tw-symbol-text',
   template: `@for (part of parts(); track $index) {@if (part.sub) {<span class="sym">{{ part.base }}<sub>{{ part.sub }}</sub></span>} @else {{{ part.text }}}}`,
-  styles: `sub { font-size: 0.75em; line-height: 0; }`,
+  styles: `sub { font-size: max(12px, 0.75em); line-height: 0; }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SymbolText {

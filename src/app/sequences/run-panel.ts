@@ -7,7 +7,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
 import type { RunRecord, SequenceRecord } from '../../../shared/steering/steering-api';
 import { errorText } from '../api/error-text';
-import { formatLocalDateTime, formatLocalTime, formatNumber, formatQuantity, NO_VALUE } from '../readout/format-quantity';
+import { formatLocalDateTime, formatLocalTime, formatNumber, formatQuantity, formatAzimuth, NO_VALUE } from '../readout/format-quantity';
 import { SteeringRequests } from '../steering/steering-requests';
 import { describeStep } from './sequence-draft';
 
@@ -93,6 +93,8 @@ export class RunPanel {
   protected clock(iso: string): string {
     return formatLocalTime(Date.parse(iso));
   }
+
+  protected readonly azimuth = formatAzimuth;
 
   protected q(v: number | null | undefined, unit: string, digits: number): string {
     return unit ? formatQuantity(v, unit, digits) : v === null || v === undefined ? NO_VALUE : formatNumber(v, digits);

@@ -10,7 +10,7 @@ import { errorText } from '../api/error-text';
 import { Session } from '../auth/session';
 import { LiveFeed } from '../feed/live-feed';
 import { InterlockCautions } from '../interlocks/interlock-cautions';
-import { formatQuantity } from '../readout/format-quantity';
+import { formatAzimuth, formatQuantity } from '../readout/format-quantity';
 import { PathMap } from './path-map';
 import { PreflightTable } from './preflight-table';
 import { EMPTY_DRAFT, requestFromDraft, type SteerDraft } from './steer-draft';
@@ -124,7 +124,7 @@ export class SteerPage {
         this.problem.set('The server’s pre-flight failed just now (the apparatus changed since the check): nothing was sent.');
         this.stage.set('checked');
       } else {
-        this.notice.set(`Steering to |B| ${formatQuantity(request.magnitudeG, 'G', 2)}, θ ${formatQuantity(request.thetaDeg, '°', 1)}, φ ${formatQuantity(request.phiDeg, '°', 1)}: command recorded and sent.`);
+        this.notice.set(`Steering to |B| ${formatQuantity(request.magnitudeG, 'G', 2)}, θ ${formatQuantity(request.thetaDeg, '°', 1)}, φ ${formatAzimuth(request.phiDeg, 1)}: command recorded and sent.`);
         this.result.set(null);
         this.draft.update((d) => ({ ...d, reason: '' }));
         this.stage.set('edit');
@@ -160,6 +160,8 @@ export class SteerPage {
     }
     await this.watch.refresh();
   }
+
+  protected readonly azimuth = formatAzimuth;
 
   protected q(v: number | null | undefined, unit: string, digits: number): string {
     return formatQuantity(v, unit, digits);

@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import type { SteeringStatus } from '../../../shared/steering/steering-api';
-import { formatLocalTime, formatQuantity } from '../readout/format-quantity';
+import { formatAzimuth, formatLocalTime, formatQuantity } from '../readout/format-quantity';
 
 /** One line on what steers the field now: idle, ramping (with progress) or holding, who and why. */
 @Component({
@@ -13,7 +13,7 @@ import { formatLocalTime, formatQuantity } from '../readout/format-quantity';
         <mat-icon aria-hidden="true" inline>{{ icon() }}</mat-icon>
         <strong>{{ headline() }}</strong>
         @if (s.target; as t) {
-          <span class="target">|B| {{ q(t.magnitudeG, 'G', 2) }}, θ {{ q(t.thetaDeg, '°', 1) }}, φ {{ q(t.phiDeg, '°', 1) }}</span>
+          <span class="target">|B| {{ q(t.magnitudeG, 'G', 2) }}, θ {{ q(t.thetaDeg, '°', 1) }}, φ {{ azimuth(t.phiDeg, 1) }}</span>
         }
       </p>
       @if (s.mode !== 'idle') {
@@ -71,6 +71,8 @@ export class SteerStatus {
     const f = Math.min(1, Math.max(0, (this.now() - Date.parse(s.startedAt)) / s.target.rampMs));
     return `${Math.round(f * 100)} % of ${formatQuantity(s.target.rampMs / 1000, 's', 1)}`;
   });
+
+  protected readonly azimuth = formatAzimuth;
 
   protected q(v: number, unit: string, digits: number): string {
     return formatQuantity(v, unit, digits);

@@ -1,16 +1,16 @@
 import { HttpClient } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { firstValueFrom } from 'rxjs';
 import { ROLES, type Role } from '../../../shared/auth/roles';
 import { PASSWORD_MIN_LENGTH } from '../../../shared/auth/user-api';
-import { errorText } from '../api/error-text';
+import { fieldMessage } from '../api/field-errors';
+import { DialogSubmission } from '../shared-ui/dialog-submission';
+import { DialogFooter } from '../shared-ui/dialog-footer';
 import { ROLE_MEANING } from './role-text';
 
 /**
@@ -19,7 +19,7 @@ import { ROLE_MEANING } from './role-text';
  */
 @Component({
   selector: 'tw-add-user-dialog',
-  imports: [MatButtonModule, MatDialogModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
+  imports: [DialogFooter, MatDialogModule, MatFormFieldModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
   template: `
     <h2 mat-dialog-title>Add an account</h2>
     <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
@@ -28,6 +28,7 @@ import { ROLE_MEANING } from './role-text';
           <mat-label>E-mail</mat-label>
           <input matInput type="email" formControlName="email" autocomplete="off" required />
           <mat-hint>The sign-in name</mat-hint>
+          <mat-error>{{ fieldMessage(form.controls.email) }}</mat-error>
         </mat-form-field>
         <mat-form-field appearance="outline">
           <mat-label>Role</mat-label>
@@ -36,37 +37,24 @@ import { ROLE_MEANING } from './role-text';
               <mat-option [value]="role">{{ role }} — {{ meaning[role] }}</mat-option>
             }
           </mat-select>
+          <mat-error>{{ fieldMessage(form.controls.role) }}</mat-error>
         </mat-form-field>
         <mat-form-field appearance="outline">
           <mat-label>First password</mat-label>
           <input matInput type="password" formControlName="password" autocomplete="new-password" required />
           <mat-hint>At least {{ minLength }} characters; they change it after signing in</mat-hint>
+          <mat-error>{{ fieldMessage(form.controls.password) }}</mat-error>
         </mat-form-field>
         <mat-form-field appearance="outline">
           <mat-label>Note for the audit trail (optional)</mat-label>
           <input matInput formControlName="reason" maxlength="500" />
+          <mat-error>{{ fieldMessage(form.controls.reason) }}</mat-error>
         </mat-form-field>
-        @if (problem(); as text) {
-          <p class="problem" role="alert"><mat-icon aria-hidden="true" inline>error</mat-icon> {{ text }}</p>
-        }
       </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button mat-button type="button" mat-dialog-close>Cancel</button>
-        <button mat-flat-button type="submit" [disabled]="sending()">Add account</button>
-      </mat-dialog-actions>
+      <tw-dialog-footer [submission]="submission" confirm="Add account" />
     </form>
   `,
-  styles: `
-    mat-form-field {
-      display: block;
-      width: 100%;
-      margin-top: 8px;
-    }
-    .problem {
-      margin: 8px 0 0;
-      color: var(--tw-trip-text);
-    }
-  `,
+  styleUrl: '../shared-ui/dialog-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AddUserDialog {
@@ -82,23 +70,14 @@ export class AddUserDialog {
     password: new FormControl('', { nonNullable: true }),
     reason: new FormControl('', { nonNullable: true }),
   });
-  protected readonly problem = signal<string | null>(null);
-  protected readonly sending = signal(false);
+  protected readonly submission = new DialogSubmission(this.form.controls);
+  protected readonly fieldMessage = fieldMessage;
 
   protected async submit(): Promise<void> {
     const { email, role, password, reason } = this.form.getRawValue();
-    if (email.trim() === '') return this.problem.set('Enter the e-mail address the person signs in with.');
-    if (password.length < PASSWORD_MIN_LENGTH) return this.problem.set(`The first password needs at least ${PASSWORD_MIN_LENGTH} characters.`);
-    this.problem.set(null);
-    this.sending.set(true);
-    try {
-      const body = { email: email.trim(), role, password, ...(reason.trim() ? { reason: reason.trim() } : {}) };
-      await firstValueFrom(this.http.post('/api/admin/users', body));
-      this.ref.close(true);
-    } catch (err) {
-      this.problem.set(errorText(err));
-    } finally {
-      this.sending.set(false);
-    }
+    if (email.trim() === '') return this.submission.refuse('Enter the e-mail address the person signs in with.');
+    if (password.length < PASSWORD_MIN_LENGTH) return this.submission.refuse(`The first password needs at least ${PASSWORD_MIN_LENGTH} characters.`);
+    const body = { email: email.trim(), role, password, ...(reason.trim() ? { reason: reason.trim() } : {}) };
+    if (await this.submission.send(() => firstValueFrom(this.http.post('/api/admin/users', body)))) this.ref.close(true);
   }
 }

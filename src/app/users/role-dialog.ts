@@ -1,14 +1,14 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { ROLES, type Role } from '../../../shared/auth/roles';
 import type { UserAccount } from '../../../shared/auth/user-api';
-import { errorText } from '../api/error-text';
+import { fieldMessage } from '../api/field-errors';
+import { DialogSubmission } from '../shared-ui/dialog-submission';
+import { DialogFooter } from '../shared-ui/dialog-footer';
 import { ROLE_MEANING } from './role-text';
 
 export interface RoleDialogData {
@@ -20,7 +20,7 @@ export interface RoleDialogData {
 /** Changes an account's role with a reason for the audit trail; the account's sign-ins end. */
 @Component({
   selector: 'tw-role-dialog',
-  imports: [MatButtonModule, MatDialogModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
+  imports: [DialogFooter, MatDialogModule, MatFormFieldModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
   template: `
     <h2 mat-dialog-title>Change role</h2>
     <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
@@ -33,36 +33,19 @@ export interface RoleDialogData {
               <mat-option [value]="role">{{ role }} — {{ meaning[role] }}</mat-option>
             }
           </mat-select>
+          <mat-error>{{ fieldMessage(form.controls.role) }}</mat-error>
         </mat-form-field>
         <mat-form-field appearance="outline">
           <mat-label>Reason</mat-label>
           <textarea matInput formControlName="reason" rows="2" required maxlength="500"></textarea>
           <mat-hint>Written to the audit trail with your name</mat-hint>
+          <mat-error>{{ fieldMessage(form.controls.reason) }}</mat-error>
         </mat-form-field>
-        @if (problem(); as text) {
-          <p class="problem" role="alert"><mat-icon aria-hidden="true" inline>error</mat-icon> {{ text }}</p>
-        }
       </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button mat-button type="button" mat-dialog-close>Cancel</button>
-        <button mat-flat-button type="submit" [disabled]="sending()">Change role</button>
-      </mat-dialog-actions>
+      <tw-dialog-footer [submission]="submission" confirm="Change role" />
     </form>
   `,
-  styles: `
-    mat-form-field {
-      display: block;
-      width: 100%;
-      margin-top: 8px;
-    }
-    .subject {
-      margin: 0 0 8px;
-    }
-    .problem {
-      margin: 8px 0 0;
-      color: var(--tw-trip-text);
-    }
-  `,
+  styleUrl: '../shared-ui/dialog-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class RoleDialog {
@@ -75,22 +58,13 @@ export class RoleDialog {
     role: new FormControl<Role>(this.data.user.role, { nonNullable: true }),
     reason: new FormControl('', { nonNullable: true }),
   });
-  protected readonly problem = signal<string | null>(null);
-  protected readonly sending = signal(false);
+  protected readonly submission = new DialogSubmission(this.form.controls);
+  protected readonly fieldMessage = fieldMessage;
 
   protected async submit(): Promise<void> {
     const { role, reason } = this.form.getRawValue();
-    if (role === this.data.user.role) return this.problem.set(`Choose a role other than ${role}.`);
-    if (reason.trim() === '') return this.problem.set('Write a reason: say why, in a few words, for the audit trail.');
-    this.problem.set(null);
-    this.sending.set(true);
-    try {
-      await this.data.send(role, reason.trim());
-      this.ref.close(true);
-    } catch (err) {
-      this.problem.set(errorText(err));
-    } finally {
-      this.sending.set(false);
-    }
+    if (role === this.data.user.role) return this.submission.refuse(`Choose a role other than ${role}.`);
+    if (reason.trim() === '') return this.submission.refuse('Write a reason: say why, in a few words, for the audit trail.');
+    if (await this.submission.send(() => this.data.send(role, reason.trim()))) this.ref.close(true);
   }
 }

@@ -5,7 +5,7 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { firstValueFrom } from 'rxjs';
 import type { SecurityEvent, SecurityReport, SignInThrottleStatus } from '../../../shared/auth/user-api';
-import { ReasonDialog, type ReasonDialogData } from '../alarms/reason-dialog';
+import { ReasonDialog, type ReasonDialogData } from '../shared-ui/reason-dialog';
 import { errorText } from '../api/error-text';
 import { formatLocalDateTime } from '../readout/format-quantity';
 import { securityEventText } from './role-text';

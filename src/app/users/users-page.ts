@@ -6,7 +6,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { firstValueFrom } from 'rxjs';
 import type { Role } from '../../../shared/auth/roles';
 import type { UserAccount } from '../../../shared/auth/user-api';
-import { ReasonDialog, type ReasonDialogData } from '../alarms/reason-dialog';
+import { ReasonDialog, type ReasonDialogData } from '../shared-ui/reason-dialog';
 import { errorText } from '../api/error-text';
 import { Session } from '../auth/session';
 import { formatLocalDateTime } from '../readout/format-quantity';

@@ -1,11 +1,11 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { errorText } from '../api/error-text';
+import { fieldMessage } from '../api/field-errors';
+import { DialogSubmission } from './dialog-submission';
+import { DialogFooter } from './dialog-footer';
 
 /** Longest reason the server accepts, characters. */
 export const MAX_REASON_CHARS = 500;
@@ -29,7 +29,7 @@ export interface ReasonDialogData {
  */
 @Component({
   selector: 'tw-reason-dialog',
-  imports: [MatButtonModule, MatDialogModule, MatFormFieldModule, MatIconModule, MatInputModule, ReactiveFormsModule],
+  imports: [DialogFooter, MatDialogModule, MatFormFieldModule, MatInputModule, ReactiveFormsModule],
   template: `
     <h2 mat-dialog-title>{{ data.title }}</h2>
     <form [formGroup]="form" (ngSubmit)="submit()" novalidate>
@@ -40,37 +40,20 @@ export interface ReasonDialogData {
             <mat-label>Minutes</mat-label>
             <input matInput type="number" formControlName="minutes" min="1" [max]="max" step="1" required />
             <mat-hint>1 to {{ max }} min; the alarm returns by itself afterwards</mat-hint>
+            <mat-error>{{ fieldMessage(form.controls.minutes) }}</mat-error>
           </mat-form-field>
         }
         <mat-form-field appearance="outline">
           <mat-label>Reason</mat-label>
           <textarea matInput formControlName="reason" rows="3" required [attr.maxlength]="maxReason"></textarea>
           <mat-hint>Written to the audit trail with your name</mat-hint>
+          <mat-error>{{ fieldMessage(form.controls.reason) }}</mat-error>
         </mat-form-field>
-        @if (problem(); as text) {
-          <p class="problem" role="alert"><mat-icon aria-hidden="true" inline>error</mat-icon> {{ text }}</p>
-        }
       </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button mat-button type="button" mat-dialog-close>Cancel</button>
-        <button mat-flat-button type="submit" [disabled]="sending()">{{ data.confirm }}</button>
-      </mat-dialog-actions>
+      <tw-dialog-footer [submission]="submission" [confirm]="data.confirm" />
     </form>
   `,
-  styles: `
-    mat-form-field {
-      display: block;
-      width: 100%;
-      margin-top: 8px;
-    }
-    .subject {
-      margin: 0 0 8px;
-    }
-    .problem {
-      margin: 8px 0 0;
-      color: var(--tw-trip-text);
-    }
-  `,
+  styleUrl: './dialog-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ReasonDialog {
@@ -82,30 +65,17 @@ export class ReasonDialog {
     minutes: new FormControl<number | null>(this.data.maxMinutes ? Math.min(60, this.data.maxMinutes) : null),
     reason: new FormControl('', { nonNullable: true }),
   });
-  protected readonly problem = signal<string | null>(null);
-  protected readonly sending = signal(false);
+  protected readonly submission = new DialogSubmission(this.form.controls);
+  protected readonly fieldMessage = fieldMessage;
 
   protected async submit(): Promise<void> {
     const reason = this.form.controls.reason.value.trim();
     const minutes = this.form.controls.minutes.value;
     const max = this.data.maxMinutes;
     if (max !== undefined && (minutes === null || !Number.isFinite(minutes) || minutes < 1 || minutes > max)) {
-      this.problem.set(`Enter a shelving time from 1 to ${max} minutes.`);
-      return;
+      return this.submission.refuse(`Enter a shelving time from 1 to ${max} minutes.`);
     }
-    if (reason === '') {
-      this.problem.set('Write a reason: say why, in a few words, for the audit trail and the next shift.');
-      return;
-    }
-    this.problem.set(null);
-    this.sending.set(true);
-    try {
-      await this.data.send(reason, max !== undefined ? minutes : null);
-      this.ref.close(true);
-    } catch (err) {
-      this.problem.set(errorText(err));
-    } finally {
-      this.sending.set(false);
-    }
+    if (reason === '') return this.submission.refuse('Write a reason: say why, in a few words, for the audit trail and the next shift.');
+    if (await this.submission.send(() => this.data.send(reason, max !== undefined ? minutes : null))) this.ref.close(true);
   }
 }
