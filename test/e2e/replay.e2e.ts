@@ -1,10 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import type { HistoryResponse } from '../../shared/history/history-api.js';
 import type { LiveState } from '../../shared/live/live-state.js';
-import { ARTIFACT_DIR, launchBrowser, signInOnPage, type TestBrowser } from '../support/browser.js';
-import { signIn, startStack, waitFor, type Stack } from '../support/stack.js';
+import { ARTIFACT_DIR } from '../support/browser.js';
+import { openPage, openSignedIn, useBrowserStack } from '../support/browser-stack.js';
+import { signIn, waitFor } from '../support/stack.js';
 
 /** Local date as the calendar field reads it in the browser's (en-US) locale, and hh:mm:ss. */
 function dateText(ms: number): string {
@@ -17,16 +18,7 @@ function timeText(ms: number): string {
 }
 
 describe('Replay page in Chromium', () => {
-  let stack: Stack;
-  let chrome: TestBrowser;
-  beforeAll(async () => {
-    stack = await startStack();
-    chrome = await launchBrowser();
-  });
-  afterAll(async () => {
-    await chrome?.close();
-    await stack?.close();
-  });
+  const env = useBrowserStack();
 
   /** The replay clock, Unix epoch ms, as the page shows it. */
   async function clockMs(page: Page): Promise<number> {
@@ -51,6 +43,7 @@ describe('Replay page in Chromium', () => {
   }
 
   it('plays a recorded window: seeks by mark and timeline, changes speed, and shows what history holds', async () => {
+    const { stack } = env;
     // Let the simulator run a while, with a logbook note in the middle as a mark.
     const operator = await signIn(stack.server.url, 'operator');
     const firstDataMs = await waitFor(async () => {
@@ -67,11 +60,8 @@ describe('Replay page in Chromium', () => {
     expect(note.status).toBe(201);
     const toMs = Date.now();
 
-    const page = await chrome.browser.newPage();
-    await page.setViewportSize({ width: 1920, height: 1080 });
-    await page.goto(stack.server.url);
-    await signInOnPage(page, 'viewer@tiltwatch.example', 'tiltwatch-demo');
-    await page.getByRole('navigation', { name: 'Pages' }).getByRole('link', { name: 'Replay' }).click();
+    const page = await openSignedIn(env, 'viewer', { viewport: { width: 1920, height: 1080 } });
+    await openPage(page, 'Replay');
 
     const windowForm = page.getByRole('form', { name: 'A time window' });
     await windowForm.getByLabel('From date').fill(dateText(firstDataMs));
