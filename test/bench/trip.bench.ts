@@ -17,6 +17,8 @@ const TRIPS = 100;
 const SILENCES = 5;
 const TARGET_P99_MS = 20;
 const STALE_LIMIT_MS = 250;
+/** Over the 20 A trip level and inside the current converter's ±25 A range (a frame beyond it is refused at the edge). */
+const SPIKE_A = 24;
 
 export async function benchTrip(): Promise<Figure[]> {
   const stack = await startStack({ simulator: false, env: { LOG_LEVEL: 'error', TILTWATCH_STALE_TRIP_MS: String(STALE_LIMIT_MS) } });
@@ -30,7 +32,15 @@ export async function benchTrip(): Promise<Figure[]> {
   client.on('message', (topic) => {
     if (topic === TOPICS.trip) onTrip?.(performance.now());
   });
-  const nextTrip = () => new Promise<number>((resolve) => (onTrip = resolve));
+  // A trip that never comes fails the bench instead of hanging it.
+  const nextTrip = (what: string) =>
+    new Promise<number>((resolve, reject) => {
+      const timer = setTimeout(() => reject(new Error(`no TripCommand within 5 s after ${what}`)), 5000);
+      onTrip = (at) => {
+        clearTimeout(timer);
+        resolve(at);
+      };
+    });
   const reset = async () => {
     await waitFor(async () => {
       const res = await fetch(`${stack.server.url}/api/interlock/reset`, {
@@ -49,8 +59,8 @@ export async function benchTrip(): Promise<Figure[]> {
     for (let i = 0; i < TRIPS; i++) {
       // A random offset from the frame timer, so the spike lands anywhere between two frames.
       await new Promise((r) => setTimeout(r, 50 + Math.random() * 50));
-      const arrived = nextTrip();
-      const sentAt = feed.spike('x', 25);
+      const arrived = nextTrip(`an over-current frame (${SPIKE_A} A)`);
+      const sentAt = feed.spike('x', SPIKE_A);
       latencies.push((await arrived) - sentAt);
       await reset();
     }
@@ -58,7 +68,7 @@ export async function benchTrip(): Promise<Figure[]> {
     const detections: number[] = [];
     for (let i = 0; i < SILENCES; i++) {
       await new Promise((r) => setTimeout(r, 200 + Math.random() * 100));
-      const arrived = nextTrip();
+      const arrived = nextTrip('the controller fell silent');
       feed.pause();
       detections.push((await arrived) - feed.lastFrameSentAt);
       feed.resume();
