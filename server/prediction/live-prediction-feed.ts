@@ -52,7 +52,8 @@ export class LivePredictionFeed {
     this.minOrientingFieldG = deps.minOrientingFieldG;
     deps.engine.onPrediction((p) => {
       deps.live.applyPrediction(p);
-      deps.history.push(p);
+      // While the prediction does not apply, the chart history keeps its gap (see updateStatus).
+      if (deps.live.snapshot().predictionStatus.state === 'applies') deps.history.push(p);
       deps.store.addPrediction(p);
       deps.fanout.publishStateChange();
     });
@@ -113,14 +114,19 @@ export class LivePredictionFeed {
   /** Publishes whether the prediction applies now, when that changed. */
   private updateStatus(): void {
     const last = this.lastFrame;
+    const nowMs = this.now();
     const next = predictionStatus({
       fieldG: last?.fieldG ?? null,
       lastFrameAtMs: last?.atMs ?? null,
-      nowMs: this.now(),
+      nowMs,
       staleMs: this.deps.staleMs,
       minFieldG: this.minOrientingFieldG,
     });
-    if (sameStatus(next, this.deps.live.snapshot().predictionStatus)) return;
+    const { predictionStatus: previous, prediction } = this.deps.live.snapshot();
+    if (sameStatus(next, previous)) return;
+    // The chart history shows a gap while the prediction does not describe the gas.
+    if (previous.state === 'applies' && next.state !== 'applies') this.deps.history.pushGap(nowMs);
+    if (previous.state !== 'applies' && next.state === 'applies' && prediction) this.deps.history.resume(prediction, nowMs);
     this.deps.live.applyPredictionStatus(next);
     this.deps.fanout.publishStateChange();
   }

@@ -159,4 +159,23 @@ describe('live prediction in the server', () => {
     expect(p.phiDeg).toBeCloseTo(angles.phiDeg, 9);
     expectRelativelyClose(p.fermiSurfaceAspect, direct(tilted, angles).fermiSurface?.aspectRatio);
   });
+  it('leaves a gap in the prediction history while the field is too weak to orient the dipoles, and resumes after', async () => {
+    const status = (currents: typeof CURRENTS, state: string) =>
+      vi.waitFor(async () => {
+        controller.publish(TOPICS.fast, JSON.stringify(fastFrame(++seq, Date.now(), currents)));
+        expect((await get<LiveState>('/api/live')).predictionStatus.state).toBe(state);
+      }, WAIT);
+    const newest = async () => {
+      const history = await get<PredictionHistory>('/api/prediction/history?seconds=600');
+      return { t: history.t.at(-1), beta: history.fermiSurfaceAspect.at(-1) };
+    };
+
+    await status({ x: 0, y: 0, z: 0 }, 'weak-field');
+    const gap = await newest();
+    expect(gap.beta).toBeNull();
+    await status(CURRENTS, 'applies');
+    const resumed = await newest();
+    expect(resumed.t).toBeGreaterThan(gap.t!);
+    expect(resumed.beta).toEqual(expect.any(Number));
+  });
 });

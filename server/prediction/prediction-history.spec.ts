@@ -38,3 +38,22 @@ describe('PredictionHistoryRing', () => {
     expect(ring.since(0).t).toEqual([T0 + 4, T0 + 5, T0 + 6]);
   });
 });
+
+describe('PredictionHistoryRing gaps', () => {
+  it('leaves a gap while the prediction does not apply and resumes with the prediction in force', () => {
+    const ring = new PredictionHistoryRing(10);
+    const p = prediction(T0, 1.02, 0.1);
+    ring.push(p);
+    ring.pushGap(T0 + 500);
+    ring.resume(p, T0 + 900);
+    // A later collapse-ratio update of the same prediction changes its values, not its time.
+    ring.push({ ...p, collapseRatio: 0.2 });
+
+    expect(ring.since(0)).toEqual({
+      t: [T0, T0 + 500, T0 + 900],
+      fermiSurfaceAspect: [1.02, null, 1.02],
+      tofAspect: [2.04, null, 2.04],
+      collapseRatio: [0.1, null, 0.2],
+    });
+  });
+});

@@ -35,20 +35,43 @@ export class PredictionHistoryRing {
 
   /** Adds a prediction at its `computedAt` time, or updates the newest entry when it is the same prediction. */
   push(p: LivePrediction): void {
-    const key = `${p.profileId}@${p.computedAt}`;
-    let i: number;
+    const key = keyOf(p);
     if (key === this.newestKey && this.size > 0) {
-      i = (this.next - 1 + this.capacity) % this.capacity;
-    } else {
-      i = this.next;
-      this.next = (this.next + 1) % this.capacity;
-      this.size = Math.min(this.size + 1, this.capacity);
-      this.newestKey = key;
+      // The same prediction with its collapse ratio: its values change, its place in time stays.
+      this.write((this.next - 1 + this.capacity) % this.capacity, this.t[(this.next - 1 + this.capacity) % this.capacity], p);
+      return;
     }
-    this.t[i] = Date.parse(p.computedAt);
-    this.beta[i] = p.fermiSurfaceAspect ?? Number.NaN;
-    this.tof[i] = p.tofAspect ?? Number.NaN;
-    this.ratio[i] = p.collapseRatio ?? Number.NaN;
+    this.write(this.add(key), Date.parse(p.computedAt), p);
+  }
+
+  /**
+   * From `atMs` (Unix epoch ms) on, the prediction does not describe the gas (field too weak
+   * to orient the dipoles, or stale telemetry): an entry without values, so charts show a gap
+   * until the next entry.
+   */
+  pushGap(atMs: number): void {
+    this.write(this.add(null), atMs, null);
+  }
+
+  /** The prediction `p` describes the gas again from `atMs` (Unix epoch ms), after a gap. */
+  resume(p: LivePrediction, atMs: number): void {
+    this.write(this.add(keyOf(p)), atMs, p);
+  }
+
+  /** Index of a new entry (the oldest is overwritten when full). */
+  private add(key: string | null): number {
+    const i = this.next;
+    this.next = (this.next + 1) % this.capacity;
+    this.size = Math.min(this.size + 1, this.capacity);
+    this.newestKey = key;
+    return i;
+  }
+
+  private write(i: number, atMs: number, p: LivePrediction | null): void {
+    this.t[i] = atMs;
+    this.beta[i] = p?.fermiSurfaceAspect ?? Number.NaN;
+    this.tof[i] = p?.tofAspect ?? Number.NaN;
+    this.ratio[i] = p?.collapseRatio ?? Number.NaN;
   }
 
   /** The entries computed at or after `fromMs` (Unix epoch ms), oldest first. */
@@ -65,4 +88,9 @@ export class PredictionHistoryRing {
     }
     return out;
   }
+}
+
+/** A prediction's identity: its profile and when it was computed. */
+function keyOf(p: LivePrediction): string {
+  return `${p.profileId}@${p.computedAt}`;
 }
