@@ -1,5 +1,5 @@
 import type * as z from 'zod/mini';
-import { adcInRange, CURRENT_ADC, VOLTAGE_ADC } from '../../shared/telemetry/adc.js';
+import { adcRangeCheck, CURRENT_ADC, VOLTAGE_ADC } from '../../shared/telemetry/adc.js';
 import {
   AXES,
   ControllerStatus,
@@ -247,12 +247,15 @@ export class FrameGate {
 const within = (v: number, b: { min: number; max: number }) => v >= b.min && v <= b.max;
 
 /** Rate, every sample and the setpoints within what the controller's converters can report. */
+const currentInRange = adcRangeCheck(CURRENT_ADC);
+const voltageInRange = adcRangeCheck(VOLTAGE_ADC);
+
 function fastInBounds(frame: FastFrame): boolean {
   if (!within(frame.rateHz, RATE_BOUNDS_HZ)) return false;
   for (const axis of AXES) {
-    if (!adcInRange(CURRENT_ADC, frame.setpointA[axis])) return false;
-    for (const v of frame.currentA[axis]) if (!adcInRange(CURRENT_ADC, v)) return false;
-    for (const v of frame.voltageV[axis]) if (!adcInRange(VOLTAGE_ADC, v)) return false;
+    if (!currentInRange(frame.setpointA[axis])) return false;
+    for (const v of frame.currentA[axis]) if (!currentInRange(v)) return false;
+    for (const v of frame.voltageV[axis]) if (!voltageInRange(v)) return false;
   }
   return true;
 }

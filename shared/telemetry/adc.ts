@@ -33,7 +33,7 @@ export function adcCodeRange(adc: AdcRange): { min: number; max: number } {
   return { min: -half, max: half - 1 };
 }
 
-/** The converter code nearest to `value` (not clamped: check `adcInRange` first). */
+/** The converter code nearest to `value` (not clamped: check with `adcRangeCheck` first). */
 export function adcCode(adc: AdcRange, value: number): number {
   return Math.round(value / adcStep(adc));
 }
@@ -43,12 +43,18 @@ export function adcValue(adc: AdcRange, code: number): number {
   return code * adcStep(adc);
 }
 
-/** True when `value` is finite and within what the converter can report. */
-export function adcInRange(adc: AdcRange, value: number): boolean {
-  if (!Number.isFinite(value)) return false;
-  const code = adcCode(adc, value);
+/**
+ * A check whether a value is finite and within what the converter can report, with the
+ * converter's constants worked out once (the ingest edge runs it on every sample).
+ */
+export function adcRangeCheck(adc: AdcRange): (value: number) => boolean {
+  const step = adcStep(adc);
   const { min, max } = adcCodeRange(adc);
-  return code >= min && code <= max;
+  return (value) => {
+    if (!Number.isFinite(value)) return false;
+    const code = Math.round(value / step);
+    return code >= min && code <= max;
+  };
 }
 
 /** `value` as the converter reports it: rounded to a whole step and clipped at its range. */

@@ -58,7 +58,11 @@ const t0 = performance.now();
 for (let i = 0; i < total; ) {
   const due = t0 + (i * FRAME_MS) / args.rate;
   const wait = due - performance.now();
+  // Yield to the event loop every time, also when the next frame is due within a millisecond:
+  // a loop that never yields would hold every frame back until the level ends (the client's
+  // writes go out only between event-loop turns).
   if (wait > 1) await new Promise((resolve) => setTimeout(resolve, wait - 1));
+  else await new Promise((resolve) => setImmediate(resolve));
   // Publish every frame that is due now (a timer wakes at most every millisecond or so).
   while (i < total && t0 + (i * FRAME_MS) / args.rate <= performance.now()) {
     const { fast, slow: slowFrames } = sim.nextFrame();
