@@ -1,6 +1,6 @@
 import { HttpTestingController } from '@angular/common/http/testing';
 import { TestBed, type ComponentFixture } from '@angular/core/testing';
-import { afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it } from 'vitest';
 import type { Role } from '../../../shared/auth/roles';
 import type { ShotRow } from '../../../shared/shots/shots-api';
 import type { RunRecord } from '../../../shared/steering/steering-api';
@@ -23,18 +23,6 @@ describe('ShotsPage', { timeout: 30_000 }, () => {
   let http: HttpTestingController;
   let host: HTMLElement;
 
-  // jsdom has no Path2D; uPlot draws its points with it.
-  beforeAll(() => {
-    const g = globalThis as { Path2D?: unknown };
-    g.Path2D ??= class {
-      moveTo(): void {}
-      lineTo(): void {}
-      arc(): void {}
-      rect(): void {}
-      closePath(): void {}
-      addPath(): void {}
-    };
-  });
   afterEach(() => localStorage.clear());
 
   async function settle(): Promise<void> {
