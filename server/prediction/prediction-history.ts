@@ -38,7 +38,8 @@ export class PredictionHistoryRing {
     const key = keyOf(p);
     if (key === this.newestKey && this.size > 0) {
       // The same prediction with its collapse ratio: its values change, its place in time stays.
-      this.write((this.next - 1 + this.capacity) % this.capacity, this.t[(this.next - 1 + this.capacity) % this.capacity], p);
+      const newest = (this.next - 1 + this.capacity) % this.capacity;
+      this.write(newest, this.t[newest], p);
       return;
     }
     this.write(this.add(key), Date.parse(p.computedAt), p);
