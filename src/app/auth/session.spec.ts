@@ -109,6 +109,22 @@ describe('Session', () => {
     expect(localStorage.getItem(SESSION_STORAGE_KEY)).toBeNull();
   });
 
+  it('keeps a session whose token a password change replaced while a call with the old token was under way', async () => {
+    localStorage.setItem(SESSION_STORAGE_KEY, JSON.stringify({ token: token({ exp: IN_ONE_HOUR_S }), user: OPERATOR }));
+    TestBed.resetTestingModule();
+    configure();
+    const session = TestBed.inject(Session);
+    const oldCall = firstValueFrom(TestBed.inject(HttpClient).get('/api/live')).catch(() => 'refused');
+    const changing = session.changePassword('old pass phrase', 'new pass phrase');
+    const fresh = token({ exp: IN_ONE_HOUR_S, tv: 2 });
+    http.expectOne('/api/auth/password').flush({ token: fresh, user: OPERATOR });
+    await changing;
+    http.expectOne('/api/live').flush({ error: 'token revoked' }, { status: 401, statusText: 'Unauthorized' });
+    expect(await oldCall).toBe('refused');
+    expect(session.signedIn()).toBe(true);
+    expect(session.token()).toBe(fresh);
+  });
+
   it('takes a changed role of its own account (from the live feed greeting) and keeps it across a reload; another account is ignored', () => {
     localStorage.setItem(SESSION_STORAGE_KEY, JSON.stringify({ token: token({ exp: IN_ONE_HOUR_S }), user: OPERATOR }));
     const session = reloaded();
