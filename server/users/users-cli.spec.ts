@@ -1,6 +1,8 @@
 import { spawn } from 'node:child_process';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { openDatabase } from '../db/database.js';
+import { auditLog } from '../db/schema.js';
 import { projectRoot } from '../project-root.js';
 import type { RunningServer } from '../server.js';
 import { testDatabaseUrl, usesPostgres } from '../testing/external-services.js';
@@ -129,6 +131,12 @@ describe('accounts without --demo and the users command', { timeout: 120_000 }, 
     ['no password', ['add', 'x@lindqvist-hall.example', '--role', 'viewer'], '', 1, /no password on standard input/],
     ['an existing account', ['add', 'first.admin@lindqvist-hall.example', '--role', 'viewer'], 'long enough password\n', 1, /exists already/],
     ['no command', [], '', 2, /usage: npm run users -- add EMAIL --role/],
+    ['a role change for an unknown account', ['set-role', 'nobody@lindqvist-hall.example', 'lead', '--reason', 'new shift lead'], '', 1, /no account for nobody@lindqvist-hall\.example; see the accounts with: npm run users -- list/],
+    ['an unknown role for set-role', ['set-role', 'first.admin@lindqvist-hall.example', 'owner', '--reason', 'new shift lead'], '', 2, /ROLE must be one of viewer, operator, lead, admin \(got "owner"\)/],
+    ['disabling without a reason', ['disable', 'first.admin@lindqvist-hall.example'], '', 2, /disable needs --reason TEXT.*it goes into the audit trail/],
+    ['enabling with a blank reason', ['enable', 'first.admin@lindqvist-hall.example', '--reason', '  '], '', 2, /--reason must not be empty: say why/],
+    ['disabling the only enabled admin', ['disable', 'first.admin@lindqvist-hall.example', '--reason', 'leaving'], '', 1, /first\.admin@lindqvist-hall\.example is the only enabled admin; make another account admin first \(npm run users -- set-role OTHER-EMAIL admin/],
+    ['taking the admin role from the only enabled admin', ['set-role', 'first.admin@lindqvist-hall.example', 'lead', '--reason', 'leaving'], '', 1, /is the only enabled admin.*nothing was changed/],
   ])('refuses %s with a message', async (_what, args, input, code, message) => {
     const run = await users(dir, args, input);
     expect(run.code).toBe(code);
@@ -144,6 +152,58 @@ describe('accounts without --demo and the users command', { timeout: 120_000 }, 
       expect((await login(server, 'first.admin@lindqvist-hall.example', 'a replaced pass phrase')).status).toBe(200);
     } finally {
       await server.close();
+    }
+  });
+
+  it('changes a role, disables and enables an account, each audited with its reason; a disabled account cannot sign in', async () => {
+    const email = 'night.operator@lindqvist-hall.example';
+    expect((await users(dir, ['add', email, '--role', 'viewer'], 'night operator pass phrase\n')).code).toBe(0);
+    let server = await startTestServer(dir, { demoAccounts: false });
+    const before = await login(server, email, 'night operator pass phrase');
+    expect(before.status).toBe(200);
+    const token = (before.body as { token: string }).token;
+    await server.close();
+
+    const promoted = await users(dir, ['set-role', 'Night.Operator@lindqvist-hall.example', 'operator', '--reason', 'runs the night shift'], '');
+    expect(promoted.stderr).toBe('');
+    expect(promoted.code).toBe(0);
+    expect(promoted.stdout).toMatch(/night\.operator@lindqvist-hall\.example is now operator \(was viewer\)/);
+    const disabled = await users(dir, ['disable', email, '--reason', 'laptop stolen at the conference'], '');
+    expect(disabled.code).toBe(0);
+    expect(disabled.stdout).toMatch(/Disabled night\.operator@lindqvist-hall\.example: its earlier sign-ins are revoked/);
+    expect((await users(dir, ['disable', email, '--reason', 'again'], '')).stdout).toMatch(/is already disabled; nothing was changed/);
+    expect((await users(dir, ['list'], '')).stdout).toMatch(/night\.operator@lindqvist-hall\.example\toperator\tdisabled/);
+
+    server = await startTestServer(dir, { demoAccounts: false });
+    try {
+      expect((await login(server, email, 'night operator pass phrase')).status).toBe(403);
+      expect((await fetch(`${server.url}/api/auth/me`, { headers: { authorization: `Bearer ${token}` } })).status).toBe(401);
+    } finally {
+      await server.close();
+    }
+
+    const enabled = await users(dir, ['enable', email, '--reason', 'new laptop issued'], '');
+    expect(enabled.code).toBe(0);
+    expect(enabled.stdout).toMatch(/Enabled night\.operator@lindqvist-hall\.example; it can sign in again/);
+    server = await startTestServer(dir, { demoAccounts: false });
+    try {
+      const again = await login(server, email, 'night operator pass phrase');
+      expect(again.status).toBe(200);
+      expect(again.body.user?.role).toBe('operator');
+    } finally {
+      await server.close();
+    }
+
+    const database = await openDatabase({ dataDir: dir, databaseUrl: await testDatabaseUrl(dir) });
+    try {
+      const entries = (await database.db.select().from(auditLog)).filter((a) => a.action === 'user.update' && a.subject === `user:${email}`);
+      expect(entries.map(({ actor, oldValue, newValue, reason }) => ({ actor, oldValue, newValue, reason }))).toEqual([
+        { actor: expect.stringMatching(/^cli:./), oldValue: { role: 'viewer', disabled: false }, newValue: { role: 'operator', disabled: false }, reason: 'runs the night shift' },
+        { actor: expect.stringMatching(/^cli:./), oldValue: { role: 'operator', disabled: false }, newValue: { role: 'operator', disabled: true }, reason: 'laptop stolen at the conference' },
+        { actor: expect.stringMatching(/^cli:./), oldValue: { role: 'operator', disabled: true }, newValue: { role: 'operator', disabled: false }, reason: 'new laptop issued' },
+      ]);
+    } finally {
+      await database.close();
     }
   });
 });
