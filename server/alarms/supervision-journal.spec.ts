@@ -1,11 +1,12 @@
 import { appendFileSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { auditLog, alarmEvents, alarmStates, interlockTrips } from '../db/schema.js';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { auditLog, alarmEvents, alarmStates, interlockTrips, supervisionRecordsApplied } from '../db/schema.js';
 import { openDatabase, type OpenDatabase } from '../db/database.js';
 import { Interlock } from '../interlock/interlock.js';
 import { testDatabaseUrl } from '../testing/external-services.js';
 import { refuseWrites } from '../testing/refuse-writes.js';
+import { useTempDatabase } from '../testing/temp-database.js';
 import { makeDataDir, removeDataDir } from '../testing/test-server.js';
 import type { AlarmEvent, AlarmMemory } from './alarm-state.js';
 import { SUPERVISION_JOURNAL_FILE, SupervisionJournal } from './supervision-journal.js';
@@ -162,3 +163,96 @@ describe('supervision journal', () => {
     now = T0;
   });
 });
+
+/**
+ * Pruning the ids that keep a replay from storing a record twice (real PGlite): an id goes only
+ * once its record has left the journal file.
+ */
+describe('forgetting the ids of stored supervision records', () => {
+  const temp = useTempDatabase();
+  let dir: string;
+  const errors: unknown[] = [];
+
+  beforeEach(async () => {
+    dir = await makeDataDir();
+    errors.length = 0;
+  });
+  afterEach(() => removeDataDir(dir));
+
+  function open(pruneEveryMs?: number) {
+    const journal = new SupervisionJournal(dir);
+    const log = new SupervisionLog(temp.db, { journal, statesOf: () => new Map([['flow.x.LL', raised]]), onError: (e) => errors.push(e), retryMs: 3_600_000, pruneEveryMs });
+    return { journal, log };
+  }
+  const appliedIds = async () => (await temp.db.select().from(supervisionRecordsApplied)).map((r) => r.id).sort();
+  const eventsAt = async (atMs: number) => (await temp.db.select().from(alarmEvents)).filter((e) => e.atMs === atMs);
+  const tripsAt = async (atMs: number) => (await temp.db.select().from(interlockTrips)).filter((t) => t.trippedAtMs === atMs);
+
+  it('forgets ids of records gone from the journal, keeps those it still holds, and a replay after pruning stores nothing twice', async () => {
+    const first = open();
+    // Stored, and the file emptied: no replay can take this record again.
+    first.log.addAlarmEvents([{ ...raise, at: T0 + 10 }]);
+    await first.log.flush();
+    const [gone] = await appliedIds();
+    expect(first.journal.recordIds()).toEqual([]);
+
+    // Stored, but still in the file behind a trip the database refuses.
+    const refusal = await refuseWrites(temp.db, 'interlock_trips');
+    first.log.addAlarmEvents([{ ...raise, at: T0 + 20 }]);
+    await expect(first.log.recordTrip(new Interlock().foundAtStart(T0 + 30)!)).rejects.toThrow(/insert into "interlock_trips"/);
+    const [written, refused] = first.journal.recordIds();
+    expect(first.journal.pending().map((r) => r.id)).toEqual([refused]);
+    expect(await appliedIds()).toEqual([gone, written].sort());
+
+    await first.log.pruneApplied();
+    expect(await appliedIds()).toEqual([written]);
+    await first.log.close(); // the trip is still refused: both records stay in the file, as after a crash
+
+    await refusal.allow();
+    const second = open();
+    expect(second.journal.pending().map((r) => r.id)).toEqual([written, refused]);
+    await second.log.pruneApplied();
+    expect(await appliedIds()).toEqual([written]);
+    await second.log.flush();
+    expect(await eventsAt(T0 + 20)).toHaveLength(1);
+    expect(await tripsAt(T0 + 30)).toHaveLength(1);
+    expect(second.journal.recordIds()).toEqual([]);
+
+    await second.log.pruneApplied();
+    expect(await appliedIds()).toEqual([]);
+    expect(errors.filter((e) => /forgetting/.test(String(e)))).toEqual([]);
+    await second.log.close();
+  });
+
+  it('keeps the id of a record appended while pruning runs, so it is not stored twice', async () => {
+    const { journal, log } = open();
+    const pruning = log.pruneApplied();
+    log.addAlarmEvents([{ ...raise, at: T0 + 40 }]);
+    const journaled = readFileSync(path.join(dir, SUPERVISION_JOURNAL_FILE));
+    const writing = log.flush();
+    await Promise.all([pruning, writing]);
+    expect(journal.recordIds()).toEqual([]);
+    expect(await appliedIds()).toHaveLength(1);
+    await log.close();
+    // As if the process had died after the commit and before the journal was emptied.
+    writeFileSync(path.join(dir, SUPERVISION_JOURNAL_FILE), journaled);
+    const again = open();
+    await again.log.pruneApplied();
+    await again.log.flush();
+    expect(await eventsAt(T0 + 40)).toHaveLength(1);
+    await again.log.pruneApplied();
+    expect(await appliedIds()).toEqual([]);
+    await again.log.close();
+  });
+
+  it('prunes on its schedule until closed', async () => {
+    const { log } = open(20);
+    log.addAlarmEvents([{ ...raise, at: T0 + 50 }]);
+    await log.flush();
+    expect(await appliedIds()).toHaveLength(1);
+    await vi.waitFor(async () => expect(await appliedIds()).toEqual([]), { timeout: 10_000, interval: 20 });
+    await log.close();
+    expect(errors).toEqual([]);
+  });
+});
+

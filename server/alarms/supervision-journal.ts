@@ -8,12 +8,14 @@
  * to the database in order and calls `written` for each, and once none is pending the file is
  * emptied. Each record carries a unique id, stored with it in the database
  * (`supervision_records_applied`), so replaying a record whose write committed but whose
- * confirmation was lost does not store it twice.
+ * confirmation was lost does not store it twice. Such a replay can only take records the file
+ * still holds (`recordIds`), so the ids of all other records may be forgotten.
  *
  * Bounded: beyond `maxBytes` new alarm transitions are refused and counted; trips are always
  * kept (one per latch: a reset needs the database, so an outage holds at most one or two).
  */
 import { closeSync, fstatSync, fsync, fsyncSync, ftruncateSync, openSync, readFileSync, writeSync } from 'node:fs';
+import { promisify } from 'node:util';
 import { randomUUID } from 'node:crypto';
 import path from 'node:path';
 import type { TripRecord } from '../interlock/interlock.js';
@@ -61,6 +63,8 @@ export interface SupervisionJournalOptions {
 export class SupervisionJournal {
   private readonly fd: number;
   private readonly pendingRecords: SupervisionRecord[] = [];
+  /** Ids of the records in the file: pending, and written but not yet emptied out. */
+  private readonly idsInFile = new Set<string>();
   private bytes = 0;
   private dropped = 0;
   private unreadable = 0;
@@ -78,8 +82,10 @@ export class SupervisionJournal {
     for (const line of text.slice(0, complete).split('\n')) {
       if (line === '') continue;
       const record = parseRecord(line);
-      if (record) this.pendingRecords.push(record);
-      else this.unreadable++;
+      if (record) {
+        this.pendingRecords.push(record);
+        this.idsInFile.add(record.id);
+      } else this.unreadable++;
     }
     if (complete < text.length) {
       this.unreadable++;
@@ -105,12 +111,27 @@ export class SupervisionJournal {
     this.flushToDisk();
     this.bytes += line.length;
     this.pendingRecords.push(stored);
+    this.idsInFile.add(stored.id);
     return stored;
   }
 
   /** Records not yet in the database, oldest first. */
   pending(): readonly SupervisionRecord[] {
     return this.pendingRecords;
+  }
+
+  /**
+   * Ids of every record in the file: the pending ones and those written since the file was last
+   * emptied. Only these can be read again at the next start. Once `sync()` has resolved, the
+   * disk holds no record outside this list.
+   */
+  recordIds(): string[] {
+    return [...this.idsInFile];
+  }
+
+  /** Resolves once everything written to the file so far, an emptying included, is on the disk (fsync in the thread pool). */
+  sync(): Promise<void> {
+    return promisify(fsync)(this.fd);
   }
 
   /** The database has `id`: it leaves the pending list, and once none is left the file is emptied. */
@@ -121,6 +142,7 @@ export class SupervisionJournal {
       ftruncateSync(this.fd, 0);
       this.flushToDisk();
       this.bytes = 0;
+      this.idsInFile.clear();
     }
   }
 

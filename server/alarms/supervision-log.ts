@@ -11,17 +11,19 @@
  *   each record in its own transaction: a trip at once, transitions at most `flushMs` later.
  *   While the database refuses them they stay in the journal and are written again with a
  *   growing pause (and at the next start, before anything is read back), in order, once each.
+ *   The ids kept to make a replay store nothing twice are pruned at start and every ten
+ *   minutes (`pruneApplied`): every id but those of the records the journal file still holds.
  *
  * Every write runs after the ones before it, in order; none shares a transaction with telemetry.
  */
 import { appendAuditEntries, appendAudit, type AuditEntry } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
-import { supervisionRecordsApplied } from '../db/schema.js';
 import { writeFailureText } from '../db/write-failure.js';
 import type { ResetRecord, TripRecord } from '../interlock/interlock.js';
 import { insertTrips, recordTripReset } from '../interlock/trip-repository.js';
 import { insertAlarmEvents } from './alarm-event-repository.js';
 import { upsertAlarmStates } from './alarm-state-repository.js';
+import { forgetAppliedExcept, markApplied } from './applied-records.js';
 import type { AlarmEvent, AlarmMemory } from './alarm-state.js';
 import type { JournalCounters, SupervisionJournal, SupervisionRecord } from './supervision-journal.js';
 
@@ -40,6 +42,8 @@ export interface SupervisionLogOptions {
   onError: (error: unknown) => void;
   /** Server clock, Unix epoch ms (default `Date.now`). */
   now?: () => number;
+  /** How often the ids of applied records are pruned, ms (default ten minutes, as telemetry retention). */
+  pruneEveryMs?: number;
 }
 
 /** The supervision records on `/api/health` (under `supervision`). */
@@ -51,10 +55,12 @@ export interface SupervisionCounters extends JournalCounters {
 }
 
 const MAX_RETRY_MS = 5000;
+const PRUNE_EVERY_MS = 10 * 60_000;
 
 export class SupervisionLog {
   private timer: NodeJS.Timeout | null = null;
   private retryTimer: NodeJS.Timeout | null = null;
+  private readonly pruneTimer: NodeJS.Timeout;
   private retryDelayMs: number;
   private failure: { sinceMs: number; error: unknown } | null = null;
   private writing: Promise<unknown> = Promise.resolve();
@@ -71,6 +77,8 @@ export class SupervisionLog {
     this.flushMs = options.flushMs ?? 250;
     this.retryDelayMs = options.retryMs ?? 500;
     this.now = options.now ?? Date.now;
+    this.pruneTimer = setInterval(() => void this.pruneApplied(), options.pruneEveryMs ?? PRUNE_EVERY_MS);
+    this.pruneTimer.unref();
   }
 
   /** Journals transitions found by evaluation with the states they left; the database gets them within `flushMs`. */
@@ -122,6 +130,24 @@ export class SupervisionLog {
     return done;
   }
 
+  /**
+   * Forgets the ids of applied records that no replay can take any more: all but those of the
+   * records the journal file holds. Runs between writes, so no id is stored meanwhile, and after
+   * the file is flushed to the disk, so a record emptied out of it counts as gone only once the
+   * disk agrees. A failure is reported; the next round tries again.
+   */
+  pruneApplied(): Promise<void> {
+    if (this.closed) return Promise.resolve();
+    const done = this.writing
+      .then(async () => {
+        await this.journal.sync();
+        await forgetAppliedExcept(this.db, this.journal.recordIds());
+      })
+      .catch((error: unknown) => this.options.onError(new Error(`forgetting the ids of stored supervision records failed: ${writeFailureText(error)}`, { cause: error })));
+    this.writing = done;
+    return done;
+  }
+
   counters(): SupervisionCounters {
     return {
       ...this.journal.counters(),
@@ -133,6 +159,7 @@ export class SupervisionLog {
   /** Writes what is journaled and stops; what the database still refuses waits in the journal for the next start. */
   async close(): Promise<void> {
     this.closed = true;
+    clearInterval(this.pruneTimer);
     if (this.retryTimer) clearTimeout(this.retryTimer);
     this.retryTimer = null;
     await this.flush();
@@ -184,12 +211,7 @@ export class SupervisionLog {
 
 /** Writes one journaled record with its id; a record whose id is on record already is skipped. */
 async function writeRecord(tx: Tx, record: SupervisionRecord, nowMs: number): Promise<void> {
-  const [fresh] = await tx
-    .insert(supervisionRecordsApplied)
-    .values({ id: record.id, appliedAtMs: nowMs })
-    .onConflictDoNothing()
-    .returning({ id: supervisionRecordsApplied.id });
-  if (!fresh) return;
+  if (!(await markApplied(tx, record.id, nowMs))) return;
   if (record.kind === 'trip') return writeTrip(tx, record.trip);
   await insertAlarmEvents(tx, record.events);
   await appendAuditEntries(tx, auditOfEvents(record.events));

@@ -519,6 +519,7 @@ export const alarmStates = pgTable('alarm_states', {
  * Supervision records (trips, alarm transitions) taken from the journal in the data folder
  * (server/alarms/supervision-journal.ts): the id of each record written, in the same
  * transaction as the record, so a replay after a write whose confirmation was lost skips it.
+ * Ids of records no longer in the journal file are pruned (server/alarms/applied-records.ts).
  */
 export const supervisionRecordsApplied = pgTable('supervision_records_applied', {
   id: text('id').primaryKey(),

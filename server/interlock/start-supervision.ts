@@ -89,7 +89,7 @@ export async function startSupervision(deps: {
   const records = new SupervisionLog(db, {
     journal,
     statesOf: (ids) => book.memories(ids),
-    onError: (error) => log.error({ err: error }, 'storing alarm events or trips failed; they wait in the supervision journal'),
+    onError: (error) => log.error({ err: error }, 'a database write of supervision records failed (records not stored wait in the supervision journal)'),
   });
   const closers: (() => unknown)[] = [];
   const close = async () => {
@@ -110,6 +110,8 @@ export async function startSupervision(deps: {
       if (still === 0) log.warn({ records: left }, 'supervision records journaled by an earlier run were stored');
       else log.error({ records: still }, 'supervision records from an earlier run could not be stored yet; retrying');
     }
+    // Between the writes: forgets the ids of stored records the journal no longer holds.
+    void records.pruneApplied();
     book.restore(await loadAlarmStates(db));
     const interlock = new Interlock(parseInterlockConfig({ staleMs: config.staleTripMs, ...interlockTrips(levels.inForce().levels.trips) }));
     // One source: the level set in force feeds the interlock's trip levels and the gauges' bands.
