@@ -85,6 +85,11 @@ describe('history: stored window of telemetry, predictions and records', () => {
     expect(body.prediction.tofAspect[i]).toBeCloseTo(shown.tofAspect!, 4);
     expect(body.prediction.camera[i]?.tofMs).toBe(shown.camera?.tofMs);
     expect(body.prediction.t[0]).toBeLessThanOrEqual(fromMs + 1000);
+    // Whether it applied, and the versions in force, as Live had them.
+    expect(body.prediction.status.state.at(-1)).toBe(seen.at(-1)!.predictionStatus.state);
+    expect(body.inForce.calibrations.map((c) => c.version)).toEqual([seen.at(-1)!.calibration!.version]);
+    expect(body.inForce.profiles.map((p) => p.profile.id)).toEqual([shown.profileId]);
+    expect(body.inForce.levels.map((l) => l.bands)).toEqual([(await api('viewer', 'GET', '/api/channels')).body]);
   });
 
   it('serves older or longer windows from the 1 s roll-ups, agreeing with the raw points', async () => {
