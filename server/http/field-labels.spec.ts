@@ -91,4 +91,20 @@ describe('the request schemas of the write routes', () => {
     expect(fieldLabel(ROUTE_BODIES['sequences.save']!, ['steps', 0, 'phiDeg'])).toBe('φ of step 1');
     expect(fieldLabel(ROUTE_BODIES['logbook.write']!, ['text'])).toBe('Entry');
   });
+
+  it('labels the Steer page’s target as its New target form does, and a step as the sequence editor does', () => {
+    const target = ROUTE_BODIES['steering.target']!;
+    expect(['magnitudeG', 'thetaDeg', 'phiDeg', 'rampMs', 'reason'].map((key) => fieldLabel(target, [key]))).toEqual([
+      '|B|',
+      'θ (from trap z)',
+      'φ (from trap x to y)',
+      'Ramp time',
+      'Reason (goes into the audit trail)',
+    ]);
+    expect(fieldLabel(ROUTE_BODIES['steering.abort']!, ['reason'])).toBe('Reason for abort or release');
+    expect(fieldLabel(ROUTE_BODIES['sequences.save']!, ['steps', 2, 'thetaDeg'])).toBe('θ of step 3');
+    expect(() => parseInput(target, { magnitudeG: 9, thetaDeg: 200, phiDeg: 0, rampMs: 4_000_000, reason: 'x' }, 'body')).toThrow(
+      'θ (from trap z) must be at most 180 °; Ramp time must be at most 3600 s',
+    );
+  });
 });

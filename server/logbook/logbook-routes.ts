@@ -123,5 +123,5 @@ async function checkFiles(uploads: readonly Express.Multer.File[]): Promise<Chec
 async function checkLink(targets: LinkTargets, link: LogbookLink | null): Promise<void> {
   if (link === null) return;
   const problem = await linkProblem(targets, link);
-  if (problem) throw new HttpError(400, `Linked to: ${problem}`);
+  if (problem) throw new HttpError(400, `Linked to: ${problem}`, 'link');
 }

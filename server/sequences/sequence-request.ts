@@ -22,19 +22,21 @@ const Step = z.discriminatedUnion('kind', [RampStep, HoldStep, ShotStep], { erro
 
 const StepsSchema = z.array(z.unknown(), { error: 'Steps must be a list' }).min(1, 'Steps must hold at least one step').max(MAX_STEPS, `Steps must hold at most ${MAX_STEPS} steps`);
 
-/** Validates a list of steps; throws a 400 naming the first bad step. */
+/** Validates a list of steps; throws a 400 naming every bad step, with `field` at the first bad input (`steps.2.thetaDeg`). */
 export function parseSteps(value: unknown): SequenceStep[] {
   const list = StepsSchema.safeParse(value);
-  if (!list.success) throw new HttpError(400, `Invalid request body: ${list.error.issues[0].message}`);
+  if (!list.success) throw new HttpError(400, list.error.issues[0].message, 'steps');
   const problems: string[] = [];
+  let field: string | null = null;
   const steps = list.data.map((raw, i) => {
     const parsed = Step.safeParse(raw);
     if (parsed.success) return parsed.data;
     const kind = typeof raw === 'object' && raw !== null && typeof (raw as { kind?: unknown }).kind === 'string' ? ` (${(raw as { kind: string }).kind})` : '';
     problems.push(`Step ${i + 1}${kind}: ${parsed.error.issues.map((issue) => issue.message).join('; ')}`);
+    field ??= ['steps', i, ...parsed.error.issues[0].path].join('.');
     return null;
   });
-  if (problems.length > 0) throw new HttpError(400, `Invalid request body: ${problems.join('. ')}`);
+  if (problems.length > 0) throw new HttpError(400, problems.join('. '), field);
   return steps as SequenceStep[];
 }
 

@@ -30,16 +30,29 @@ const number = (label: string, unit: string, min: number, max: number, maxExclus
 
 export const reason = reasonText();
 
-export const magnitudeG = labelled(number('|B|', 'G', 0, MAX_TARGET_GAUSS), '|B|');
-export const thetaDeg = labelled(number('θ', '°', 0, 180), 'θ');
-export const phiDeg = labelled(number('φ', '°', 0, 360, true), 'φ');
+/** A number field whose messages name it by `label`, as the screen that sends it does. */
+const labelledNumber = (label: string, unit: string, min: number, max: number, maxExclusive = false) => labelled(number(label, unit, min, max, maxExclusive), label);
+
+/** The inputs of a ramp step, as the sequence editor names them ("θ of step 3"). */
+export const magnitudeG = labelledNumber('|B|', 'G', 0, MAX_TARGET_GAUSS);
+export const thetaDeg = labelledNumber('θ', '°', 0, 180);
+export const phiDeg = labelledNumber('φ', '°', 0, 360, true);
+
+/** The ramp time: ms in the request, seconds on the form and in its messages. */
+const rampMs = labelled(
+  z
+    .number({ error: 'Ramp time must be a number of seconds' })
+    .min(0, 'Ramp time must be at least 0 s')
+    .max(MAX_RAMP_MS, `Ramp time must be at most ${MAX_RAMP_MS / 1000} s`),
+  'Ramp time',
+);
 
 /** Labels as the Steer page's New target form shows them. */
 export const SteerRequestBody = z.strictObject({
   magnitudeG,
-  thetaDeg,
-  phiDeg,
-  rampMs: labelled(number('Ramp time', 'ms', 0, MAX_RAMP_MS), 'Ramp time'),
+  thetaDeg: labelledNumber('θ (from trap z)', '°', 0, 180),
+  phiDeg: labelledNumber('φ (from trap x to y)', '°', 0, 360, true),
+  rampMs,
   reason: labelled(reason, 'Reason (goes into the audit trail)'),
 });
 

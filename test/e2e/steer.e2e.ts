@@ -29,6 +29,22 @@ describe('Steer page in Chromium', () => {
     await form.getByLabel('θ (from trap z)').fill('54.7');
     await form.getByLabel('φ (from trap x to y)').fill('120');
     await form.getByLabel('Ramp time').fill('6');
+    // A refusal names the field as the form labels it and stands beside that field: the page's
+    // own check of a value out of range, then the server's check of the reason.
+    await form.getByLabel('Reason (goes into the audit trail)').fill('a bell \u0007 in the reason');
+    await form.getByLabel('θ (from trap z)').fill('200');
+    await form.getByRole('button', { name: 'Run pre-flight' }).click();
+    const theta = form.locator('mat-form-field', { has: page.getByLabel('θ (from trap z)') });
+    await expect.poll(() => theta.innerText()).toMatch(/θ \(from trap z\) must be from 0 to 180 °/);
+    await form.getByLabel('θ (from trap z)').fill('54.7');
+    expect(await theta.innerText()).not.toMatch(/must be/);
+    await form.getByRole('button', { name: 'Run pre-flight' }).click();
+    const reason = form.locator('mat-form-field', { has: page.getByLabel('Reason (goes into the audit trail)') });
+    await expect.poll(() => reason.innerText(), { timeout: 15_000 }).toMatch(/Reason \(goes into the audit trail\): must not contain control characters/);
+    expect(await page.getByRole('alert').count()).toBe(0);
+    expect(await form.innerText()).not.toMatch(/thetaDeg|rampMs|"reason"/);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'steer-refused.png'), fullPage: true });
+
     await form.getByLabel('Reason (goes into the audit trail)').fill('end-to-end check');
     await form.getByRole('button', { name: 'Run pre-flight' }).click();
     const checks = page.getByRole('table', { name: 'Pre-flight checks' });

@@ -59,7 +59,7 @@ describe('logbook API', () => {
     expect(await write({ text: 'x', tags: ['two words'] })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Tags:/) } });
     expect(await write({ text: 'x', at: 'yesterday' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Refers to:/) } });
     expect(await write({ text: 'x', at: new Date(Date.now() + 86_400_000).toISOString() })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/future/) } });
-    expect(await write({ text: 'x', link: 'alarm:no.such.alarm' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no alarm/) } });
+    expect(await write({ text: 'x', link: 'alarm:no.such.alarm' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no alarm/), field: 'link' } });
     expect(await write({ text: 'x', link: 'trip:2020-01-01T00:00:00Z' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no interlock trip/) } });
     expect(await write({ text: 'x', link: 'run:999' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no run number 999/) } });
     expect(await write({ text: 'x', link: 'shot:none-such' })).toMatchObject({ status: 400, body: { error: expect.stringMatching(/^Linked to: there is no shot/) } });

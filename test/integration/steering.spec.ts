@@ -76,8 +76,8 @@ describe('steering: server → broker → simulated controller', () => {
       const res = await api<{ error: string }>('operator', 'POST', '/api/steering/target', bad);
       expect(res.status, JSON.stringify(bad)).toBe(400);
     }
-    const named = await api<{ error: string }>('operator', 'POST', '/api/steering/preflight', { ...target, thetaDeg: 200 });
-    expect(named.body.error).toMatch(/θ must be at most 180/);
+    const named = await api<{ error: string; field: string }>('operator', 'POST', '/api/steering/preflight', { ...target, thetaDeg: 200 });
+    expect(named.body).toMatchObject({ error: expect.stringMatching(/^θ \(from trap z\) must be at most 180/), field: 'thetaDeg' });
     expect((await steering()).mode).toBe('idle');
   });
 
@@ -127,9 +127,9 @@ describe('steering: server → broker → simulated controller', () => {
   it('saves sequences as a lead only, naming a bad step', async () => {
     const steps = [{ kind: 'ramp', magnitudeG: 7, thetaDeg: 30, phiDeg: 0, durationMs: 1500 }, { kind: 'shot', label: 'first' }];
     expect((await api('operator', 'POST', '/api/sequences', { name: 'Short scan', steps, reason: 'test' })).status).toBe(403);
-    const bad = await api<{ error: string }>('lead', 'POST', '/api/sequences', { name: 'Short scan', steps: [...steps, { kind: 'ramp', magnitudeG: 7, thetaDeg: 200, phiDeg: 0, durationMs: 1000 }], reason: 'test' });
+    const bad = await api<{ error: string; field: string }>('lead', 'POST', '/api/sequences', { name: 'Short scan', steps: [...steps, { kind: 'ramp', magnitudeG: 7, thetaDeg: 200, phiDeg: 0, durationMs: 1000 }], reason: 'test' });
     expect(bad.status).toBe(400);
-    expect(bad.body.error).toMatch(/Step 3 \(ramp\): θ must be at most 180/);
+    expect(bad.body).toMatchObject({ error: expect.stringMatching(/Step 3 \(ramp\): θ must be at most 180/), field: 'steps.2.thetaDeg' });
     const first = await api<{ id: number; version: number }>('lead', 'POST', '/api/sequences', { name: 'Short scan', steps, reason: 'test' });
     expect(first.status).toBe(201);
     expect(first.body.version).toBe(1);

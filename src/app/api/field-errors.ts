@@ -28,3 +28,11 @@ export function placeServerError(err: unknown, controls: Readonly<Record<string,
   markField(control, message);
   return null;
 }
+
+/** Marks each control that `problems` names (by the same key as in `controls`) with its message: checks made before sending. */
+export function markFields(controls: Readonly<Record<string, AbstractControl | undefined>>, problems: Readonly<Record<string, string | undefined>>): void {
+  for (const [key, message] of Object.entries(problems)) {
+    const control = controls[key];
+    if (control && message !== undefined) markField(control, message);
+  }
+}

@@ -1,11 +1,12 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
-import { FormsModule } from '@angular/forms';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { ATTACHMENT_TYPES_TEXT, MAX_ATTACHMENT_BYTES, MAX_ATTACHMENTS, MAX_ENTRY_CHARS, type LogbookEntry } from '../../../shared/logbook/logbook-api';
-import { errorText } from '../api/error-text';
+import { fieldMessage, markField, placeServerError } from '../api/field-errors';
 import { LogbookClient } from './logbook-client';
 import { renderMarkdown } from './markdown';
 
@@ -16,7 +17,7 @@ import { renderMarkdown } from './markdown';
  */
 @Component({
   selector: 'tw-entry-composer',
-  imports: [FormsModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule],
+  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, ReactiveFormsModule],
   templateUrl: './entry-composer.html',
   styleUrl: './entry-composer.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -30,10 +31,15 @@ export class EntryComposer {
   private readonly client = inject(LogbookClient);
   protected readonly maxChars = MAX_ENTRY_CHARS;
   protected readonly typesText = ATTACHMENT_TYPES_TEXT;
-  protected readonly text = signal('');
-  protected readonly tags = signal('');
-  protected readonly at = signal('');
-  protected readonly link = signal('');
+  /** The inputs, by the request field each one sends (`at` as typed in local time). */
+  protected readonly form = new FormGroup({
+    text: new FormControl('', { nonNullable: true }),
+    tags: new FormControl('', { nonNullable: true }),
+    at: new FormControl('', { nonNullable: true }),
+    link: new FormControl('', { nonNullable: true }),
+  });
+  protected readonly fieldMessage = fieldMessage;
+  private readonly text = toSignal(this.form.controls.text.valueChanges, { initialValue: '' });
   protected readonly files = signal<File[]>([]);
   protected readonly preview = signal(false);
   protected readonly dragging = signal(false);
@@ -85,30 +91,24 @@ export class EntryComposer {
   }
 
   protected async send(): Promise<void> {
-    if (this.text().trim() === '') {
-      this.problem.set('Write what happened first; an entry cannot be empty.');
+    const { text, tags, at, link } = this.form.getRawValue();
+    this.problem.set(null);
+    if (text.trim() === '') {
+      markField(this.form.controls.text, 'Entry: write what happened; an entry cannot be empty');
+      this.preview.set(false);
       return;
     }
     this.sending.set(true);
-    this.problem.set(null);
     try {
-      const id = await this.client.write({
-        text: this.text(),
-        tags: this.tags(),
-        at: this.at() ? new Date(this.at()).toISOString() : '',
-        link: this.link(),
-        amends: this.amending()?.id ?? null,
-        files: this.files(),
-      });
-      this.text.set('');
-      this.tags.set('');
-      this.at.set('');
-      this.link.set('');
+      const id = await this.client.write({ text, tags, at: at ? new Date(at).toISOString() : '', link, amends: this.amending()?.id ?? null, files: this.files() });
+      this.form.reset();
       this.files.set([]);
       this.preview.set(false);
       this.written.emit(id);
     } catch (error) {
-      this.problem.set(errorText(error));
+      this.problem.set(placeServerError(error, this.form.controls));
+      // The entry's own message stands under its text box, which the preview hides.
+      if (this.form.controls.text.invalid) this.preview.set(false);
     } finally {
       this.sending.set(false);
     }

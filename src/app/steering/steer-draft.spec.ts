@@ -8,11 +8,13 @@ describe('Steer form', () => {
     });
   });
 
-  it('names the field to fix', () => {
+  it('names each field to fix as the form labels it', () => {
     const base = { magnitudeG: '9', thetaDeg: '50', phiDeg: '10', rampS: '5', reason: 'x' };
-    expect(requestFromDraft({ ...base, magnitudeG: '' })).toEqual({ problem: '|B| must be a number in G' });
-    expect(requestFromDraft({ ...base, thetaDeg: '181' })).toEqual({ problem: 'θ must be from 0 to 180 °' });
-    expect(requestFromDraft({ ...base, phiDeg: '360' })).toEqual({ problem: 'φ must be from 0 to below 360 °' });
-    expect(requestFromDraft({ ...base, reason: ' ' })).toEqual({ problem: 'Reason must say why (it goes into the audit trail)' });
+    expect(requestFromDraft({ ...base, magnitudeG: '' })).toEqual({ problems: { magnitudeG: '|B| must be a number in G' } });
+    expect(requestFromDraft({ ...base, thetaDeg: '181' })).toEqual({ problems: { thetaDeg: 'θ (from trap z) must be from 0 to 180 °' } });
+    expect(requestFromDraft({ ...base, phiDeg: '360', reason: ' ' })).toEqual({
+      problems: { phiDeg: 'φ (from trap x to y) must be from 0 to below 360 °', reason: 'Reason (goes into the audit trail) must say why' },
+    });
+    expect(requestFromDraft({ ...base, rampS: '3601' })).toEqual({ problems: { rampS: 'Ramp time must be from 0 to 3600 s' } });
   });
 });

@@ -1,4 +1,5 @@
 import type { SteerTargetRequest } from '../../../shared/steering/steering-api';
+import { MAX_RAMP_MS, MAX_TARGET_GAUSS } from '../../../shared/steering/target';
 
 /** The Steer form as typed: text per field (ramp time in seconds). */
 export interface SteerDraft {
@@ -11,20 +12,38 @@ export interface SteerDraft {
 
 export const EMPTY_DRAFT: SteerDraft = { magnitudeG: '', thetaDeg: '', phiDeg: '', rampS: '10', reason: '' };
 
-/** The request for a draft, or the first problem named as the form labels the field. */
-export function requestFromDraft(d: SteerDraft): { request: SteerTargetRequest } | { problem: string } {
-  const number = (text: string, label: string, min: number, max: number, unit: string, maxExclusive = false): number | string => {
-    const v = Number(text.trim().replace(',', '.'));
-    if (text.trim() === '' || !Number.isFinite(v)) return `${label} must be a number in ${unit}`;
-    if (v < min || (maxExclusive ? v >= max : v > max)) return `${label} must be from ${min} to ${maxExclusive ? 'below ' : ''}${max} ${unit}`;
-    return v;
+/** The labels of the New target form; its refusals name the fields by them. */
+export const STEER_LABELS: Readonly<Record<keyof SteerDraft, string>> = {
+  magnitudeG: '|B|',
+  thetaDeg: 'θ (from trap z)',
+  phiDeg: 'φ (from trap x to y)',
+  rampS: 'Ramp time',
+  reason: 'Reason (goes into the audit trail)',
+};
+
+/** What is wrong with a draft, by field. */
+export type SteerDraftProblems = Partial<Record<keyof SteerDraft, string>>;
+
+/** The number typed in `text` (a decimal comma too) when it lies in range, else what is wrong, naming the field `label`. */
+export function numberInRange(text: string, label: string, min: number, max: number, unit: string, maxExclusive = false): number | string {
+  const v = Number(text.trim().replace(',', '.'));
+  if (text.trim() === '' || !Number.isFinite(v)) return `${label} must be a number in ${unit}`;
+  if (v < min || (maxExclusive ? v >= max : v > max)) return `${label} must be from ${min} to ${maxExclusive ? 'below ' : ''}${max} ${unit}`;
+  return v;
+}
+
+/** The request for a draft, or the problem of each field to fix, named as the form labels it. */
+export function requestFromDraft(d: SteerDraft): { request: SteerTargetRequest } | { problems: SteerDraftProblems } {
+  const values = {
+    magnitudeG: numberInRange(d.magnitudeG, STEER_LABELS.magnitudeG, 0, MAX_TARGET_GAUSS, 'G'),
+    thetaDeg: numberInRange(d.thetaDeg, STEER_LABELS.thetaDeg, 0, 180, '°'),
+    phiDeg: numberInRange(d.phiDeg, STEER_LABELS.phiDeg, 0, 360, '°', true),
+    rampS: numberInRange(d.rampS, STEER_LABELS.rampS, 0, MAX_RAMP_MS / 1000, 's'),
   };
-  const magnitudeG = number(d.magnitudeG, '|B|', 0, 1000, 'G');
-  const thetaDeg = number(d.thetaDeg, 'θ', 0, 180, '°');
-  const phiDeg = number(d.phiDeg, 'φ', 0, 360, '°', true);
-  const rampS = number(d.rampS, 'Ramp time', 0, 3600, 's');
-  for (const v of [magnitudeG, thetaDeg, phiDeg, rampS]) if (typeof v === 'string') return { problem: v };
   const reason = d.reason.trim();
-  if (!reason) return { problem: 'Reason must say why (it goes into the audit trail)' };
-  return { request: { magnitudeG: magnitudeG as number, thetaDeg: thetaDeg as number, phiDeg: phiDeg as number, rampMs: Math.round((rampS as number) * 1000), reason } };
+  const problems: SteerDraftProblems = Object.fromEntries(Object.entries(values).filter(([, v]) => typeof v === 'string'));
+  if (!reason) problems.reason = `${STEER_LABELS.reason} must say why`;
+  if (Object.keys(problems).length > 0) return { problems };
+  const { magnitudeG, thetaDeg, phiDeg, rampS } = values as Record<keyof typeof values, number>;
+  return { request: { magnitudeG, thetaDeg, phiDeg, rampMs: Math.round(rampS * 1000), reason } };
 }
