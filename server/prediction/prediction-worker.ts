@@ -6,6 +6,7 @@ import { sampleScales } from '../../shared/physics/sample.js';
 import { cameraView } from './camera-view.js';
 import { fieldDirectionOf } from './field-direction.js';
 import type { PathPrediction, WorkerReply, WorkerRequest, WorkerSummary } from './prediction-protocol.js';
+import { lowerThisThreadPriority } from '../workers/background-priority.js';
 
 /**
  * Body of the prediction worker thread: solves one request at a time, so the server's event
@@ -14,6 +15,8 @@ import type { PathPrediction, WorkerReply, WorkerRequest, WorkerSummary } from '
  */
 const port = parentPort;
 if (!port) throw new Error('prediction-worker.ts must run in a worker thread');
+// Background work: the event loop (ingest, supervision, fan-out) comes first when CPU is short.
+lowerThisThreadPriority();
 
 let warm: WarmStart | undefined;
 

@@ -12,9 +12,12 @@ import { openDatabase, type OpenDatabase } from '../db/database.js';
 import { RetentionTask } from './retention.js';
 import type { StorageReply, StorageRequest, WorkerOpen } from './storage-protocol.js';
 import { TelemetryStore } from './telemetry-store.js';
+import { lowerThisThreadPriority } from '../workers/background-priority.js';
 
 const port = parentPort;
 if (!port) throw new Error('storage-worker.ts must run in a worker thread');
+// Background work: the event loop (ingest, supervision, fan-out) comes first when CPU is short.
+lowerThisThreadPriority();
 const settings = workerData as WorkerOpen;
 
 /** Pause between attempts to open the database at start, ms. */

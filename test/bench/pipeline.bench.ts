@@ -65,9 +65,13 @@ interface Level {
   flushErrors: number;
   written: number;
   cpuPercent: number;
+  /** CPU of the publisher and viewer processes over the level, % of one core (they share the machine). */
+  publisherCpuPercent: number;
+  viewerCpuPercent: number;
   loopMaxMs: number;
   load: number;
-  ok: boolean;
+  /** Why the level failed, in words; empty when it passed. */
+  failures: string[];
 }
 
 export async function benchPipeline(): Promise<Figure[]> {
@@ -88,7 +92,7 @@ export async function benchPipeline(): Promise<Figure[]> {
   try {
     const server = JSON.parse(await firstLine(serverProcess)) as { url: string; mqttUrl: string; controller: { username: string; password: string }; pid: number };
     const health = async () => (await (await fetch(`${server.url}/api/health`)).json()) as Health;
-    console.log(`\n  rate   frames   p50 ms   p99 ms  missing  rejected  lost  dropped  flushErr  written  server CPU  loop max ms  load avg`);
+    console.log(`\n  rate   frames   p50 ms   p99 ms  missing  rejected  lost  dropped  flushErr  written  server CPU  pub+view CPU  loop max ms  load avg`);
     for (const rate of RATES) {
       const level = await runLevel(rate, nextSeq(), dir, server, health);
       levels.push(level);
@@ -97,9 +101,10 @@ export async function benchPipeline(): Promise<Figure[]> {
         `  ${`${rate}×`.padStart(4)}  ${String(level.published).padStart(7)}  ${level.p50.toFixed(1).padStart(7)}  ${level.p99.toFixed(1).padStart(7)}` +
           `  ${String(level.missing).padStart(7)}  ${String(level.rejected).padStart(8)}  ${String(level.lost).padStart(4)}  ${String(level.dropped).padStart(7)}` +
           `  ${String(level.flushErrors).padStart(8)}  ${String(level.written).padStart(7)}  ${`${level.cpuPercent.toFixed(0)} %`.padStart(10)}` +
-          `  ${level.loopMaxMs.toFixed(1).padStart(11)}  ${level.load.toFixed(2).padStart(8)}  ${level.ok ? 'pass' : 'FAIL'}`,
+          `  ${`${level.publisherCpuPercent.toFixed(0)}+${level.viewerCpuPercent.toFixed(0)} %`.padStart(12)}` +
+          `  ${level.loopMaxMs.toFixed(1).padStart(11)}  ${level.load.toFixed(2).padStart(8)}  ${level.failures.length === 0 ? 'pass' : `FAIL: ${level.failures.join(', ')}`}`,
       );
-      if (!level.ok) break;
+      if (level.failures.length > 0) break;
     }
     // Fill phase for the disk figure (not judged): its frames are counted from the database below.
     fill = (await runLevel(FILL_RATE, nextSeq(), dir, server, health)).seq;
@@ -111,9 +116,9 @@ export async function benchPipeline(): Promise<Figure[]> {
   const stored = await countStored(dir, [...levels.map((l) => l.seq), ...(fill ? [fill] : [])]);
   rmSync(dir, { recursive: true, force: true });
   levels.forEach((level, i) => {
-    if (stored.levels[i].fastFrames !== level.published) level.ok = false;
+    if (stored.levels[i].fastFrames !== level.published) level.failures.push(`${stored.levels[i].fastFrames} of ${level.published} in the database after the drain`);
   });
-  const passed = levels.filter((l, i) => l.ok && levels.slice(0, i).every((p) => p.ok)).map((l) => l.rate);
+  const passed = levels.filter((l, i) => levels.slice(0, i + 1).every((p) => p.failures.length === 0)).map((l) => l.rate);
   // Demo time held in the database: 20 ms of data per stored fast frame.
   const dataSeconds = stored.levels.reduce((sum, l) => sum + (l.fastFrames * 20) / 1000, 0);
   const dataBytes = stored.telemetryBytes - empty.telemetryBytes;
@@ -124,7 +129,7 @@ export async function benchPipeline(): Promise<Figure[]> {
       name: `stored after drain at ${l.rate}×`,
       value: stored.levels[i].fastFrames,
       unit: `of ${l.published} fast frames`,
-      note: `${stored.levels[i].slowFrames} slow frames; load avg ${l.load.toFixed(2)}`,
+      note: `${stored.levels[i].slowFrames} slow frames; load avg ${l.load.toFixed(2)}${l.failures.length > 0 ? `; failed: ${l.failures.join(', ')}` : ''}`,
     })),
     {
       name: 'highest rate that passes',
@@ -158,17 +163,29 @@ async function runLevel(
   const viewedFile = path.join(dir, `viewed-${rate}.json`);
   const viewer = startChild('viewer.ts', [server.url, viewedFile]);
   await firstLine(viewer);
+  const publisher = startChild('publisher.ts', [
+    JSON.stringify({ mqttUrl: server.mqttUrl, ...server.controller, rate, seconds: LEVEL_SECONDS, seqBase, out: publishedFile }),
+  ], 'pipe');
+  // The publisher prepares the level's frames first; the clocks start when it starts sending.
+  await firstLine(publisher, 600_000);
   const before = await health();
   const cpuBefore = cpuSeconds(server.pid);
+  const viewerCpuBefore = cpuSeconds(viewer.pid!);
+  const publisherCpuBefore = cpuSeconds(publisher.pid!);
   const startedAt = performance.now();
+  publisher.stdin!.end('go\n');
   let loopMaxMs = 0;
   const sampler = setInterval(() => {
     health().then((h) => (loopMaxMs = Math.max(loopMaxMs, h.eventLoop.maxMs ?? 0)), () => undefined);
   }, 5000);
-  const publisher = startChild('publisher.ts', [
-    JSON.stringify({ mqttUrl: server.mqttUrl, ...server.controller, rate, seconds: LEVEL_SECONDS, seqBase, out: publishedFile }),
-  ]);
+  let publisherCpu = 0;
+  const publisherSampler = setInterval(() => {
+    const seconds = cpuSeconds(publisher.pid!);
+    if (Number.isFinite(seconds)) publisherCpu = seconds;
+  }, 250);
   await once(publisher, 'exit');
+  clearInterval(publisherSampler);
+  const publishedForMs = performance.now() - startedAt;
   const published = JSON.parse(readFileSync(publishedFile, 'utf8')) as Published & { fast: number; slow: number; seqLast: { fast: number; slow: number } };
   // Drained: every frame accepted (or refused) and the writer's queue empty.
   let after = await health();
@@ -180,7 +197,9 @@ async function runLevel(
     after = await health();
   }
   clearInterval(sampler);
-  const cpuPercent = ((cpuSeconds(server.pid) - cpuBefore) / ((performance.now() - startedAt) / 1000)) * 100;
+  const elapsedS = (performance.now() - startedAt) / 1000;
+  const cpuPercent = ((cpuSeconds(server.pid) - cpuBefore) / elapsedS) * 100;
+  const viewerCpuPercent = ((cpuSeconds(viewer.pid!) - viewerCpuBefore) / elapsedS) * 100;
   await stopChild(viewer);
   const viewed = JSON.parse(readFileSync(viewedFile, 'utf8')) as Viewed;
   const { latencies, missing } = frameLatencies(published, viewed);
@@ -197,18 +216,22 @@ async function runLevel(
     flushErrors: after.storage.flushErrors - before.storage.flushErrors,
     written: after.storage.framesWritten - before.storage.framesWritten,
     cpuPercent,
+    publisherCpuPercent: ((publisherCpu - publisherCpuBefore) / (publishedForMs / 1000)) * 100,
+    viewerCpuPercent,
     loopMaxMs,
     load: loadavg()[0],
-    ok: false,
+    failures: [],
   };
-  level.ok =
-    missing === 0 &&
-    level.rejected === 0 &&
-    level.lost === 0 &&
-    level.dropped === 0 &&
-    level.flushErrors === 0 &&
-    level.written === published.fast &&
-    after.frames.acceptedByKind.fast - before.frames.acceptedByKind.fast === published.fast &&
-    level.p99 < P99_TARGET_MS;
+  const accepted = after.frames.acceptedByKind.fast - before.frames.acceptedByKind.fast;
+  level.failures = [
+    missing > 0 && `${missing} frames never reached the viewer`,
+    level.rejected > 0 && `${level.rejected} rejected`,
+    level.lost > 0 && `${level.lost} lost`,
+    level.dropped > 0 && `${level.dropped} dropped by storage`,
+    level.flushErrors > 0 && `${level.flushErrors} flush errors`,
+    level.written !== published.fast && `${level.written} of ${published.fast} written`,
+    accepted !== published.fast && `${accepted} of ${published.fast} accepted`,
+    !(level.p99 < P99_TARGET_MS) && `p99 over ${P99_TARGET_MS} ms`,
+  ].filter((why): why is string => typeof why === 'string');
   return level;
 }

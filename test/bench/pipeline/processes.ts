@@ -6,10 +6,20 @@ import path from 'node:path';
 import { createInterface } from 'node:readline';
 import { projectRoot } from '../../../server/project-root.js';
 
-export function startChild(file: string, args: string[]): ChildProcess {
-  return spawn(process.execPath, ['--import', 'tsx', path.join('test', 'bench', 'pipeline', file), ...args], {
+/**
+ * BENCH_CPU_PROFILE_DIR=DIR writes V8 CPU profiles of the server process (one per thread:
+ * event loop, storage worker, prediction worker) into DIR, for Chromium's DevTools.
+ */
+function profileArgs(file: string): string[] {
+  const dir = process.env.BENCH_CPU_PROFILE_DIR;
+  return dir && file === 'bench-server.ts' ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(dir)}`] : [];
+}
+
+/** With `stdin: 'pipe'` the child can be told when to go (a line on its standard input). */
+export function startChild(file: string, args: string[], stdin: 'ignore' | 'pipe' = 'ignore'): ChildProcess {
+  return spawn(process.execPath, [...profileArgs(file), '--import', 'tsx', path.join('test', 'bench', 'pipeline', file), ...args], {
     cwd: projectRoot(),
-    stdio: ['ignore', 'pipe', 'inherit'],
+    stdio: [stdin, 'pipe', 'inherit'],
   });
 }
 

@@ -1,7 +1,10 @@
 /**
  * The publisher process of the pipeline benchmark: the simulated controller's own model and
  * frames (simulator/simulation.ts), published with the controller account at `rate` times the
- * demo rate for `seconds`. Everything is scaled: fast frames (20 samples at 1 kHz of data
+ * demo rate for `seconds` (computed and serialised before the level starts, as a controller on
+ * its own machine would cost this one nothing; it prints `ready` and starts sending when a line
+ * comes on its standard input).
+ * Everything is scaled: fast frames (20 samples at 1 kHz of data
  * time) and slow frames (10 Hz of data time) both come `rate` times as often, so data time runs
  * `rate` times faster than the wall clock; it starts `rate × seconds` in the past so that it
  * never runs ahead of the server's clock. Fast and slow sequence numbers start at `seqBase.fast`
@@ -46,14 +49,37 @@ const sim = new Simulation({
   demo: true,
   demoIdleMs: 3_600_000,
 });
-const client = await mqtt.connectAsync(args.mqttUrl, { protocolVersion: 4, username: args.username, password: args.password, clientId: `bench-publisher-${args.seqBase.fast}` });
-(client.stream as { setNoDelay?: (on: boolean) => void }).setNoDelay?.(true);
-
+// A real controller is its own machine: its model costs the server's machine nothing. So every
+// frame of the level is computed and serialised before the clock starts, and the level itself
+// only sends prepared payloads on time.
 const total = Math.round((args.seconds * 1000 * args.rate) / FRAME_MS);
-const sentAt = new Float64Array(total);
+const fastPayloads: string[] = [];
+const slowPayloads: string[][] = [];
 const t0Ms = new Float64Array(total);
 let slow = 0;
 const seqLast = { fast: args.seqBase.fast - 1, slow: args.seqBase.slow - 1 };
+for (let i = 0; i < total; i++) {
+  const { fast, slow: slowFrames } = sim.nextFrame();
+  slowPayloads.push(
+    slowFrames.map((s) => {
+      seqLast.slow = s.seq + args.seqBase.slow;
+      slow++;
+      return JSON.stringify({ ...s, seq: seqLast.slow });
+    }),
+  );
+  t0Ms[i] = fast.t0Ms;
+  seqLast.fast = fast.seq + args.seqBase.fast;
+  fastPayloads.push(JSON.stringify({ ...fast, seq: seqLast.fast }));
+}
+
+const client = await mqtt.connectAsync(args.mqttUrl, { protocolVersion: 4, username: args.username, password: args.password, clientId: `bench-publisher-${args.seqBase.fast}` });
+(client.stream as { setNoDelay?: (on: boolean) => void }).setNoDelay?.(true);
+// The bench takes its starting figures (counters, CPU) on this line, then says go.
+console.log('ready');
+await new Promise((resolve) => process.stdin.once('data', resolve));
+process.stdin.destroy();
+
+const sentAt = new Float64Array(total);
 const t0 = performance.now();
 for (let i = 0; i < total; ) {
   const due = t0 + (i * FRAME_MS) / args.rate;
@@ -65,15 +91,8 @@ for (let i = 0; i < total; ) {
   else await new Promise((resolve) => setImmediate(resolve));
   // Publish every frame that is due now (a timer wakes at most every millisecond or so).
   while (i < total && t0 + (i * FRAME_MS) / args.rate <= performance.now()) {
-    const { fast, slow: slowFrames } = sim.nextFrame();
-    for (const s of slowFrames) {
-      seqLast.slow = s.seq + args.seqBase.slow;
-      client.publish(TOPICS.slow, JSON.stringify({ ...s, seq: seqLast.slow }));
-      slow++;
-    }
-    t0Ms[i] = fast.t0Ms;
-    seqLast.fast = fast.seq + args.seqBase.fast;
-    client.publish(TOPICS.fast, JSON.stringify({ ...fast, seq: seqLast.fast }));
+    for (const payload of slowPayloads[i]) client.publish(TOPICS.slow, payload);
+    client.publish(TOPICS.fast, fastPayloads[i]);
     sentAt[i] = epochNow();
     i++;
   }
