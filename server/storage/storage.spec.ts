@@ -10,6 +10,7 @@ import { adcStep, CURRENT_ADC } from '../../shared/telemetry/adc.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import { projectRoot } from '../project-root.js';
 import type { RunningServer } from '../server.js';
+import { HANDOVER_SAMPLES } from './telemetry-writer.js';
 import { usesPostgres } from '../testing/external-services.js';
 import { fastFrame, slowFrame } from '../testing/frames.js';
 import { connectController, makeDataDir, removeDataDir, signIn, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
@@ -69,6 +70,15 @@ describe('telemetry storage and the data folder', () => {
     expect(Math.max(...s.currentA.y.map((v) => Math.abs(v - CURRENT.y)))).toBeLessThanOrEqual(adcStep(CURRENT_ADC) / 2);
     expect(slow.t.length).toBeGreaterThan(0);
     expect(slow.temperatureC.z[0]).toBeCloseTo(23, 5);
+  });
+
+  it('hands a burst over in rows of about HANDOVER_SAMPLES, not in one row per half second', async () => {
+    // 300 frames of 20 samples (6 s of data, well before the other tests' data), published at once.
+    const before = server.counters().storage;
+    publishRun(controller, seq, runStart - 200_000, 300);
+    await vi.waitFor(() => expect(server.counters().storage.framesWritten - before.framesWritten).toBe(300), { timeout: 10_000 });
+    const rows = server.counters().storage.batchesWritten - before.batchesWritten;
+    expect(rows).toBeGreaterThanOrEqual(Math.floor((300 * 20) / HANDOVER_SAMPLES));
   });
 
   it('answers windows longer than five minutes from the one-second roll-ups', async () => {

@@ -46,6 +46,13 @@ export interface WriterOptions {
   onOutageChange?: (outage: boolean, error: Error | null) => void;
 }
 
+/**
+ * Gathered samples (per channel) that are handed to the worker at once, before the next timed
+ * flush: at high rates this keeps each hand-over, and so each step on the event loop, short.
+ * Rows then hold at most about this many samples, whatever the rate.
+ */
+export const HANDOVER_SAMPLES = 2000;
+
 /** Where the telemetry goes: the data folder (PGlite cluster `telemetry/`) or the PostgreSQL server, and how long it is kept. */
 export type StorageSettings = Pick<ServerConfig, 'dataDir' | 'databaseUrl' | 'retention'>;
 
@@ -66,8 +73,9 @@ const EMPTY_STATE: StoreState = {
 /**
  * Telemetry storage as the event loop sees it. The pipeline hands frames over synchronously
  * and never waits: contiguous fast frames (consecutive `seq`, same rate and calibration) are
- * gathered into runs, and every `flushIntervalMs` the runs, the slow frames and the completed
- * roll-up seconds go to the storage worker thread as transferred arrays. The worker
+ * gathered into runs, and every `flushIntervalMs` (or sooner, once `HANDOVER_SAMPLES` have
+ * gathered) the runs, the slow frames and the completed roll-up seconds go to the storage
+ * worker thread as transferred arrays; the worker writes what it holds every `flushIntervalMs`. The worker
  * (storage-worker.ts) encodes, compresses and writes them, keeps them in a bounded queue
  * through a database outage, and answers the history reads (`TelemetryReader`). Memory stays
  * bounded by refusing new frames, which are counted.
@@ -155,6 +163,7 @@ export class TelemetryWriter implements TelemetryReader {
       });
     }
     this.timed(started);
+    if (this.openSamples >= HANDOVER_SAMPLES) void this.handOver().catch(() => undefined);
   }
 
   addSlow(frame: SlowFrame): void {
