@@ -41,6 +41,7 @@ import { LivePredictionFeed } from './prediction/live-prediction-feed.js';
 import { CriticalCache } from './prediction/critical-cache.js';
 import { PredictionEngine } from './prediction/prediction-engine.js';
 import { PredictionHistoryRing } from './prediction/prediction-history.js';
+import { PredictionStatusLog } from './prediction/prediction-status-log.js';
 import { predictionHandlers } from './prediction/prediction-routes.js';
 import { ActiveProfileLoader } from './profiles/active-profile.js';
 import { seedDemoProfile } from './profiles/profile-repository.js';
@@ -221,7 +222,9 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     // field that orients the dipoles, below which the prediction is shown as not applying.
     const levels = await LevelStore.load(db);
     const minOrientingField = () => levels.inForce().levels.settings.minOrientingFieldG;
-    const prediction = new LivePredictionFeed({ engine, live, history, store: writer, fanout, staleMs: config.staleTripMs, minOrientingFieldG: minOrientingField() });
+    const statusLog = new PredictionStatusLog({ db, retentionDays: config.retention.rollupDays, onError: (error) => log.error({ err: error }, 'storing a prediction status change failed') });
+    closers.push(() => statusLog.close());
+    const prediction = new LivePredictionFeed({ engine, live, history, store: writer, statusLog, fanout, staleMs: config.staleTripMs, minOrientingFieldG: minOrientingField() });
     closers.push(() => prediction.close());
     levels.onChange(() => prediction.setMinOrientingField(minOrientingField()));
     const profiles = new ActiveProfileLoader(db, prediction);
@@ -292,7 +295,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...userHandlers({ db, accounts, throttle, security }),
         ...liveHandlers(live),
         ...seriesHandlers(calibrations, writer),
-        ...historyHandlers({ db, writer, calibrations, retention: config.retention }),
+        ...historyHandlers({ db, writer, statusLog, calibrations, levels, alarmLimits: () => supervision.book.limits(), retention: config.retention }),
         ...calibrationHandlers(db, async () => void (await calibrations.reload())),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),

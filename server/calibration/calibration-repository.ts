@@ -1,5 +1,6 @@
-import { asc, eq, max } from 'drizzle-orm';
+import { and, asc, desc, eq, gte, isNotNull, lt, max } from 'drizzle-orm';
 import type { CalibrationDetail, CalibrationRecord } from '../../shared/field/calibration-record.js';
+import type { HistoryCalibration } from '../../shared/history/history-api.js';
 import { DEMO_CALIBRATION, DEMO_COVARIANCE } from '../../shared/field/demo-calibration.js';
 import { appendAudit } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
@@ -47,6 +48,20 @@ export async function findActiveCalibration(db: Db): Promise<CalibrationRecord |
 export async function findCalibration(db: Db, id: number): Promise<CalibrationRecord | null> {
   const [row] = await db.select().from(calibrations).where(eq(calibrations.id, id));
   return row ? toRecord(row) : null;
+}
+
+/**
+ * The versions in force over [fromMs, toMs), oldest first: the one approved last before
+ * `fromMs`, then each approved inside the window (approval makes a version active at once).
+ */
+export async function calibrationsOver(db: Db, fromMs: number, toMs: number): Promise<HistoryCalibration[]> {
+  const at = calibrations.approvedAt;
+  const columns = { id: calibrations.id, version: calibrations.version, label: calibrations.label, approvedBy: calibrations.approvedBy, approvedAt: at };
+  const [before, inside] = await Promise.all([
+    db.select(columns).from(calibrations).where(and(isNotNull(at), lt(at, new Date(fromMs)))).orderBy(desc(at)).limit(1),
+    db.select(columns).from(calibrations).where(and(gte(at, new Date(fromMs)), lt(at, new Date(toMs)))).orderBy(asc(at)),
+  ]);
+  return [...before, ...inside].map(({ approvedAt, ...rest }) => ({ t: approvedAt!.getTime(), ...rest }));
 }
 
 /** A version with the residual of every file line. */

@@ -36,7 +36,7 @@ import type { HandoverItem, HandoverNotes, HandoverRecord, HandoverStatus } from
 import type { Role } from '../../shared/auth/roles.js';
 import type { CalibrationBody } from '../../shared/field/calibration.js';
 import type { CalibrationFitReport, CalibrationKind, CalibrationState, FitPoint } from '../../shared/field/calibration-record.js';
-import type { LivePrediction } from '../../shared/live/live-state.js';
+import type { LivePrediction, PredictionStatus } from '../../shared/live/live-state.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
@@ -266,6 +266,31 @@ export const predictionSamples = pgTable('prediction_samples', {
   /** The camera view (LivePrediction `camera`), null when the profile has none. */
   camera: jsonb('camera').$type<LivePrediction['camera']>(),
 });
+
+/**
+ * Each change of whether the live prediction describes the gas (`PredictionStatus`), at the
+ * server time it changed, so Replay greys the prediction where Live did and says why. Kept in
+ * the main database by server/prediction (not with the predictions, off the telemetry path), as
+ * long as the roll-ups; the status holds until the next row.
+ */
+export const predictionStatusChanges = pgTable(
+  'prediction_status_changes',
+  {
+    id: bigserial('id', { mode: 'number' }).primaryKey(),
+    /** Server time of the change, Unix epoch ms. */
+    tMs: epochMs('t_ms').notNull(),
+    state: text('state').$type<PredictionStatus['state']>().notNull(),
+    /** |B| of the newest frame at the change, G. */
+    fieldG: real('field_g'),
+    /** The least field that orients the dipoles in force, G. */
+    minFieldG: real('min_field_g'),
+    /** The sentence Live showed at the change; null while the prediction applies. */
+    reason: text('reason'),
+    /** While stale: when the newest frame arrived (server time, Unix epoch ms), to word the growing age. */
+    lastFrameAtMs: epochMs('last_frame_at_ms'),
+  },
+  (t) => [index('prediction_status_changes_t').on(t.tMs)],
+);
 
 /** Append-only trail of every change and operator action; a trigger refuses UPDATE and DELETE. */
 export const auditLog = pgTable(
@@ -549,6 +574,7 @@ export const schema = {
   slowSamples,
   rollups1s,
   predictionSamples,
+  predictionStatusChanges,
   auditLog,
   securityEvents,
   alarmLimits,

@@ -7,10 +7,12 @@ import { runs, sequences } from '../db/schema.js';
 import type { CalibrationCache } from '../field/calibration-cache.js';
 import { HttpError } from '../http/http-error.js';
 import type { RouteHandlers } from '../http/route-table.js';
+import { predictionStatusOver, type PredictionStatusLog } from '../prediction/prediction-status-log.js';
 import { storageReadError } from '../storage/read-error.js';
 import type { TelemetryWriter } from '../storage/telemetry-writer.js';
 import { writeHistoryCsv } from './history-csv.js';
 import { historyEvents } from './history-events.js';
+import { historyInForce, type InForceSources } from './history-in-force.js';
 import { checkWindow, parseHistoryRequest, type HistoryTarget } from './history-request.js';
 import { historyWindow, planHistory, type HistoryPlan, type HistorySources } from './history-series.js';
 
@@ -19,9 +21,11 @@ export const RUN_MARGIN_MS = 5000;
 /** Windows ending this close to now first hand the writer's queued frames to storage, ms. */
 const RECENT_MS = 5000;
 
-export interface HistoryDeps {
+export interface HistoryDeps extends InForceSources {
   db: Db;
   writer: Pick<TelemetryWriter, 'flush'> & HistorySources['reader'];
+  /** Changes of whether the prediction applied, written before a recent window is read. */
+  statusLog: Pick<PredictionStatusLog, 'flush'>;
   calibrations: CalibrationCache;
   retention: ServerConfig['retention'];
   now?: () => number;
@@ -40,12 +44,18 @@ export function historyHandlers(deps: HistoryDeps): Pick<RouteHandlers, 'history
       const { fromMs, toMs, run } = await resolveTarget(deps.db, request.target, now());
       const plan = planHistory(fromMs, toMs, request.points, now(), deps.retention.rawHours);
       await unavailableAs503(async () => {
-        if (toMs > now() - RECENT_MS) await deps.writer.flush();
+        if (toMs > now() - RECENT_MS) await Promise.all([deps.writer.flush(), deps.statusLog.flush()]);
       });
       if (request.format === 'csv') return streamCsv(res, sources, plan, run);
       const body = await unavailableAs503(async (): Promise<HistoryResponse> => {
-        // The main database (events) and the storage worker (the rest) answer side by side.
-        const [window, prediction, events] = await Promise.all([historyWindow(sources, plan), deps.writer.predictions(fromMs, toMs, request.points), historyEvents(deps.db, fromMs, toMs)]);
+        // The main database (events, status, versions) and the storage worker (the rest) answer side by side.
+        const [window, prediction, status, inForce, events] = await Promise.all([
+          historyWindow(sources, plan),
+          deps.writer.predictions(fromMs, toMs, request.points),
+          predictionStatusOver(deps.db, fromMs, toMs),
+          historyInForce(deps, fromMs, toMs),
+          historyEvents(deps.db, fromMs, toMs),
+        ]);
         return {
           from: new Date(fromMs).toISOString(),
           to: new Date(toMs).toISOString(),
@@ -53,7 +63,8 @@ export function historyHandlers(deps: HistoryDeps): Pick<RouteHandlers, 'history
           source: plan.source,
           series: window.series,
           slow: window.slow,
-          prediction,
+          prediction: { ...prediction, status },
+          inForce,
           events,
           run,
         };

@@ -4,7 +4,7 @@
  * a lead's save adds the next version with its audit entry in one transaction, and only then
  * becomes the level set in force and is handed on to every listener (interlock, fan-out).
  */
-import { desc } from 'drizzle-orm';
+import { and, asc, desc, gte, lt } from 'drizzle-orm';
 import type { LevelSet, LevelSetVersion } from '../../shared/levels/level-set.js';
 import { appendAudit } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
@@ -58,6 +58,19 @@ export class LevelStore {
   async history(limit = 50): Promise<LevelSetVersion[]> {
     const rows = await this.db.select().from(levelSets).orderBy(desc(levelSets.version)).limit(limit);
     return rows.map(versionOf);
+  }
+
+  /**
+   * The versions in force over [fromMs, toMs), oldest first: the one in force at `fromMs`, then
+   * each saved inside the window.
+   */
+  async versionsOver(fromMs: number, toMs: number): Promise<LevelSetVersion[]> {
+    const at = levelSets.createdAt;
+    const [before, inside] = await Promise.all([
+      this.db.select().from(levelSets).where(lt(at, new Date(fromMs))).orderBy(desc(levelSets.version)).limit(1),
+      this.db.select().from(levelSets).where(and(gte(at, new Date(fromMs)), lt(at, new Date(toMs)))).orderBy(asc(levelSets.version)),
+    ]);
+    return [...before, ...inside].map(versionOf);
   }
 
   /**

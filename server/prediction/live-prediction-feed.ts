@@ -7,6 +7,7 @@ import type { LiveStore } from '../live/live-store.js';
 import type { LiveSink } from '../live/live-sink.js';
 import type { PredictionEngine } from './prediction-engine.js';
 import type { PredictionHistoryRing } from './prediction-history.js';
+import type { PredictionStatusLog } from './prediction-status-log.js';
 import { predictionStatus, sameStatus } from './prediction-status.js';
 
 /** How often the feed checks, without frames, whether telemetry went stale, ms. */
@@ -22,7 +23,8 @@ type FieldCalibration = Pick<CalibrationBody, 'gaussPerAmp' | 'offsetGauss'>;
  * the ingest path, so it only does a matrix product and hands over: the engine thresholds,
  * coalesces and solves in its worker thread. It also keeps the live state's `predictionStatus`:
  * whether the prediction describes the gas now (|B| strong enough to orient the dipoles, as
- * the lead sets it in the level set, and telemetry not stale), checked on every frame and on a timer.
+ * the lead sets it in the level set, and telemetry not stale), checked on every frame and on a timer,
+ * and hands each change to the status log for Replay.
  * The owner calls `close()`.
  */
 export class LivePredictionFeed {
@@ -39,6 +41,8 @@ export class LivePredictionFeed {
       history: PredictionHistoryRing;
       /** Keeps each prediction for history past the ring's hour (the telemetry writer). */
       store: { addPrediction(p: LivePrediction): void };
+      /** Keeps each change of the status for Replay (only appends on this path). */
+      statusLog: Pick<PredictionStatusLog, 'record'>;
       fanout: Pick<LiveSink, 'publishStateChange'>;
       /** Telemetry older than this is stale, ms (the interlock's stale limit). */
       staleMs: number;
@@ -128,6 +132,7 @@ export class LivePredictionFeed {
     if (previous.state === 'applies' && next.state !== 'applies') this.deps.history.pushGap(nowMs);
     if (previous.state !== 'applies' && next.state === 'applies' && prediction) this.deps.history.resume(prediction, nowMs);
     this.deps.live.applyPredictionStatus(next);
+    this.deps.statusLog.record(next, nowMs, last?.atMs ?? null);
     this.deps.fanout.publishStateChange();
   }
 

@@ -1,4 +1,5 @@
 import type { PredictionStatus } from '../../shared/live/live-state.js';
+import { staleReason, weakFieldReason } from '../../shared/live/prediction-status-text.js';
 
 export interface PredictionStatusInput {
   /** |B| of the newest frame, G; null before the first. */
@@ -23,20 +24,10 @@ export function predictionStatus(input: PredictionStatusInput): PredictionStatus
   }
   const ageMs = input.nowMs - lastFrameAtMs;
   if (ageMs > input.staleMs) {
-    return {
-      state: 'stale',
-      fieldG,
-      minFieldG,
-      reason: `No telemetry for ${formatAge(ageMs)}: the field now is unknown, so the prediction may not describe the gas.`,
-    };
+    return { state: 'stale', fieldG, minFieldG, reason: staleReason(ageMs) };
   }
   if (fieldG < minFieldG) {
-    return {
-      state: 'weak-field',
-      fieldG,
-      minFieldG,
-      reason: `|B| = ${fieldG.toFixed(2)} G is below ${minFieldG.toFixed(2)} G, too weak to orient the dipoles: the prediction does not apply.`,
-    };
+    return { state: 'weak-field', fieldG, minFieldG, reason: weakFieldReason(fieldG, minFieldG) };
   }
   return { state: 'applies', fieldG, minFieldG, reason: null };
 }
@@ -48,8 +39,4 @@ export function sameStatus(a: PredictionStatus, b: PredictionStatus): boolean {
 
 function round(v: number | null): number | null {
   return v === null ? null : Math.round(v * 100);
-}
-
-function formatAge(ms: number): string {
-  return ms < 10_000 ? `${(ms / 1000).toFixed(1)} s` : `${Math.round(ms / 1000)} s`;
 }

@@ -1,10 +1,11 @@
-import { asc, desc, eq } from 'drizzle-orm';
+import { and, asc, desc, eq, gte, inArray, lt } from 'drizzle-orm';
 import { DEMO_PROFILE } from '../../shared/profiles/demo-profile.js';
+import type { HistoryProfile } from '../../shared/history/history-api.js';
 import type { ProfileRecord } from '../../shared/profiles/profile-record.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
 import { appendAudit } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
-import { sampleProfiles } from '../db/schema.js';
+import { auditLog, sampleProfiles } from '../db/schema.js';
 
 type Row = typeof sampleProfiles.$inferSelect;
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
@@ -35,6 +36,30 @@ export async function listProfiles(db: Db): Promise<ProfileRecord[]> {
 export async function findActiveProfile(db: Db): Promise<ProfileRecord | null> {
   const [row] = await db.select().from(sampleProfiles).where(eq(sampleProfiles.active, true));
   return row ? toRecord(row) : null;
+}
+
+/** Audit actions that make a version the active profile. */
+const ACTIVATIONS = ['profile.activate', 'profile.seed'];
+
+/**
+ * The versions in force over [fromMs, toMs), oldest first, from the audit trail's activations:
+ * the one activated last before `fromMs`, then each activated inside the window.
+ */
+export async function profilesOver(db: Db, fromMs: number, toMs: number): Promise<HistoryProfile[]> {
+  const activations = inArray(auditLog.action, ACTIVATIONS);
+  const columns = { at: auditLog.at, value: auditLog.newValue };
+  const [before, inside] = await Promise.all([
+    db.select(columns).from(auditLog).where(and(activations, lt(auditLog.at, new Date(fromMs)))).orderBy(desc(auditLog.at), desc(auditLog.id)).limit(1),
+    db.select(columns).from(auditLog).where(and(activations, gte(auditLog.at, new Date(fromMs)), lt(auditLog.at, new Date(toMs)))).orderBy(asc(auditLog.at), asc(auditLog.id)),
+  ]);
+  const entries = [...before, ...inside].map((e) => ({ t: e.at.getTime(), id: (e.value as { id: number }).id }));
+  if (entries.length === 0) return [];
+  const rows = await db.select().from(sampleProfiles).where(inArray(sampleProfiles.id, [...new Set(entries.map((e) => e.id))]));
+  const byId = new Map(rows.map((r) => [r.id, toRecord(r)]));
+  return entries.flatMap((e) => {
+    const profile = byId.get(e.id);
+    return profile ? [{ t: e.t, profile }] : [];
+  });
 }
 
 /**

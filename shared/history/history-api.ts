@@ -2,7 +2,9 @@
  * Body of `GET /api/history` (server/history): a stored window of telemetry, predictions and
  * records, for the Replay screen and exports. Parallel arrays with `t` in Unix epoch ms.
  */
-import type { LivePrediction, SeriesChunk, SlowChunk } from '../live/live-state.js';
+import type { ChannelBands } from '../live/channels.js';
+import type { LivePrediction, PredictionStatus, SeriesChunk, SlowChunk } from '../live/live-state.js';
+import type { ProfileRecord } from '../profiles/profile-record.js';
 
 /** Chart points of the field with one standard deviation of |B|, θ, φ from the calibration's covariance (null without one). */
 export interface HistorySeries extends SeriesChunk {
@@ -30,6 +32,60 @@ export interface HistoryPrediction {
   tofMajorAngleDeg: (number | null)[];
   collapseRatio: (number | null)[];
   camera: LivePrediction['camera'][];
+}
+
+/**
+ * Whether the live prediction described the gas (`PredictionStatus`: field strong enough to
+ * orient the dipoles, telemetry not stale), each change holding until the next. The first entry
+ * may be older than the window: the status in force at its start. Empty where nothing was kept.
+ */
+export interface HistoryPredictionStatus {
+  t: number[];
+  state: PredictionStatus['state'][];
+  /** |B| of the newest frame at the change, G. */
+  fieldG: (number | null)[];
+  /** The least field that orients the dipoles then, G. */
+  minFieldG: (number | null)[];
+  /** The sentence Live showed at the change; null while the prediction applies. */
+  reason: (string | null)[];
+  /** While stale: when the newest frame had arrived, Unix epoch ms (Live's stale age grows from it). */
+  lastFrameAtMs: (number | null)[];
+}
+
+/** A level set version (display bands, trip levels) in force from `t`. */
+export interface HistoryLevels {
+  /** When it came into force, Unix epoch ms. */
+  t: number;
+  version: number;
+  createdBy: string;
+  reason: string;
+  /** The gauges' bands of that version; the alarm marks are those of the alarm limits in force now. */
+  bands: ChannelBands;
+}
+
+/** A calibration version in force from `t` (its approval). */
+export interface HistoryCalibration {
+  t: number;
+  id: number;
+  version: number;
+  label: string;
+  approvedBy: string | null;
+}
+
+/** A sample profile version in force from `t` (its activation). */
+export interface HistoryProfile {
+  t: number;
+  profile: ProfileRecord;
+}
+
+/**
+ * The versions in force over the window, oldest first: the one in force at its start (which may
+ * have come into force long before), then each change inside it.
+ */
+export interface HistoryInForce {
+  levels: HistoryLevels[];
+  calibrations: HistoryCalibration[];
+  profiles: HistoryProfile[];
 }
 
 export type HistoryEventKind = 'alarm' | 'trip' | 'reset' | 'note' | 'shot' | 'run' | 'calibration' | 'profile' | 'steer';
@@ -70,7 +126,9 @@ export interface HistoryResponse {
   source: 'raw' | 'rollup';
   series: HistorySeries;
   slow: SlowChunk;
-  prediction: HistoryPrediction;
+  /** The predictions as stored with the telemetry, and whether they applied (kept by the prediction feed). */
+  prediction: HistoryPrediction & { status: HistoryPredictionStatus };
+  inForce: HistoryInForce;
   events: HistoryEvent[];
   /** The run, for `?run=ID`; null for a time window. */
   run: HistoryRun | null;

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import type { HistoryResponse } from '../../shared/history/history-api.js';
+import type { LevelSetVersion } from '../../shared/levels/level-set.js';
 import type { LiveState } from '../../shared/live/live-state.js';
 import { ARTIFACT_DIR } from '../support/browser.js';
 import { openPage, openSignedIn, useBrowserStack } from '../support/browser-stack.js';
@@ -119,5 +120,46 @@ describe('Replay page in Chromium', () => {
     await page.setViewportSize({ width: 1366, height: 768 });
     await page.waitForTimeout(500);
     await page.screenshot({ path: join(ARTIFACT_DIR, 'replay-1366.png'), fullPage: true });
+  });
+
+  it('greys the prediction where Live did and draws the level set and names the calibration in force at the clock', async () => {
+    const { stack } = env;
+    const lead = await signIn(stack.server.url, 'lead');
+    const call = (method: string, path: string, body?: unknown) =>
+      fetch(`${stack.server.url}${path}`, { method, headers: { 'content-type': 'application/json', authorization: `Bearer ${lead}` }, body: body === undefined ? undefined : JSON.stringify(body) });
+    const firstDataMs = await waitFor(async () => {
+      const live = (await (await call('GET', '/api/live')).json()) as LiveState;
+      return live.prediction && live.time ? Date.parse(live.time) : undefined;
+    }, 'the first prediction', 30_000);
+    await waitFor(() => (Date.now() > firstDataMs + 8000 ? true : undefined), 'eight seconds of telemetry', 30_000);
+    const before = (await (await call('GET', '/api/levels')).json()) as LevelSetVersion;
+    const withMinField = (minOrientingFieldG: number, reason: string) =>
+      call('PUT', '/api/levels', { levels: { ...before.levels, settings: { ...before.levels.settings, minOrientingFieldG } }, reason });
+    // For four seconds a lead asks for more field than the demo makes: Live greys the prediction.
+    expect((await withMinField(1000, 'Replay check: prediction greyed for a moment')).status).toBe(200);
+    const raisedMs = Date.now();
+    await waitFor(() => (Date.now() > raisedMs + 4000 ? true : undefined), 'four seconds of a greyed prediction', 10_000);
+    const note = await call('POST', '/api/logbook/entries', { text: 'Prediction greyed on purpose', at: new Date(raisedMs + 2000).toISOString() });
+    expect(note.status).toBe(201);
+    expect((await withMinField(before.levels.settings.minOrientingFieldG, 'Replay check: back to the usual least field')).status).toBe(200);
+
+    const page = await openSignedIn(env, 'viewer', { viewport: { width: 1366, height: 768 } });
+    await openPage(page, 'Replay');
+    await page.getByRole('button', { name: 'Last 10 minutes' }).click();
+    await page.getByRole('button', { name: /^Jump to Note .*Prediction greyed on purpose/ }).click();
+    const prediction = page.getByRole('region', { name: 'Prediction' });
+    await expect.poll(() => prediction.innerText()).toMatch(/Did not apply at this moment\.\s+\|B\| = \d+\.\d\d G is below 1000\.00 G, too weak to orient the dipoles/);
+    expect(await prediction.getAttribute('class')).toContain('stale');
+    const bar = page.getByRole('region', { name: 'Replay controls' });
+    expect(await bar.innerText()).toMatch(/In force at the replay clock: calibration v1 "Lindqvist Hall demo calibration" · sample profile "Lindqvist Hall 167Er, crossed trap" v1/);
+    expect(await page.getByRole('region', { name: 'Coils' }).innerText()).toContain(`level set v${before.version + 1}, in force at the replay clock`);
+    await page.waitForTimeout(500);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'replay-greyed-1366.png'), fullPage: true });
+
+    // 6 s earlier (1 % of the window), before the raise, it applied under the level set then in force.
+    await page.getByRole('slider', { name: 'Replay position' }).press('ArrowLeft');
+    await expect.poll(() => prediction.innerText()).not.toContain('Did not apply');
+    expect(await prediction.innerText()).toMatch(/β = K∥\/K⊥/);
+    expect(await page.getByRole('region', { name: 'Coils' }).innerText()).toContain(`level set v${before.version},`);
   });
 });

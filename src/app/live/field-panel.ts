@@ -43,6 +43,6 @@ export class FieldPanel {
   protected readonly calibrationText = computed(() => {
     const cal = this.calibration();
     if (cal) return `v${cal.version} · ${cal.label}`;
-    return this.replay() ? 'in force then: see the calibration marks on the timeline' : 'not known';
+    return this.replay() ? 'in force then: not recorded' : 'not known';
   });
 }

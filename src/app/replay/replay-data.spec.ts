@@ -58,6 +58,29 @@ describe('toReplayData and momentAt', () => {
     expect([coils.setpoints, coils.voltageV, coils.waterSupplyC, coils.waterReturnC]).toEqual([null, null, null, null]);
   });
 
+  it('says where the prediction did not apply, worded at the replay clock as Live worded it, and charts a gap there', () => {
+    expect(momentAt(data, FIXTURE_FROM + 10_000).predictionStatus).toMatchObject({ state: 'applies', reason: null });
+    expect(momentAt(data, FIXTURE_FROM + 55_000).predictionStatus).toEqual({
+      state: 'weak-field', fieldG: 0.3, minFieldG: 0.5, reason: '|B| = 0.30 G is below 0.50 G, too weak to orient the dipoles: the prediction does not apply.',
+    });
+    const stale = historyFixture();
+    stale.prediction.status = { t: [FIXTURE_FROM + 5000], state: ['stale'], fieldG: [12.5], minFieldG: [0.5], reason: ['No telemetry for 0.2 s: …'], lastFrameAtMs: [FIXTURE_FROM + 4800] };
+    const staleData = toReplayData(stale);
+    expect(momentAt(staleData, FIXTURE_FROM + 4000).predictionStatus).toBeNull(); // not recorded: nothing is claimed
+    expect(momentAt(staleData, FIXTURE_FROM + 10_000).predictionStatus?.reason).toMatch(/^No telemetry for 5\.2 s: the field now is unknown/);
+    const chart = (d: typeof data, ms: number) => d.predicted.valueAt(d.predicted.indexAtOrBefore(FIXTURE_FROM + ms), 0);
+    expect(chart(staleData, 4000)).toBeCloseTo(2, 9);
+    expect(chart(staleData, 10_000)).toBeNaN();
+  });
+
+  it('gives the level set, calibration and profile in force at the moment', () => {
+    const at = (ms: number) => momentAt(data, FIXTURE_FROM + ms);
+    expect([at(10_000).levels?.version, at(25_000).levels?.version]).toEqual([1, 2]);
+    expect(at(25_000).levels?.bands.bands['current.x'].normal).toEqual([-18, 18]);
+    expect([at(39_000).calibration?.version, at(41_000).calibration?.version]).toEqual([1, 2]);
+    expect(at(41_000).profile).toMatchObject({ id: 3, version: 2 });
+  });
+
   it('charts the predicted deformation as a held step in percent', () => {
     expect(data.predicted.length).toBeGreaterThan(100);
     const i = data.predicted.indexAtOrBefore(FIXTURE_FROM + 10_000);

@@ -1,12 +1,16 @@
 import type { FieldUncertainty } from '../../../shared/field/field-uncertainty';
 import type { FieldState } from '../../../shared/field/field-vector';
 import { directionFromAngles } from '../../../shared/field/field-vector';
-import type { LivePrediction, PerAxis } from '../../../shared/live/live-state';
+import type { LivePrediction, PerAxis, PredictionStatus } from '../../../shared/live/live-state';
+import { staleReason, weakFieldReason } from '../../../shared/live/prediction-status-text';
+import type { ProfileRecord } from '../../../shared/profiles/profile-record';
 import { RingBuffer } from '../charts/ring-buffer';
 import { FAST, SLOW, appendChunks } from '../charts/telemetry-history';
 import type { CoilReadings } from '../live/coil-strip';
 import { resampleHistory } from '../prediction/prediction-series';
-import type { HistoryEvent, HistoryPrediction, HistoryResponse, HistoryRun } from '../../../shared/history/history-api';
+import type {
+  HistoryCalibration, HistoryEvent, HistoryInForce, HistoryLevels, HistoryPrediction, HistoryPredictionStatus, HistoryResponse, HistoryRun,
+} from '../../../shared/history/history-api';
 
 /** Columns of `ReplayData.sigma`: one standard deviation of |B|, θ, φ (NaN without one). */
 const SIGMA = { magnitude: 0, theta: 1, phi: 2 } as const;
@@ -31,6 +35,10 @@ export interface ReplayData {
   /** Times of the recorded predictions (no columns); each stands until the next. */
   predictionTimes: RingBuffer;
   prediction: HistoryPrediction;
+  /** Whether the prediction applied, each change holding until the next. */
+  status: HistoryPredictionStatus;
+  /** Level set, calibration and profile versions in force over the window. */
+  inForce: HistoryInForce;
   /** (β − 1) and (TOF aspect − 1) in percent, `PREDICTED` columns, for the chart. */
   predicted: RingBuffer;
   events: HistoryEvent[];
@@ -46,6 +54,12 @@ export interface ReplayMoment {
   coils: CoilReadings;
   /** The prediction shown live at that moment, as recorded. */
   prediction: LivePrediction | null;
+  /** Whether it applied then, worded as Live worded it; null where that was not recorded. */
+  predictionStatus: PredictionStatus | null;
+  /** The versions in force at that moment (the levels: the window's first before any). */
+  levels: HistoryLevels | null;
+  calibration: HistoryCalibration | null;
+  profile: ProfileRecord | null;
 }
 
 /** Keeps a window's answer in typed arrays (one pass, no thinning). */
@@ -68,8 +82,50 @@ export function toReplayData(response: HistoryResponse): ReplayData {
   const toMs = Date.parse(response.to);
   const points = resampleHistory(prediction, Math.max(1, (toMs - fromMs) / PREDICTED_POINTS), toMs + 1);
   const predicted = new RingBuffer(Math.max(1, points.length), 2);
-  for (const point of points) predicted.push(point.t, point.values);
-  return { fromMs, toMs, resolutionMs: response.resolutionMs, fast, sigma, slow, predictionTimes, prediction, predicted, events: response.events, run: response.run };
+  const gap: [number, number] = [Number.NaN, Number.NaN];
+  // As on Live, the chart shows a gap where the prediction did not apply.
+  for (const point of points) predicted.push(point.t, applied(prediction.status, point.t) ? point.values : gap);
+  const { status } = prediction;
+  return { fromMs, toMs, resolutionMs: response.resolutionMs, fast, sigma, slow, predictionTimes, prediction, status, inForce: response.inForce, predicted, events: response.events, run: response.run };
+}
+
+/** Index of the last of ascending `times` at or before `timeMs`; −1 when none is. */
+function lastAtOrBefore(times: readonly number[], timeMs: number): number {
+  let lo = 0;
+  let hi = times.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (times[mid] <= timeMs) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo - 1;
+}
+
+/** False only where a recorded status says the prediction did not apply. */
+function applied(status: HistoryPredictionStatus, timeMs: number): boolean {
+  const i = lastAtOrBefore(status.t, timeMs);
+  return i < 0 || status.state[i] === 'applies';
+}
+
+/**
+ * The recorded status at `timeMs`, worded as Live worded it then: a stale stretch's age grows
+ * from the last frame's arrival, and a weak field names the recorded |B| at that moment
+ * (`fieldG`) while it lies below the least orienting field, else the |B| of the change.
+ */
+export function statusAt(status: HistoryPredictionStatus, timeMs: number, fieldG: number | null): PredictionStatus | null {
+  const i = lastAtOrBefore(status.t, timeMs);
+  if (i < 0) return null;
+  const state = status.state[i];
+  const minFieldG = status.minFieldG[i];
+  const lastFrameAtMs = status.lastFrameAtMs[i];
+  if (state === 'stale' && lastFrameAtMs !== null) return { state, fieldG: status.fieldG[i], minFieldG, reason: staleReason(timeMs - lastFrameAtMs) };
+  if (state === 'weak-field' && fieldG !== null && minFieldG !== null && fieldG < minFieldG) return { state, fieldG, minFieldG, reason: weakFieldReason(fieldG, minFieldG) };
+  return { state, fieldG: status.fieldG[i], minFieldG, reason: status.reason[i] };
+}
+
+/** The entry of `versions` (ascending `t`) in force at `timeMs`, or the first when `orFirst` and none was yet. */
+function inForceAt<T extends { t: number }>(versions: readonly T[], timeMs: number, orFirst = false): T | null {
+  return versions[lastAtOrBefore(versions.map((v) => v.t), timeMs)] ?? (orFirst ? versions[0] ?? null : null);
 }
 
 /**
@@ -102,6 +158,10 @@ export function momentAt(data: ReplayData, timeMs: number): ReplayMoment {
       waterReturnC: null,
     },
     prediction: predictionAt(data, data.predictionTimes.indexAtOrBefore(timeMs)),
+    predictionStatus: statusAt(data.status, timeMs, fastIndex < 0 ? null : orNull(fast(FAST.bMag))),
+    levels: inForceAt(data.inForce.levels, timeMs, true),
+    calibration: inForceAt(data.inForce.calibrations, timeMs),
+    profile: inForceAt(data.inForce.profiles, timeMs)?.profile ?? null,
   };
 }
 

@@ -28,9 +28,6 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
     host = fixture.nativeElement as HTMLElement;
     TestBed.tick();
     http.expectOne('/api/runs').flush({ runs: [RUN] });
-    // The coils' bands are not under test here.
-    http.expectOne('/api/channels').flush({ error: 'not in this test' }, { status: 503, statusText: 'Unavailable' });
-    http.expectOne('/api/profiles/active').flush({ error: 'not in this test' }, { status: 404, statusText: 'Not Found' });
     await fixture.whenStable();
   });
 
@@ -113,6 +110,23 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
     await fixture.whenStable();
     expect(panel()).toContain('Collapsed');
     expect(host.querySelector('tw-prediction-panel tw-camera-sketch')).toBeNull();
+  });
+
+  it('greys the prediction where it did not apply, saying why, and names the versions in force at the clock', async () => {
+    await loadFixtureWindow();
+    const panel = () => text('tw-prediction-panel');
+    expect(text('.in-force')).toContain('calibration v1 "Lindqvist Hall demo calibration" · sample profile "Lindqvist Hall 167Er, crossed trap" v2');
+    expect(text('tw-coil-strip')).toContain('level set v1');
+    for (const key of ['End', 'ArrowLeft', 'ArrowLeft', 'ArrowLeft', 'ArrowLeft', 'ArrowLeft']) {
+      host.querySelector<HTMLElement>('[role="slider"]')!.dispatchEvent(new KeyboardEvent('keydown', { key, bubbles: true }));
+      await fixture.whenStable();
+    }
+    expect(clockMs()).toBe(FIXTURE_FROM + 57_000);
+    expect(panel()).toContain('Did not apply at this moment. |B| = 0.30 G is below 0.50 G, too weak to orient the dipoles');
+    expect(host.querySelector('tw-prediction-panel')!.classList).toContain('stale');
+    expect(text('.in-force')).toContain('calibration v2 "Vector-probe fit of probe-night.csv"');
+    expect(fieldText()).toContain('Calibration v2 · Vector-probe fit of probe-night.csv');
+    expect(text('tw-coil-strip')).toContain('level set v2');
   });
 
   it('loads a run from the list by its id', async () => {

@@ -12,11 +12,9 @@ import { MatSelectModule } from '@angular/material/select';
 import { ActivatedRoute } from '@angular/router';
 import type { RunRecord } from '../../../shared/steering/steering-api';
 import { TelemetryCharts } from '../charts/telemetry-charts';
-import { ChannelBandsSource } from '../gauges/channel-bands';
 import { CoilStrip } from '../live/coil-strip';
 import { FieldPanel } from '../live/field-panel';
 import { PredictionPanel } from '../prediction/prediction-panel';
-import { ActiveProfile } from '../profiles/active-profile';
 import { formatLocalDateTime, formatLocalTime } from '../readout/format-quantity';
 import { SPEEDS, seekTargetForKey } from './playback-clock';
 import { holdMs } from './replay-data';
@@ -43,9 +41,6 @@ import { readWindow, windowBefore, type WindowForm } from './window-pick';
 })
 export class ReplayPage {
   protected readonly player = inject(ReplayPlayer);
-  protected readonly bands = inject(ChannelBandsSource);
-  /** Names the profile of a recorded prediction when it is the one active now (else its id is shown). */
-  protected readonly activeProfile = inject(ActiveProfile).record;
   protected readonly speeds = SPEEDS;
   protected readonly runs = httpResource<{ runs: RunRecord[] }>(() => '/api/runs');
   protected readonly runChoices = computed(() =>
@@ -74,6 +69,22 @@ export class ReplayPage {
   });
   protected readonly clockText = computed(() => replayClockText(this.player.positionMs()));
   protected readonly clockDate = computed(() => new Date(this.player.positionMs()).toLocaleDateString(undefined, { day: 'numeric', month: 'short', year: 'numeric' }));
+  /** "Calibration v2 "…" · sample profile "…" v3": what was in force at the replay clock. */
+  protected readonly inForceText = computed(() => {
+    const moment = this.moment();
+    if (!moment) return null;
+    const { calibration, profile } = moment;
+    return [
+      calibration ? `calibration v${calibration.version} "${calibration.label}"` : 'no calibration recorded',
+      profile ? `sample profile "${profile.name}" v${profile.version}` : 'no sample profile recorded',
+    ].join(' · ');
+  });
+  /** The coil strip's note: what history lacks, and which level set draws the bands. */
+  protected readonly coilNote = computed(() => {
+    const levels = this.moment()?.levels;
+    const drawn = levels ? `bands and trip levels of level set v${levels.version}, in force at the replay clock; alarm marks are the alarm limits in force now` : '';
+    return `Replay: setpoints, voltages and water temperatures are not kept in history (shown as no data); ${drawn}.`;
+  });
   /** Said in the panels when nothing was recorded close to the replayed moment. */
   protected readonly gapNote = computed(() => {
     const data = this.data();

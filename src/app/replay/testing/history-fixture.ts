@@ -1,4 +1,7 @@
-import type { HistoryEvent, HistoryResponse } from '../../../../shared/history/history-api';
+import type { HistoryEvent, HistoryLevels, HistoryResponse } from '../../../../shared/history/history-api';
+import { composeChannelBands } from '../../../../shared/levels/channel-bands';
+import type { LevelSet } from '../../../../shared/levels/level-set';
+import type { ProfileRecord } from '../../../../shared/profiles/profile-record';
 
 /** Start of the fixture window, Unix epoch ms. */
 export const FIXTURE_FROM = Date.parse('2026-12-01T21:00:00Z');
@@ -9,11 +12,33 @@ export function fixtureEvent(ms: number, kind: HistoryEvent['kind'], label: stri
   return { at: new Date(t).toISOString(), t, kind, id: `${kind}-${ms}`, label, actor: null, detail: null };
 }
 
+const DAY_MS = 86_400_000;
+
+/** Level set version `version` in force from `t`, its normal current band ±`normalA`. */
+function levels(version: number, t: number, normalA: number): HistoryLevels {
+  const band = (lo: number, hi: number) => ({ scale: [lo, hi] as [number, number], normal: [lo / 2, hi / 2] as [number, number] });
+  const set: LevelSet = {
+    bands: { current: { scale: [-25, 25], normal: [-normalA, normalA] }, voltage: band(-20, 20), temperature: band(0, 80), flow: band(0, 8), waterSupply: band(0, 40) },
+    trips: { currentHighA: 22, temperatureHighC: 70, flowLowLpm: 1 },
+    settings: { minOrientingFieldG: 0.5, maxTargetFieldG: 20, maxTargetCollapseRatio: 0.9 },
+    windingsR20Ohm: { x: 0.1, y: 0.1, z: 0.1 },
+  };
+  const createdAt = new Date(t).toISOString();
+  return { t, version, createdBy: 'lead@tiltwatch.example', reason: 'fixture', bands: composeChannelBands({ version, levels: set, createdBy: 'lead@tiltwatch.example', createdAt, reason: 'fixture' }, []) };
+}
+
+const PROFILE: ProfileRecord = {
+  id: 3, name: 'Lindqvist Hall 167Er, crossed trap', version: 2, active: true, createdBy: 'lead@tiltwatch.example', createdAt: new Date(FIXTURE_FROM - DAY_MS).toISOString(),
+  reason: 'fixture', profile: { name: 'Lindqvist Hall 167Er, crossed trap', species: '167Er', atomNumber: 5e4, trapHz: [350, 80, 400], trapToCoilEulerDeg: [15, 0, 0], tofMs: [20], imaging: 'y' },
+};
+
 /**
  * A 60 s window as `GET /api/history` answers it: fast samples every 100 ms with θ rising 1° per
- * second from 10° (σθ 0.2°), a 10 s gap from 30 s to 40 s, slow samples every second, a stable
- * prediction in force from before the window and a collapsed one from 20 s, and an alarm, a note
- * and a shot.
+ * second from 10° (σθ 0.2°) and |B| 12.5 G, dropping to 0.3 G from 52 s to 58 s, a 10 s gap from
+ * 30 s to 40 s, slow samples every second, a stable prediction in force from before the window
+ * and a collapsed one from 20 s that did not apply (field too weak) from 52 s to 58 s; level set
+ * v1 and calibration v1 in force from before the window, level set v2 from 20 s and calibration
+ * v2 from 40 s; an alarm, a note and a shot.
  */
 export function historyFixture(): HistoryResponse {
   const t: number[] = [];
@@ -35,7 +60,7 @@ export function historyFixture(): HistoryResponse {
     series: {
       t,
       currentA: { x: seconds.map((s) => 1 + s / 100), y: seconds.map(() => 2), z: seconds.map(() => 3) },
-      bMagG: seconds.map(() => 12.5),
+      bMagG: seconds.map((s) => (s >= 52 && s < 58 ? 0.3 : 12.5)),
       thetaDeg: seconds.map((s) => 10 + s),
       phiDeg: seconds.map(() => 45),
       sigmaBMagG: seconds.map(() => 0.004),
@@ -61,6 +86,22 @@ export function historyFixture(): HistoryResponse {
       tofMajorAngleDeg: [90, null],
       collapseRatio: [0.07, 1.12],
       camera: [camera, null],
+      status: {
+        t: [FIXTURE_FROM - DAY_MS, FIXTURE_FROM + 52_000, FIXTURE_FROM + 58_000],
+        state: ['applies', 'weak-field', 'applies'],
+        fieldG: [12.5, 0.3, 12.5],
+        minFieldG: [0.5, 0.5, 0.5],
+        reason: [null, '|B| = 0.30 G is below 0.50 G, too weak to orient the dipoles: the prediction does not apply.', null],
+        lastFrameAtMs: [null, null, null],
+      },
+    },
+    inForce: {
+      levels: [levels(1, FIXTURE_FROM - DAY_MS, 15), levels(2, FIXTURE_FROM + 20_000, 18)],
+      calibrations: [
+        { t: FIXTURE_FROM - DAY_MS, id: 1, version: 1, label: 'Lindqvist Hall demo calibration', approvedBy: 'system' },
+        { t: FIXTURE_FROM + 40_000, id: 4, version: 2, label: 'Vector-probe fit of probe-night.csv', approvedBy: 'lead@tiltwatch.example' },
+      ],
+      profiles: [{ t: FIXTURE_FROM - DAY_MS, profile: PROFILE }],
     },
     events: [
       fixtureEvent(15_000, 'alarm', 'Alarm temperature.x.H (medium): raise, normal → unacknowledged'),
