@@ -79,6 +79,26 @@ describe('Steer page in Chromium', () => {
     await page.close();
   });
 
+  it('shows a refusal in the sequence editor beside the input it names', async () => {
+    const page = await openSignedIn(env, 'lead');
+    await openPage(page, 'Sequences');
+    await page.getByRole('button', { name: 'New sequence' }).click();
+    await page.getByLabel('Name', { exact: true }).fill('A bell \u0007 scan');
+    await page.getByLabel('Reason (goes into the audit trail)').fill('browser test');
+    await page.getByRole('button', { name: 'Save as new version' }).click();
+    const name = page.locator('mat-form-field', { has: page.getByLabel('Name', { exact: true }) });
+    await expect.poll(() => name.innerText(), { timeout: 15_000 }).toMatch(/Name: must not contain control characters/);
+
+    // A step typed out of range is marked in its own row, naming the input.
+    const theta = page.getByLabel('θ of step 1');
+    await theta.fill('200');
+    expect(await theta.getAttribute('aria-invalid')).toBe('true');
+    expect(await page.locator(`#${await theta.getAttribute('aria-describedby')}`).innerText()).toMatch(/Step 1: θ must be from 0 to 180 °/);
+    expect(await page.getByRole('alert').count()).toBe(0);
+    await page.screenshot({ path: join(ARTIFACT_DIR, 'sequence-refused.png'), fullPage: true });
+    await page.close();
+  });
+
   it('shows the state read-only to a viewer', async () => {
     const page = await steerPage('viewer');
     await page.getByRole('region', { name: 'What steers the field' }).waitFor();

@@ -1,5 +1,5 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, output, signal } from '@angular/core';
-import { FormsModule } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, linkedSignal, output, signal } from '@angular/core';
+import { FormArray, FormControl, FormGroup, ReactiveFormsModule, type AbstractControl } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -7,9 +7,9 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { hasRole, type Role } from '../../../shared/auth/roles';
 import { HANDOVER_SECTIONS, type Handover, type HandoverNotes, type HandoverSection } from '../../../shared/handover/handover-api';
-import { errorText } from '../api/error-text';
+import { fieldMessage, placeServerError } from '../api/field-errors';
 import { formatLocalDateTime } from '../readout/format-quantity';
-import { HandoverClient } from './handover-client';
+import { HandoverClient, type HandoverEdit } from './handover-client';
 import { OpenItems } from './open-items';
 import { RecordSection } from './record-section';
 
@@ -31,7 +31,7 @@ export const SECTION_TITLES: Record<HandoverSection, string> = {
  */
 @Component({
   selector: 'tw-handover-sheet',
-  imports: [FormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, OpenItems, RecordSection],
+  imports: [MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, OpenItems, ReactiveFormsModule, RecordSection],
   templateUrl: './handover-sheet.html',
   styleUrl: './handover-sheet.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -46,11 +46,11 @@ export class HandoverSheet {
   protected readonly sections = HANDOVER_SECTIONS;
   protected readonly titles = SECTION_TITLES;
 
-  protected readonly summary = linkedSignal(() => this.handover().summary);
-  protected readonly notes = linkedSignal<HandoverNotes>(() => ({ ...this.handover().notes }));
-  protected readonly newItems = linkedSignal(() => this.handover().openItems.filter((i) => i.id === null).map((i) => i.text));
+  /** The outgoing person's inputs, filled from the handover as the server holds it. */
+  protected readonly form = computed(() => draftForm(this.handover()));
   protected readonly read = linkedSignal<Handover, ReadonlySet<HandoverSection>>({ source: this.handover, computation: () => new Set() });
-  protected readonly comment = signal('');
+  protected readonly comment = new FormControl('', { nonNullable: true });
+  protected readonly fieldMessage = fieldMessage;
   protected readonly busy = signal(false);
   protected readonly problem = signal<string | null>(null);
   protected readonly saved = signal(false);
@@ -68,13 +68,15 @@ export class HandoverSheet {
   protected readonly allRead = computed(() => this.sections.every((s) => this.read().has(s)));
   protected readonly unread = computed(() => this.sections.filter((s) => !this.read().has(s)).length);
 
-  protected local(iso: string): string {
-    return formatLocalDateTime(Date.parse(iso));
+  constructor() {
+    effect((onCleanup) => {
+      const changes = this.form().valueChanges.subscribe(() => this.saved.set(false));
+      onCleanup(() => changes.unsubscribe());
+    });
   }
 
-  protected setNote(section: HandoverSection, text: string): void {
-    this.notes.update((n) => ({ ...n, [section]: text }));
-    this.saved.set(false);
+  protected local(iso: string): string {
+    return formatLocalDateTime(Date.parse(iso));
   }
 
   protected toggleRead(section: HandoverSection, on: boolean): void {
@@ -86,48 +88,71 @@ export class HandoverSheet {
     });
   }
 
-  protected setNewItems(items: string[]): void {
-    this.newItems.set(items);
-    this.saved.set(false);
-  }
-
   protected save(): Promise<void> {
-    return this.run(async () => {
-      const handover = await this.client.save(this.handover().id, this.edit());
+    const edit = this.edit();
+    return this.run(edit.controls, async () => {
+      const handover = await this.client.save(this.handover().id, edit.body);
       this.saved.set(true);
       return handover;
     });
   }
 
   protected submit(): Promise<void> {
-    return this.run(async () => {
-      await this.client.save(this.handover().id, this.edit());
+    const edit = this.edit();
+    return this.run(edit.controls, async () => {
+      await this.client.save(this.handover().id, edit.body);
       return this.client.submit(this.handover().id);
     });
   }
 
   protected accept(): Promise<void> {
-    return this.run(() => this.client.accept(this.handover().id, this.comment()));
+    return this.run({ comment: this.comment }, () => this.client.accept(this.handover().id, this.comment.value));
   }
 
   protected async itemClosed(): Promise<void> {
-    await this.run(() => this.client.get(this.handover().id));
+    await this.run({}, () => this.client.get(this.handover().id));
   }
 
-  private edit() {
-    const notes = Object.fromEntries(Object.entries(this.notes()).filter(([, text]) => (text ?? '').trim() !== '')) as HandoverNotes;
-    return { summary: this.summary(), notes, openItems: this.newItems().filter((t) => t.trim() !== '').map((text) => ({ text })) };
+  /** The edit to send (blank notes and items left out) and, by their path in it, the inputs that typed it. */
+  private edit(): { body: HandoverEdit; controls: Record<string, AbstractControl> } {
+    const { summary, notes, openItems } = this.form().controls;
+    const noted = HANDOVER_SECTIONS.filter((s) => notes.controls[s].value.trim() !== '');
+    const items = openItems.controls.filter((c) => c.value.trim() !== '');
+    return {
+      body: {
+        summary: summary.value,
+        notes: Object.fromEntries(noted.map((s) => [s, notes.controls[s].value])) as HandoverNotes,
+        openItems: items.map((c) => ({ text: c.value })),
+      },
+      controls: {
+        summary,
+        ...Object.fromEntries(noted.map((s) => [`notes.${s}`, notes.controls[s]])),
+        ...Object.fromEntries(items.map((c, i) => [`openItems.${i}.text`, c])),
+      },
+    };
   }
 
-  private async run(action: () => Promise<Handover>): Promise<void> {
+  /** Runs `action`; a refusal stands beside the input of `controls` it names, else under the sheet. */
+  private async run(controls: Record<string, AbstractControl>, action: () => Promise<Handover>): Promise<void> {
     this.busy.set(true);
     this.problem.set(null);
     try {
       this.changed.emit(await action());
     } catch (error) {
-      this.problem.set(errorText(error));
+      this.problem.set(placeServerError(error, controls));
     } finally {
       this.busy.set(false);
     }
   }
+}
+
+const text = (value: string) => new FormControl(value, { nonNullable: true });
+
+/** The inputs of a draft: summary, a note per section, this shift's new open items. */
+function draftForm(h: Handover) {
+  return new FormGroup({
+    summary: text(h.summary),
+    notes: new FormGroup(Object.fromEntries(HANDOVER_SECTIONS.map((s) => [s, text(h.notes[s] ?? '')])) as Record<HandoverSection, FormControl<string>>),
+    openItems: new FormArray(h.openItems.filter((i) => i.id === null).map((i) => text(i.text))),
+  });
 }

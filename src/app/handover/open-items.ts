@@ -1,11 +1,11 @@
 import { ChangeDetectionStrategy, Component, inject, input, output, signal } from '@angular/core';
-import { FormsModule } from '@angular/forms';
+import { FormArray, FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import type { HandoverItem } from '../../../shared/handover/handover-api';
-import { errorText } from '../api/error-text';
+import { fieldMessage, placeServerError } from '../api/field-errors';
 import { formatLocalDateTime } from '../readout/format-quantity';
 import { HandoverClient } from './handover-client';
 
@@ -15,7 +15,7 @@ import { HandoverClient } from './handover-client';
  */
 @Component({
   selector: 'tw-open-items',
-  imports: [FormsModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule],
+  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, ReactiveFormsModule],
   template: `
     <ul class="items">
       @for (item of stored(); track item.id) {
@@ -25,17 +25,18 @@ import { HandoverClient } from './handover-client';
             <span class="text">{{ item.text }}</span>
             <span class="by">{{ item.carried ? 'carried forward' : 'new' }}, opened by {{ item.openedBy }}</span>
             @if (!item.closed && canClose() && closing() !== item.id) {
-              <button mat-button type="button" (click)="closing.set(item.id); note.set('')">Close…</button>
+              <button mat-button type="button" (click)="closing.set(item.id); closeForm.reset()">Close…</button>
             }
           </div>
           @if (item.closed; as c) {
             <p class="closed-note">Closed {{ local(c.at) }} by {{ c.by }}: “{{ c.note }}”</p>
           }
           @if (closing() === item.id) {
-            <form class="close-form" (ngSubmit)="close(item.id!)">
+            <form class="close-form" [formGroup]="closeForm" (ngSubmit)="close(item.id!)">
               <mat-form-field appearance="outline">
                 <mat-label>How was it settled?</mat-label>
-                <input matInput name="note" [ngModel]="note()" (ngModelChange)="note.set($event)" />
+                <input matInput formControlName="note" />
+                <mat-error>{{ fieldMessage(closeForm.controls.note) }}</mat-error>
               </mat-form-field>
               <button mat-button type="button" (click)="closing.set(null)">Cancel</button>
               <button mat-flat-button type="submit" [disabled]="busy()">Close item</button>
@@ -44,8 +45,8 @@ import { HandoverClient } from './handover-client';
         </li>
       }
       @if (!editable()) {
-        @for (text of newItems(); track $index) {
-          <li><div class="line"><mat-icon aria-hidden="true" inline>radio_button_unchecked</mat-icon><span class="text">{{ text }}</span><span class="by">new</span></div></li>
+        @for (item of newItems().controls; track $index) {
+          <li><div class="line"><mat-icon aria-hidden="true" inline>radio_button_unchecked</mat-icon><span class="text">{{ item.value }}</span><span class="by">new</span></div></li>
         }
       }
       @if (stored().length === 0 && newItems().length === 0) {
@@ -57,16 +58,17 @@ import { HandoverClient } from './handover-client';
     }
     @if (editable()) {
       <div class="new">
-        @for (text of newItems(); track $index) {
+        @for (item of newItems().controls; track item) {
           <div class="new-row">
             <mat-form-field appearance="outline">
               <mat-label>New open item</mat-label>
-              <input matInput [ngModel]="text" (ngModelChange)="editItem($index, $event)" [name]="'item' + $index" />
+              <input matInput [formControl]="item" />
+              <mat-error>{{ fieldMessage(item) }}</mat-error>
             </mat-form-field>
-            <button mat-icon-button type="button" (click)="removeItem($index)" aria-label="Remove this item"><mat-icon>delete</mat-icon></button>
+            <button mat-icon-button type="button" (click)="newItems().removeAt($index)" aria-label="Remove this item"><mat-icon>delete</mat-icon></button>
           </div>
         }
-        <button mat-stroked-button type="button" (click)="newItemsChange.emit([...newItems(), ''])"><mat-icon aria-hidden="true">add</mat-icon> Add an open item</button>
+        <button mat-stroked-button type="button" (click)="addItem()"><mat-icon aria-hidden="true">add</mat-icon> Add an open item</button>
       </div>
     }
   `,
@@ -123,14 +125,14 @@ export class OpenItems {
   readonly items = input.required<HandoverItem[]>();
   readonly editable = input(false);
   readonly canClose = input(false);
-  /** Texts of this shift's new items (not numbered until submitted). */
-  readonly newItems = input<string[]>([]);
-  readonly newItemsChange = output<string[]>();
+  /** This shift's new items (not numbered until submitted), edited here while `editable`. */
+  readonly newItems = input.required<FormArray<FormControl<string>>>();
   readonly closed = output<void>();
 
   private readonly client = inject(HandoverClient);
   protected readonly closing = signal<number | null>(null);
-  protected readonly note = signal('');
+  protected readonly closeForm = new FormGroup({ note: new FormControl('', { nonNullable: true }) });
+  protected readonly fieldMessage = fieldMessage;
   protected readonly busy = signal(false);
   protected readonly problem = signal<string | null>(null);
 
@@ -142,23 +144,19 @@ export class OpenItems {
     return formatLocalDateTime(Date.parse(iso));
   }
 
-  protected editItem(index: number, text: string): void {
-    this.newItemsChange.emit(this.newItems().map((t, i) => (i === index ? text : t)));
-  }
-
-  protected removeItem(index: number): void {
-    this.newItemsChange.emit(this.newItems().filter((_, i) => i !== index));
+  protected addItem(): void {
+    this.newItems().push(new FormControl('', { nonNullable: true }));
   }
 
   protected async close(id: number): Promise<void> {
     this.busy.set(true);
     try {
-      await this.client.closeItem(id, this.note());
-      this.closing.set(null);
       this.problem.set(null);
+      await this.client.closeItem(id, this.closeForm.controls.note.value);
+      this.closing.set(null);
       this.closed.emit();
     } catch (error) {
-      this.problem.set(errorText(error));
+      this.problem.set(placeServerError(error, this.closeForm.controls));
     } finally {
       this.busy.set(false);
     }

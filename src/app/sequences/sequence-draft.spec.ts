@@ -27,7 +27,12 @@ describe('sequence editor rows', () => {
       { ...blankStep('shot'), label: '  ' },
     ]);
     expect(steps).toBeNull();
-    expect(problems).toEqual(['θ must be from 0 to 180 °', 'φ must be from 0 to below 360 °', 'Duration must be a number in s', 'Label must not be empty']);
+    expect(problems).toEqual([
+      { field: 'thetaDeg', message: 'θ must be from 0 to 180 °' },
+      { field: 'phiDeg', message: 'φ must be from 0 to below 360 °' },
+      { field: 'durationS', message: 'Duration must be a number in s' },
+      { field: 'label', message: 'Label must not be empty' },
+    ]);
     expect(checkDrafts([]).steps).toBeNull();
   });
 });

@@ -1,4 +1,6 @@
 import type { SequenceStep } from '../../../shared/steering/steering-api';
+import { MAX_RAMP_MS, MAX_TARGET_GAUSS } from '../../../shared/steering/target';
+import { numberInRange } from '../steering/steer-draft';
 
 /** One step row as typed in the editor (times in seconds). */
 export interface StepDraft {
@@ -21,33 +23,36 @@ export function draftOfStep(step: SequenceStep): StepDraft {
   return { ...base, label: step.label };
 }
 
-/** The step of a row, or what is wrong with it (as the editor labels the fields). */
-export function stepOfDraft(d: StepDraft): { step: SequenceStep } | { problem: string } {
-  const num = (text: string, label: string, min: number, max: number, unit: string, maxExclusive = false): number | string => {
-    const v = Number(text.trim().replace(',', '.'));
-    if (text.trim() === '' || !Number.isFinite(v)) return `${label} must be a number in ${unit}`;
-    if (v < min || (maxExclusive ? v >= max : v > max)) return `${label} must be from ${min} to ${maxExclusive ? 'below ' : ''}${max} ${unit}`;
-    return v;
-  };
+/** What is wrong with a row: the input to fix and why, named as the table labels it. */
+export interface RowProblem {
+  field: keyof StepDraft;
+  message: string;
+}
+
+/** The step of a row, or what is wrong with it. */
+export function stepOfDraft(d: StepDraft): { step: SequenceStep } | { problem: RowProblem } {
   if (d.kind === 'shot') {
     const label = d.label.trim();
-    if (!label) return { problem: 'Label must not be empty' };
-    if (label.length > 100) return { problem: 'Label must be at most 100 characters' };
+    if (!label) return { problem: { field: 'label', message: 'Label must not be empty' } };
+    if (label.length > 100) return { problem: { field: 'label', message: 'Label must be at most 100 characters' } };
     return { step: { kind: 'shot', label } };
   }
-  const duration = num(d.durationS, 'Duration', d.kind === 'hold' ? 0.001 : 0, 3600, 's');
-  if (typeof duration === 'string') return { problem: duration };
+  const duration = numberInRange(d.durationS, 'Duration', d.kind === 'hold' ? 0.001 : 0, MAX_RAMP_MS / 1000, 's');
+  if (typeof duration === 'string') return { problem: { field: 'durationS', message: duration } };
   const durationMs = Math.round(duration * 1000);
   if (d.kind === 'hold') return { step: { kind: 'hold', durationMs } };
-  const magnitudeG = num(d.magnitudeG, '|B|', 0, 1000, 'G');
-  const thetaDeg = num(d.thetaDeg, 'θ', 0, 180, '°');
-  const phiDeg = num(d.phiDeg, 'φ', 0, 360, '°', true);
-  for (const v of [magnitudeG, thetaDeg, phiDeg]) if (typeof v === 'string') return { problem: v };
-  return { step: { kind: 'ramp', magnitudeG: magnitudeG as number, thetaDeg: thetaDeg as number, phiDeg: phiDeg as number, durationMs } };
+  const values = {
+    magnitudeG: numberInRange(d.magnitudeG, '|B|', 0, MAX_TARGET_GAUSS, 'G'),
+    thetaDeg: numberInRange(d.thetaDeg, 'θ', 0, 180, '°'),
+    phiDeg: numberInRange(d.phiDeg, 'φ', 0, 360, '°', true),
+  };
+  for (const [field, v] of Object.entries(values)) if (typeof v === 'string') return { problem: { field: field as keyof StepDraft, message: v } };
+  const { magnitudeG, thetaDeg, phiDeg } = values as Record<keyof typeof values, number>;
+  return { step: { kind: 'ramp', magnitudeG, thetaDeg, phiDeg, durationMs } };
 }
 
 /** Every row checked: the steps when all are valid, and the problem of each row (null when fine). */
-export function checkDrafts(rows: readonly StepDraft[]): { steps: SequenceStep[] | null; problems: (string | null)[] } {
+export function checkDrafts(rows: readonly StepDraft[]): { steps: SequenceStep[] | null; problems: (RowProblem | null)[] } {
   const results = rows.map(stepOfDraft);
   const problems = results.map((r) => ('problem' in r ? r.problem : null));
   const ok = rows.length > 0 && problems.every((p) => p === null);

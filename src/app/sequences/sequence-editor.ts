@@ -1,17 +1,35 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal, type OnInit } from '@angular/core';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { FormArray, FormControl, FormGroup, ReactiveFormsModule, type AbstractControl } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import type { SequenceRecord, SequenceStep } from '../../../shared/steering/steering-api';
-import { errorText } from '../api/error-text';
+import { map } from 'rxjs';
+import { fieldMessage, markFields, placeServerError } from '../api/field-errors';
 import { formatQuantity } from '../readout/format-quantity';
 import { PathMap } from '../steering/path-map';
 import { PreflightTable } from '../steering/preflight-table';
 import { mapPath, SteeringRequests, type SequencePreview } from '../steering/steering-requests';
 import { AspectChart } from './aspect-chart';
-import { blankStep, checkDrafts, draftOfStep, totalDurationMs, type StepDraft } from './sequence-draft';
+import { blankStep, checkDrafts, draftOfStep, totalDurationMs, type RowProblem, type StepDraft } from './sequence-draft';
+
+/** The inputs of one step row. */
+type StepRow = FormGroup<{ [K in keyof StepDraft]: FormControl<StepDraft[K]> }>;
+
+function stepRow(d: StepDraft): StepRow {
+  const text = (value: string) => new FormControl(value, { nonNullable: true });
+  return new FormGroup({
+    kind: new FormControl(d.kind, { nonNullable: true }),
+    magnitudeG: text(d.magnitudeG),
+    thetaDeg: text(d.thetaDeg),
+    phiDeg: text(d.phiDeg),
+    durationS: text(d.durationS),
+    label: text(d.label),
+  });
+}
 
 /**
  * Editor of a sequence version (lead): a table of steps checked as they are typed, the total
@@ -20,7 +38,7 @@ import { blankStep, checkDrafts, draftOfStep, totalDurationMs, type StepDraft } 
  */
 @Component({
   selector: 'tw-sequence-editor',
-  imports: [AspectChart, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, PathMap, PreflightTable],
+  imports: [AspectChart, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, PathMap, PreflightTable, ReactiveFormsModule],
   templateUrl: './sequence-editor.html',
   styleUrl: './sequence-editor.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -33,9 +51,14 @@ export class SequenceEditor implements OnInit {
   readonly saved = output<{ id: number; version: number }>();
   readonly closed = output<void>();
 
-  protected readonly name = signal('');
-  protected readonly reason = signal('');
-  protected readonly rows = signal<StepDraft[]>([]);
+  protected readonly form = new FormGroup({
+    name: new FormControl('', { nonNullable: true }),
+    reason: new FormControl('', { nonNullable: true }),
+    steps: new FormArray<StepRow>([]),
+  });
+  protected readonly steps = this.form.controls.steps;
+  private readonly rows = toSignal(this.steps.valueChanges.pipe(map((): StepDraft[] => this.steps.getRawValue())), { initialValue: [] });
+  protected readonly fieldMessage = fieldMessage;
   protected readonly preview = signal<SequencePreview | null>(null);
   protected readonly previewing = signal(false);
   protected readonly saving = signal(false);
@@ -48,41 +71,47 @@ export class SequenceEditor implements OnInit {
   });
   protected readonly mapPathOf = computed(() => mapPath(this.preview()?.path ?? []));
 
-  ngOnInit(): void {
-    const start = this.start();
-    this.name.set(start?.name ?? '');
-    this.rows.set(start ? start.steps.map(draftOfStep) : [blankStep('ramp'), blankStep('hold'), blankStep('shot')]);
+  constructor() {
+    // A changed step makes the shown preview belong to other steps.
+    this.steps.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.preview.set(null));
   }
 
-  protected editRow(index: number, field: keyof StepDraft, value: string): void {
-    this.rows.update((rows) => rows.map((r, i) => (i === index ? { ...r, [field]: value } : r)));
-    this.preview.set(null);
+  ngOnInit(): void {
+    const start = this.start();
+    this.form.controls.name.setValue(start?.name ?? '');
+    for (const d of start ? start.steps.map(draftOfStep) : [blankStep('ramp'), blankStep('hold'), blankStep('shot')]) this.steps.push(stepRow(d));
+  }
+
+  /** What to fix in row `index` and the input it concerns: the check as typed, else the server's refusal. */
+  protected rowProblem(index: number, row: StepRow): RowProblem | null {
+    const typed = this.checked().problems[index];
+    if (typed) return { field: typed.field, message: `Step ${index + 1}: ${typed.message}` };
+    for (const [field, control] of Object.entries(row.controls)) {
+      const message = fieldMessage(control);
+      if (message) return { field: field as keyof StepDraft, message };
+    }
+    return null;
   }
 
   protected setKind(index: number, kind: SequenceStep['kind']): void {
-    this.rows.update((rows) => rows.map((r, i) => (i === index ? { ...blankStep(kind), ...(kind === r.kind ? r : {}) } : r)));
-    this.preview.set(null);
+    const row = this.steps.at(index);
+    if (row.controls.kind.value !== kind) row.setValue(blankStep(kind));
   }
 
   protected add(kind: SequenceStep['kind']): void {
-    this.rows.update((rows) => [...rows, blankStep(kind)]);
-    this.preview.set(null);
+    this.steps.push(stepRow(blankStep(kind)));
   }
 
   protected remove(index: number): void {
-    this.rows.update((rows) => rows.filter((_, i) => i !== index));
-    this.preview.set(null);
+    this.steps.removeAt(index);
   }
 
   protected move(index: number, by: -1 | 1): void {
-    this.rows.update((rows) => {
-      const next = [...rows];
-      const to = index + by;
-      if (to < 0 || to >= next.length) return rows;
-      [next[index], next[to]] = [next[to], next[index]];
-      return next;
-    });
-    this.preview.set(null);
+    const to = index + by;
+    if (to < 0 || to >= this.steps.length) return;
+    const row = this.steps.at(index);
+    this.steps.removeAt(index, { emitEvent: false });
+    this.steps.insert(to, row);
   }
 
   protected async runPreview(): Promise<void> {
@@ -96,7 +125,7 @@ export class SequenceEditor implements OnInit {
     try {
       this.preview.set(await this.requests.previewSequence(steps));
     } catch (err) {
-      this.problem.set(errorText(err));
+      this.problem.set(placeServerError(err, this.requestControls()));
     } finally {
       this.previewing.set(false);
     }
@@ -108,21 +137,28 @@ export class SequenceEditor implements OnInit {
       this.problem.set('Fix the steps marked in the table first.');
       return;
     }
-    if (!this.name().trim()) {
-      this.problem.set('Name must not be empty.');
-      return;
-    }
-    if (!this.reason().trim()) {
-      this.problem.set('Reason must say why (it goes into the audit trail).');
-      return;
-    }
+    const name = this.form.controls.name.value.trim();
+    const reason = this.form.controls.reason.value.trim();
+    const missing = { name: name ? undefined : 'Name must not be empty', reason: reason ? undefined : 'Reason (goes into the audit trail) must say why' };
+    this.problem.set(null);
+    markFields(this.form.controls, missing);
+    if (!name || !reason) return;
     this.saving.set(true);
     try {
-      this.saved.emit(await this.requests.saveSequence(this.name().trim(), steps, this.reason().trim()));
+      this.saved.emit(await this.requests.saveSequence(name, steps, reason));
     } catch (err) {
-      this.problem.set(errorText(err));
+      this.problem.set(placeServerError(err, this.requestControls()));
     } finally {
       this.saving.set(false);
     }
+  }
+
+  /** The inputs by their path in the request (`steps.2.thetaDeg`; durations go as `durationMs`). */
+  private requestControls(): Record<string, AbstractControl> {
+    const { name, reason } = this.form.controls;
+    const cells = this.steps.controls.flatMap((row, i) =>
+      Object.entries({ ...row.controls, durationMs: row.controls.durationS }).map(([key, control]): [string, AbstractControl] => [`steps.${i}.${key}`, control]),
+    );
+    return { name, reason, ...Object.fromEntries(cells) };
   }
 }
