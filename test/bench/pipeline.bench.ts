@@ -12,7 +12,7 @@
  * what it holds is counted per level, with its size per demo day. The 1-minute load average is
  * printed beside each level: on a shared machine it says how much the figures can be trusted.
  *
- * BENCH_RATES (default 1,10,20,30,40,50,60,80) and BENCH_LEVEL_SECONDS choose the levels, e.g.
+ * BENCH_RATES (default 1,10,20,30,40,50,60,80,100) and BENCH_LEVEL_SECONDS choose the levels, e.g.
  * `BENCH_RATES=1,20 BENCH_LEVEL_SECONDS=5 npm run bench` for a quick look.
  */
 import { once } from 'node:events';
@@ -25,7 +25,7 @@ import { frameLatencies, type Published, type Viewed } from './pipeline/latency.
 import { cpuSeconds, firstLine, startChild, stopChild } from './pipeline/processes.js';
 import { countStored, type SeqRanges } from './pipeline/stored.js';
 
-const RATES = (process.env.BENCH_RATES ?? '1,10,20,30,40,50,60,80').split(',').map(Number);
+const RATES = (process.env.BENCH_RATES ?? '1,10,20,30,40,50,60,80,100').split(',').map(Number);
 const LEVEL_SECONDS = Number(process.env.BENCH_LEVEL_SECONDS ?? 30);
 /**
  * After the levels, this rate for LEVEL_SECONDS fills the database with enough data (10 min of
@@ -135,7 +135,9 @@ export async function benchPipeline(): Promise<Figure[]> {
       name: 'highest rate that passes',
       value: passed.at(-1) ?? 0,
       unit: '× demo rate',
-      note: `target ≥ 20×, stretch 50×; p99 < ${P99_TARGET_MS} ms, nothing lost, ${LEVEL_SECONDS} s per level; tried ${levels.map((l) => `${l.rate}×`).join(', ')}`,
+      note: `target ≥ 20×, stretch 50×; p99 < ${P99_TARGET_MS} ms, nothing lost, ${LEVEL_SECONDS} s per level; tried ${levels.map((l) => `${l.rate}×`).join(', ')}${
+        levels.length === RATES.length && passed.length === levels.length ? ' — every level passed, so the limit lies higher than this run looked' : ''
+      }`,
     },
     {
       name: 'storage work on the event loop, longest',
