@@ -1,4 +1,4 @@
-import { and, asc, count, eq, ne, sql } from 'drizzle-orm';
+import { and, asc, eq, ne, sql } from 'drizzle-orm';
 import type { Role } from '../../shared/auth/roles.js';
 import type { UserAccount } from '../../shared/auth/user-api.js';
 import { appendAudit } from '../audit/audit-log.js';
@@ -49,7 +49,7 @@ export class UserAccounts {
   constructor(
     private readonly db: Db,
     private readonly events: AccountEvents = new AccountEvents(),
-    /** Whether the demo accounts are in use (`--demo`); otherwise they are not listed. */
+    /** Whether the demo accounts are in use (`--demo`); otherwise they are not listed and no demo admin counts as the remaining admin. */
     private readonly demoAccounts = true,
   ) {}
 
@@ -79,11 +79,14 @@ export class UserAccounts {
       if (role === row.role && disabled === row.disabled) return { user: view(row), changed: false };
       const stillAdmin = role === 'admin' && !disabled;
       if (row.role === 'admin' && !row.disabled && !stillAdmin) {
-        const [{ n }] = await tx
-          .select({ n: count() })
+        // A demo admin counts only while the demo accounts are in use: without `--demo` it cannot sign in.
+        const others = await tx
+          .select({ email: users.email })
           .from(users)
           .where(and(eq(users.role, 'admin'), eq(users.disabled, false), ne(users.id, id)));
-        if (n === 0) throw new AccountError('conflict', `${row.email} is the only enabled admin; make another account admin first`);
+        if (!others.some((a) => this.demoAccounts || !isDemoAccount(a.email))) {
+          throw new AccountError('conflict', `${row.email} is the only enabled admin${others.length > 0 ? ' (demo accounts do not count: they sign in only with --demo)' : ''}; make another account admin first`);
+        }
       }
       const [updated] = await tx
         .update(users)

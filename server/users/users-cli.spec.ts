@@ -6,7 +6,7 @@ import { auditLog } from '../db/schema.js';
 import { projectRoot } from '../project-root.js';
 import type { RunningServer } from '../server.js';
 import { testDatabaseUrl, usesPostgres } from '../testing/external-services.js';
-import { makeDataDir, removeDataDir, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
+import { callApi, makeDataDir, removeDataDir, startTestServer, TEST_PASSWORD } from '../testing/test-server.js';
 
 interface Run {
   code: number | null;
@@ -204,6 +204,30 @@ describe('accounts without --demo and the users command', { timeout: 120_000 }, 
       ]);
     } finally {
       await database.close();
+    }
+  });
+  it('never counts a demo admin as the remaining admin without --demo, on the command line or the Users page', async () => {
+    const folder = await makeDataDir();
+    try {
+      await (await startTestServer(folder, { demoAccounts: true })).close();
+      const email = 'site.admin@lindqvist-hall.example';
+      expect((await users(folder, ['add', email, '--role', 'admin'], 'site admin pass phrase\n')).code).toBe(0);
+      const refused = await users(folder, ['disable', email, '--reason', 'leaving'], '');
+      expect(refused.code).toBe(1);
+      expect(refused.stderr).toMatch(/is the only enabled admin \(demo accounts do not count: they sign in only with --demo\)/);
+
+      const server = await startTestServer(folder, { demoAccounts: false });
+      try {
+        const token = ((await login(server, email, 'site admin pass phrase')).body as { token: string }).token;
+        const listed = await callApi<{ users: { id: number; email: string }[] }>(server, token, 'GET', '/api/admin/users');
+        const id = listed.body.users.find((u) => u.email === email)!.id;
+        const res = await callApi(server, token, 'PATCH', `/api/admin/users/${id}`, { role: 'lead', reason: 'leaving' });
+        expect(res.status).toBe(409);
+      } finally {
+        await server.close();
+      }
+    } finally {
+      removeDataDir(folder);
     }
   });
 });

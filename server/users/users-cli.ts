@@ -91,7 +91,8 @@ async function changeAccount(db: Db, command: Extract<Command, { reason: string 
   const account = await findUserByEmail(db, command.email);
   if (!account) throw new AccountError('not-found', `no account for ${command.email}; see the accounts with: npm run users -- list`);
   const change: AccountChange = command.command === 'set-role' ? { role: command.role } : { disabled: command.command === 'disable' };
-  const { user, changed } = await new UserAccounts(db).update(account.id, change, actor, command.reason).catch((error: unknown) => {
+  // The command line cannot know whether the server runs with --demo: a demo admin never counts as the remaining admin here.
+  const { user, changed } = await new UserAccounts(db, undefined, false).update(account.id, change, actor, command.reason).catch((error: unknown) => {
     // The one refusal of an existing account: it is the last enabled admin.
     if (!(error instanceof AccountError && error.kind === 'conflict')) throw error;
     throw new AccountError('conflict', `${error.message} (npm run users -- set-role OTHER-EMAIL admin --reason TEXT, or add one with npm run users -- add EMAIL --role admin); nothing was changed`);
