@@ -43,6 +43,15 @@ describe('Steer page in Chromium', () => {
     await expect.poll(() => reason.innerText(), { timeout: 15_000 }).toMatch(/Reason \(goes into the audit trail\): must not contain control characters/);
     expect(await page.getByRole('alert').count()).toBe(0);
     expect(await form.innerText()).not.toMatch(/thetaDeg|rampMs|"reason"/);
+    // The message fades in; the picture is taken once it is fully shown.
+    const opacity = () =>
+      reason.locator('mat-error').evaluate((el) => {
+        const view = el.ownerDocument.defaultView!;
+        let shown = 1;
+        for (let node: typeof el | null = el; node; node = node.parentElement) shown *= Number(view.getComputedStyle(node).opacity);
+        return shown;
+      });
+    await expect.poll(opacity).toBe(1);
     await page.screenshot({ path: join(ARTIFACT_DIR, 'steer-refused.png'), fullPage: true });
 
     await form.getByLabel('Reason (goes into the audit trail)').fill('end-to-end check');
@@ -108,3 +117,4 @@ describe('Steer page in Chromium', () => {
     await page.close();
   });
 });
+
