@@ -1,6 +1,6 @@
 import { eq } from 'drizzle-orm';
 import type { Response } from 'express';
-import type { HistoryResponse, HistoryRun } from '../../shared/history/history-api.js';
+import type { HistoryPredictionStatus, HistoryResponse, HistoryRun } from '../../shared/history/history-api.js';
 import type { ServerConfig } from '../config.js';
 import type { Db } from '../db/database.js';
 import { runs, sequences } from '../db/schema.js';
@@ -46,7 +46,10 @@ export function historyHandlers(deps: HistoryDeps): Pick<RouteHandlers, 'history
       await unavailableAs503(async () => {
         if (toMs > now() - RECENT_MS) await Promise.all([deps.writer.flush(), deps.statusLog.flush()]);
       });
-      if (request.format === 'csv') return streamCsv(res, sources, plan, run);
+      if (request.format === 'csv') {
+        const status = await unavailableAs503(() => predictionStatusOver(deps.db, fromMs, toMs));
+        return streamCsv(res, sources, plan, run, status);
+      }
       const body = await unavailableAs503(async (): Promise<HistoryResponse> => {
         // The main database (events, status, versions) and the storage worker (the rest) answer side by side.
         const [window, prediction, status, inForce, events] = await Promise.all([
@@ -94,13 +97,13 @@ async function resolveTarget(db: Db, target: HistoryTarget, nowMs: number): Prom
   };
 }
 
-async function streamCsv(res: Response, sources: HistorySources, plan: HistoryPlan, run: HistoryRun | null): Promise<void> {
+async function streamCsv(res: Response, sources: HistorySources, plan: HistoryPlan, run: HistoryRun | null, status: HistoryPredictionStatus): Promise<void> {
   const stamp = (ms: number) => new Date(ms).toISOString().replace(/[-:]/g, '').replace(/\.\d+Z$/, 'Z');
   const name = run ? `tiltwatch-run-${run.id}.csv` : `tiltwatch-history-${stamp(plan.fromMs)}-${stamp(plan.toMs)}.csv`;
   res.attachment(name);
   res.type('text/csv; charset=utf-8');
   try {
-    await writeHistoryCsv(res, sources, plan);
+    await writeHistoryCsv(res, sources, plan, status);
   } catch (error) {
     // The header is out already: end the download broken rather than pretend it is complete.
     res.destroy(error as Error);

@@ -148,6 +148,14 @@ describe('history: stored window of telemetry, predictions and records', () => {
     });
     expect(rows.at(-1)!.coil_temperature_x_degC).not.toBe('');
     expect(rows.at(-1)!.predicted_tof_aspect_1).not.toBe('');
+    // Whether the prediction applied: the state in force at each row, as the JSON answer has it.
+    const { status: changes } = json.prediction;
+    expect(changes.t.length).toBeGreaterThan(0);
+    rows.forEach((row) => {
+      const k = changes.t.findLastIndex((t) => t <= Number(row.time_unix_ms));
+      expect(row.prediction_state).toBe(k < 0 ? '' : changes.state[k]);
+      expect(row.prediction_not_applying_because).toBe(k < 0 ? '' : (changes.reason[k] ?? ''));
+    });
   });
 
   it("gives a run's window with its shots as events", async () => {
