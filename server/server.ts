@@ -295,7 +295,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
         ...userHandlers({ db, accounts, throttle, security }),
         ...liveHandlers(live),
         ...seriesHandlers(calibrations, writer),
-        ...historyHandlers({ db, writer, statusLog, calibrations, levels, alarmLimits: () => supervision.book.limits(), retention: config.retention }),
+        ...historyHandlers({ db, writer, statusLog, calibrations, levels, retention: config.retention }),
         ...calibrationHandlers(db, async () => void (await calibrations.reload())),
         ...profileHandlers(db, () => profiles.reload()),
         ...predictionHandlers(history),

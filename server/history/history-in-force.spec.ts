@@ -35,13 +35,13 @@ describe('historyInForce: the versions in force over a history window', () => {
     await pause();
     const toMs = Date.now();
 
-    const sources = { db, levels, alarmLimits: () => [{ channel: 'current.x', level: 'H' as const, limit: 18 }] };
+    const sources = { db, levels };
     const over = await historyInForce(sources, fromMs, toMs);
     expect(over.levels.map((l) => l.version)).toEqual([1, 2]);
     expect(over.levels[0].t).toBeLessThan(fromMs);
     expect(over.levels[1].t).toBeGreaterThanOrEqual(fromMs);
-    expect(over.levels[0].bands.bands['current.x']).toMatchObject({ normal: [-15, 15], high: 18 });
-    expect(over.levels[1].bands.bands['current.x']).toMatchObject({ scale: [-30, 30], normal: [-20, 20], high: 18 });
+    expect(over.levels[0].bands.bands['current.x']).toMatchObject({ normal: [-15, 15], high: null });
+    expect(over.levels[1].bands.bands['current.x']).toMatchObject({ scale: [-30, 30], normal: [-20, 20], high: null });
     expect(over.levels[1]).toMatchObject({ createdBy: LEAD, reason: 'wider current band after the supply upgrade' });
     expect(over.calibrations.map((c) => [c.version, c.label, c.approvedBy])).toEqual([
       [1, 'Lindqvist Hall demo calibration', 'system'],
@@ -52,6 +52,8 @@ describe('historyInForce: the versions in force over a history window', () => {
       [DEMO_PROFILE.name, 1, 5e4],
       [DEMO_PROFILE.name, 2, 8e4],
     ]);
+
+    expect(over.alarmLimits.map((a) => [a.t, a.limits.length])).toEqual([[fromMs, 0]]); // none seeded here, none edited
 
     // After the changes only the versions then in force remain.
     const later = await historyInForce(sources, toMs, toMs + 1000);

@@ -2,6 +2,7 @@
  * Body of `GET /api/history` (server/history): a stored window of telemetry, predictions and
  * records, for the Replay screen and exports. Parallel arrays with `t` in Unix epoch ms.
  */
+import type { AlarmLevelOf } from '../levels/channel-bands.js';
 import type { ChannelBands } from '../live/channels.js';
 import type { LivePrediction, PredictionStatus, SeriesChunk, SlowChunk } from '../live/live-state.js';
 import type { ProfileRecord } from '../profiles/profile-record.js';
@@ -59,8 +60,25 @@ export interface HistoryLevels {
   version: number;
   createdBy: string;
   reason: string;
-  /** The gauges' bands of that version; the alarm marks are those of the alarm limits in force now. */
+  /** The gauges' bands of that version, without alarm marks (`high`, `low` null): see `HistoryAlarmLimits`. */
   bands: ChannelBands;
+}
+
+/**
+ * The alarm limits in force from `t`, rebuilt from today's limits and the audited edits (each
+ * edit's value before it). Their levels only: what the gauges mark.
+ */
+export interface HistoryAlarmLimits {
+  /**
+   * When the edit putting this set in force was made, Unix epoch ms; for the set in force at the
+   * window's start without any audited edit before it, the window's start.
+   */
+  t: number;
+  /** The limit that edit changed, who made it and why; null for the set in force without an audited edit. */
+  changedId: string | null;
+  changedBy: string | null;
+  reason: string | null;
+  limits: (AlarmLevelOf & { id: string })[];
 }
 
 /** A calibration version in force from `t` (its approval). */
@@ -86,6 +104,7 @@ export interface HistoryInForce {
   levels: HistoryLevels[];
   calibrations: HistoryCalibration[];
   profiles: HistoryProfile[];
+  alarmLimits: HistoryAlarmLimits[];
 }
 
 export type HistoryEventKind = 'alarm' | 'trip' | 'reset' | 'note' | 'shot' | 'run' | 'calibration' | 'profile' | 'steer';

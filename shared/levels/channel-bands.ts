@@ -17,19 +17,10 @@ const ABSOLUTE: ReadonlySet<BandKind> = new Set(['current', 'voltage']);
 
 /**
  * One band per coil pair (and the water supply): scale, normal band and trip levels from the
- * level set; the alarm marks are the nearest-to-normal high (H, else HH) and low (L, else LL)
- * alarm limits on the same channel, null where the channel has no alarm.
+ * level set; the alarm marks from `limits` (`alarmMarksOf`).
  */
 export function composeChannelBands(set: LevelSetVersion, limits: readonly AlarmLevelOf[]): ChannelBands {
   const band = (id: BandId, kind: BandKind, labelSuffix: string): ChannelBand => {
-    const own = limits.filter((l) => l.channel === id);
-    const pick = (levels: AlarmLevelOf['level'][]) => {
-      for (const level of levels) {
-        const found = own.find((l) => l.level === level);
-        if (found) return found.limit;
-      }
-      return null;
-    };
     const { scale, normal } = set.levels.bands[kind];
     return {
       id,
@@ -37,8 +28,7 @@ export function composeChannelBands(set: LevelSetVersion, limits: readonly Alarm
       unit: BAND_LABELS[kind].unit,
       scale: [scale[0], scale[1]],
       normal: [normal[0], normal[1]],
-      high: pick(['H', 'HH']),
-      low: pick(['L', 'LL']),
+      ...alarmMarksOf(id, limits),
       tripHigh: tripLevelOf(set.levels.trips, kind, 'high'),
       tripLow: tripLevelOf(set.levels.trips, kind, 'low'),
       absolute: ABSOLUTE.has(kind),
@@ -49,4 +39,30 @@ export function composeChannelBands(set: LevelSetVersion, limits: readonly Alarm
     for (const axis of AXES) bands[`${kind}.${axis}`] = band(`${kind}.${axis}`, kind, ` ${axis}`);
   }
   return { version: set.version, bands };
+}
+
+/**
+ * `bands` with the alarm marks of `limits` in place of their own (Replay: the alarm limits in
+ * force at its clock over the level set then in force).
+ */
+export function withAlarmMarks(bands: ChannelBands, limits: readonly AlarmLevelOf[]): ChannelBands {
+  const marked = {} as Record<BandId, ChannelBand>;
+  for (const [id, band] of Object.entries(bands.bands) as [BandId, ChannelBand][]) marked[id] = { ...band, ...alarmMarksOf(id, limits) };
+  return { version: bands.version, bands: marked };
+}
+
+/**
+ * The alarm marks of one channel: the nearest-to-normal high (H, else HH) and low (L, else LL)
+ * alarm limits on it, null where the channel has no alarm.
+ */
+function alarmMarksOf(id: BandId, limits: readonly AlarmLevelOf[]): Pick<ChannelBand, 'high' | 'low'> {
+  const own = limits.filter((l) => l.channel === id);
+  const pick = (levels: AlarmLevelOf['level'][]) => {
+    for (const level of levels) {
+      const found = own.find((l) => l.level === level);
+      if (found) return found.limit;
+    }
+    return null;
+  };
+  return { high: pick(['H', 'HH']), low: pick(['L', 'LL']) };
 }

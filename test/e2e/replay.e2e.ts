@@ -122,7 +122,7 @@ describe('Replay page in Chromium', () => {
     await page.screenshot({ path: join(ARTIFACT_DIR, 'replay-1366.png'), fullPage: true });
   });
 
-  it('greys the prediction where Live did and draws the level set and names the calibration in force at the clock', async () => {
+  it('greys the prediction where Live did and draws the level set and alarm limits and names the calibration in force at the clock', async () => {
     const { stack } = env;
     const lead = await signIn(stack.server.url, 'lead');
     const call = (method: string, path: string, body?: unknown) =>
@@ -135,13 +135,16 @@ describe('Replay page in Chromium', () => {
     const before = (await (await call('GET', '/api/levels')).json()) as LevelSetVersion;
     const withMinField = (minOrientingFieldG: number, reason: string) =>
       call('PUT', '/api/levels', { levels: { ...before.levels, settings: { ...before.levels.settings, minOrientingFieldG } }, reason });
-    // For four seconds a lead asks for more field than the demo makes: Live greys the prediction.
+    const currentXHigh = (limit: number, reason: string) => call('PUT', '/api/alarm-limits/current.x.H', { limit, reason });
+    // For four seconds a lead asks for more field than the demo makes (Live greys the prediction) and lowers an alarm limit.
     expect((await withMinField(1000, 'Replay check: prediction greyed for a moment')).status).toBe(200);
+    expect((await currentXHigh(17, 'Replay check: alarm limit lowered for a moment')).status).toBe(200);
     const raisedMs = Date.now();
     await waitFor(() => (Date.now() > raisedMs + 4000 ? true : undefined), 'four seconds of a greyed prediction', 10_000);
     const note = await call('POST', '/api/logbook/entries', { text: 'Prediction greyed on purpose', at: new Date(raisedMs + 2000).toISOString() });
     expect(note.status).toBe(201);
     expect((await withMinField(before.levels.settings.minOrientingFieldG, 'Replay check: back to the usual least field')).status).toBe(200);
+    expect((await currentXHigh(18, 'Replay check: back to the usual alarm limit')).status).toBe(200);
 
     const page = await openSignedIn(env, 'viewer', { viewport: { width: 1366, height: 768 } });
     await openPage(page, 'Replay');
@@ -152,7 +155,10 @@ describe('Replay page in Chromium', () => {
     expect(await prediction.getAttribute('class')).toContain('stale');
     const bar = page.getByRole('region', { name: 'Replay controls' });
     expect(await bar.innerText()).toMatch(/In force at the replay clock: calibration v1 "Lindqvist Hall demo calibration" · sample profile "Lindqvist Hall 167Er, crossed trap" v1/);
-    expect(await page.getByRole('region', { name: 'Coils' }).innerText()).toContain(`level set v${before.version + 1}, in force at the replay clock`);
+    const coils = page.getByRole('region', { name: 'Coils' });
+    expect(await coils.innerText()).toContain(`level set v${before.version + 1} and alarm marks of the alarm limits, both in force at the replay clock`);
+    const alarmMark = async () => Number(await page.locator('tw-gauge-bar[aria-label^="X current"] .mark[data-kind="alarm"]').first().getAttribute('data-percent'));
+    const lowered = await alarmMark();
     await page.waitForTimeout(500);
     await page.screenshot({ path: join(ARTIFACT_DIR, 'replay-greyed-1366.png'), fullPage: true });
 
@@ -160,6 +166,7 @@ describe('Replay page in Chromium', () => {
     await page.getByRole('slider', { name: 'Replay position' }).press('ArrowLeft');
     await expect.poll(() => prediction.innerText()).not.toContain('Did not apply');
     expect(await prediction.innerText()).toMatch(/β = K∥\/K⊥/);
-    expect(await page.getByRole('region', { name: 'Coils' }).innerText()).toContain(`level set v${before.version},`);
+    expect(await coils.innerText()).toContain(`level set v${before.version} and`);
+    expect(await alarmMark()).toBeGreaterThan(lowered); // 18 A then, 17 A during the raise
   });
 });

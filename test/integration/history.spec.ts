@@ -1,6 +1,7 @@
 import { parse } from 'csv-parse/sync';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { HistoryResponse } from '../../shared/history/history-api.js';
+import { withAlarmMarks } from '../../shared/levels/channel-bands.js';
 import type { LiveState } from '../../shared/live/live-state.js';
 import type { RunRecord } from '../../shared/steering/steering-api.js';
 import { HISTORY_CSV_COLUMNS } from '../../server/history/history-csv.js';
@@ -91,7 +92,9 @@ describe('history: stored window of telemetry, predictions and records', () => {
     expect(body.prediction.status.state.at(-1)).toBe(seen.at(-1)!.predictionStatus.state);
     expect(body.inForce.calibrations.map((c) => c.version)).toEqual([seen.at(-1)!.calibration!.version]);
     expect(body.inForce.profiles.map((p) => p.profile.id)).toEqual([shown.profileId]);
-    expect(body.inForce.levels.map((l) => l.bands)).toEqual([(await api('viewer', 'GET', '/api/channels')).body]);
+    const [alarmLimits] = body.inForce.alarmLimits;
+    expect(body.inForce.alarmLimits).toHaveLength(1);
+    expect(body.inForce.levels.map((l) => withAlarmMarks(l.bands, alarmLimits.limits))).toEqual([(await api('viewer', 'GET', '/api/channels')).body]);
   });
 
   it('serves older or longer windows from the 1 s roll-ups, agreeing with the raw points', async () => {

@@ -73,12 +73,13 @@ describe('toReplayData and momentAt', () => {
     expect(chart(staleData, 10_000)).toBeNaN();
   });
 
-  it('gives the level set, calibration and profile in force at the moment', () => {
+  it('gives the level set, calibration, profile and alarm limits in force at the moment', () => {
     const at = (ms: number) => momentAt(data, FIXTURE_FROM + ms);
     expect([at(10_000).levels?.version, at(25_000).levels?.version]).toEqual([1, 2]);
     expect(at(25_000).levels?.bands.bands['current.x'].normal).toEqual([-18, 18]);
     expect([at(39_000).calibration?.version, at(41_000).calibration?.version]).toEqual([1, 2]);
     expect(at(41_000).profile).toMatchObject({ id: 3, version: 2 });
+    expect([at(44_000).alarmLimits?.limits[0].limit, at(46_000).alarmLimits?.limits[0].limit]).toEqual([18, 16]);
   });
 
   it('charts the predicted deformation as a held step in percent', () => {

@@ -9,7 +9,7 @@ import { FAST, SLOW, appendChunks } from '../charts/telemetry-history';
 import type { CoilReadings } from '../live/coil-strip';
 import { resampleHistory } from '../prediction/prediction-series';
 import type {
-  HistoryCalibration, HistoryEvent, HistoryInForce, HistoryLevels, HistoryPrediction, HistoryPredictionStatus, HistoryResponse, HistoryRun,
+  HistoryAlarmLimits, HistoryCalibration, HistoryEvent, HistoryInForce, HistoryLevels, HistoryPrediction, HistoryPredictionStatus, HistoryResponse, HistoryRun,
 } from '../../../shared/history/history-api';
 
 /** Columns of `ReplayData.sigma`: one standard deviation of |B|, θ, φ (NaN without one). */
@@ -37,7 +37,7 @@ export interface ReplayData {
   prediction: HistoryPrediction;
   /** Whether the prediction applied, each change holding until the next. */
   status: HistoryPredictionStatus;
-  /** Level set, calibration and profile versions in force over the window. */
+  /** Level set, calibration, profile versions and alarm limits in force over the window. */
   inForce: HistoryInForce;
   /** (β − 1) and (TOF aspect − 1) in percent, `PREDICTED` columns, for the chart. */
   predicted: RingBuffer;
@@ -56,8 +56,9 @@ export interface ReplayMoment {
   prediction: LivePrediction | null;
   /** Whether it applied then, worded as Live worded it; null where that was not recorded. */
   predictionStatus: PredictionStatus | null;
-  /** The versions in force at that moment (the levels: the window's first before any). */
+  /** The versions in force at that moment (the levels and alarm limits: the window's first before any). */
   levels: HistoryLevels | null;
+  alarmLimits: HistoryAlarmLimits | null;
   calibration: HistoryCalibration | null;
   profile: ProfileRecord | null;
 }
@@ -160,6 +161,7 @@ export function momentAt(data: ReplayData, timeMs: number): ReplayMoment {
     prediction: predictionAt(data, data.predictionTimes.indexAtOrBefore(timeMs)),
     predictionStatus: statusAt(data.status, timeMs, fastIndex < 0 ? null : orNull(fast(FAST.bMag))),
     levels: inForceAt(data.inForce.levels, timeMs, true),
+    alarmLimits: inForceAt(data.inForce.alarmLimits, timeMs, true),
     calibration: inForceAt(data.inForce.calibrations, timeMs),
     profile: inForceAt(data.inForce.profiles, timeMs)?.profile ?? null,
   };

@@ -116,7 +116,10 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
     await loadFixtureWindow();
     const panel = () => text('tw-prediction-panel');
     expect(text('.in-force')).toContain('calibration v1 "Lindqvist Hall demo calibration" · sample profile "Lindqvist Hall 167Er, crossed trap" v2');
-    expect(text('tw-coil-strip')).toContain('level set v1');
+    expect(text('tw-coil-strip')).toContain('level set v1 and alarm marks of the alarm limits, both in force at the replay clock');
+    // The first alarm mark of the X current gauge (scale −25…25 A): +H, 18 A at 86 %, 16 A at 82 %.
+    const alarmMark = () => Math.round(Number(host.querySelector('tw-gauge-bar[aria-label^="X current"] .mark[data-kind="alarm"]')?.getAttribute('data-percent')));
+    const before = alarmMark();
     for (const key of ['End', 'ArrowLeft', 'ArrowLeft', 'ArrowLeft', 'ArrowLeft', 'ArrowLeft']) {
       host.querySelector<HTMLElement>('[role="slider"]')!.dispatchEvent(new KeyboardEvent('keydown', { key, bubbles: true }));
       await fixture.whenStable();
@@ -127,6 +130,7 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
     expect(text('.in-force')).toContain('calibration v2 "Vector-probe fit of probe-night.csv"');
     expect(fieldText()).toContain('Calibration v2 · Vector-probe fit of probe-night.csv');
     expect(text('tw-coil-strip')).toContain('level set v2');
+    expect([before, alarmMark()]).toEqual([86, 82]); // the limit edited at 45 s
   });
 
   it('loads a run from the list by its id', async () => {

@@ -10,6 +10,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { ActivatedRoute } from '@angular/router';
+import { withAlarmMarks } from '../../../shared/levels/channel-bands';
 import type { RunRecord } from '../../../shared/steering/steering-api';
 import { TelemetryCharts } from '../charts/telemetry-charts';
 import { CoilStrip } from '../live/coil-strip';
@@ -79,10 +80,18 @@ export class ReplayPage {
       profile ? `sample profile "${profile.name}" v${profile.version}` : 'no sample profile recorded',
     ].join(' · ');
   });
-  /** The coil strip's note: what history lacks, and which level set draws the bands. */
+  /** The level set and the alarm limits in force at the clock; each changes only at an edit. */
+  private readonly levels = computed(() => this.moment()?.levels ?? null);
+  private readonly alarmLimits = computed(() => this.moment()?.alarmLimits ?? null);
+  /** The coil strip's bands: the level set's, marked with the alarm limits in force at the clock. */
+  protected readonly bands = computed(() => {
+    const levels = this.levels();
+    return levels ? withAlarmMarks(levels.bands, this.alarmLimits()?.limits ?? []).bands : null;
+  });
+  /** The coil strip's note: what history lacks, and what draws the bands and marks. */
   protected readonly coilNote = computed(() => {
-    const levels = this.moment()?.levels;
-    const drawn = levels ? `bands and trip levels of level set v${levels.version}, in force at the replay clock; alarm marks are the alarm limits in force now` : '';
+    const levels = this.levels();
+    const drawn = levels ? `bands and trip levels of level set v${levels.version} and alarm marks of the alarm limits, both in force at the replay clock` : '';
     return `Replay: setpoints, voltages and water temperatures are not kept in history (shown as no data); ${drawn}.`;
   });
   /** Said in the panels when nothing was recorded close to the replayed moment. */

@@ -1,4 +1,4 @@
-import type { HistoryEvent, HistoryLevels, HistoryResponse } from '../../../../shared/history/history-api';
+import type { HistoryAlarmLimits, HistoryEvent, HistoryLevels, HistoryResponse } from '../../../../shared/history/history-api';
 import { composeChannelBands } from '../../../../shared/levels/channel-bands';
 import type { LevelSet } from '../../../../shared/levels/level-set';
 import type { ProfileRecord } from '../../../../shared/profiles/profile-record';
@@ -27,6 +27,11 @@ function levels(version: number, t: number, normalA: number): HistoryLevels {
   return { t, version, createdBy: 'lead@tiltwatch.example', reason: 'fixture', bands: composeChannelBands({ version, levels: set, createdBy: 'lead@tiltwatch.example', createdAt, reason: 'fixture' }, []) };
 }
 
+/** The alarm limits in force from `t`: a high alarm on the X current at `currentXHighA`. */
+function alarmLimits(t: number, currentXHighA: number): HistoryAlarmLimits {
+  return { t, changedId: 'current.x.H', changedBy: 'lead@tiltwatch.example', reason: 'fixture', limits: [{ id: 'current.x.H', channel: 'current.x', level: 'H', limit: currentXHighA }] };
+}
+
 const PROFILE: ProfileRecord = {
   id: 3, name: 'Lindqvist Hall 167Er, crossed trap', version: 2, active: true, createdBy: 'lead@tiltwatch.example', createdAt: new Date(FIXTURE_FROM - DAY_MS).toISOString(),
   reason: 'fixture', profile: { name: 'Lindqvist Hall 167Er, crossed trap', species: '167Er', atomNumber: 5e4, trapHz: [350, 80, 400], trapToCoilEulerDeg: [15, 0, 0], tofMs: [20], imaging: 'y' },
@@ -38,7 +43,7 @@ const PROFILE: ProfileRecord = {
  * 30 s to 40 s, slow samples every second, a stable prediction in force from before the window
  * and a collapsed one from 20 s that did not apply (field too weak) from 52 s to 58 s; level set
  * v1 and calibration v1 in force from before the window, level set v2 from 20 s and calibration
- * v2 from 40 s; an alarm, a note and a shot.
+ * v2 from 40 s, the X current's high alarm at 18 A from before the window and at 16 A from 45 s; an alarm, a note and a shot.
  */
 export function historyFixture(): HistoryResponse {
   const t: number[] = [];
@@ -102,6 +107,7 @@ export function historyFixture(): HistoryResponse {
         { t: FIXTURE_FROM + 40_000, id: 4, version: 2, label: 'Vector-probe fit of probe-night.csv', approvedBy: 'lead@tiltwatch.example' },
       ],
       profiles: [{ t: FIXTURE_FROM - DAY_MS, profile: PROFILE }],
+      alarmLimits: [alarmLimits(FIXTURE_FROM - DAY_MS, 18), alarmLimits(FIXTURE_FROM + 45_000, 16)],
     },
     events: [
       fixtureEvent(15_000, 'alarm', 'Alarm temperature.x.H (medium): raise, normal → unacknowledged'),
