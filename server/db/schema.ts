@@ -39,7 +39,7 @@ import type { CalibrationFitReport, CalibrationKind, CalibrationState, FitPoint 
 import type { LivePrediction, PredictionStatus } from '../../shared/live/live-state.js';
 import type { LevelSet } from '../../shared/levels/level-set.js';
 import type { SampleProfile } from '../../shared/profiles/sample-profile.js';
-import type { RunState, SequenceStep, ShotPrediction, ShotRecord } from '../../shared/steering/steering-api.js';
+import type { RunState, SequenceStep, ShotPrediction, ShotRecord, StepOutcome } from '../../shared/steering/steering-api.js';
 import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
 import type { AlarmMemory, AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
@@ -398,6 +398,23 @@ export const runs = pgTable('runs', {
   reason: text('reason').notNull(),
   endReason: text('end_reason'),
 });
+
+/**
+ * The steps of runs as the runner reached them: the step as the sequence gave it, when it began
+ * and when and how it ended (`done`, `aborted`, `tripped`; null while it goes).
+ */
+export const runSteps = pgTable(
+  'run_steps',
+  {
+    runId: integer('run_id').notNull().references(() => runs.id),
+    stepIndex: integer('step_index').notNull(),
+    step: jsonb('step').$type<SequenceStep>().notNull(),
+    startedAt: timestamp('started_at', { withTimezone: true }).notNull(),
+    endedAt: timestamp('ended_at', { withTimezone: true }),
+    outcome: text('outcome').$type<StepOutcome>(),
+  },
+  (t) => [primaryKey({ columns: [t.runId, t.stepIndex] }), index('run_steps_started_at').on(t.startedAt)],
+);
 
 /** Shots of runs: the measured field and the prediction at the moment an image was taken. */
 export const shots = pgTable(

@@ -1,12 +1,14 @@
 /**
  * The records of a window as timeline marks: alarm transitions, interlock trips and resets,
- * logbook notes (at the time they refer to), runs (start and end), shots, and approvals,
+ * logbook notes (at the time they refer to), runs (start and end), the start of each step of a
+ * run (with how it ended), shots, and approvals,
  * profile activations and steering commands from the audit trail. Oldest first.
  */
 import { and, asc, eq, gte, inArray, lt } from 'drizzle-orm';
 import type { HistoryEvent, HistoryEventKind } from '../../shared/history/history-api.js';
+import type { SequenceStep, StepOutcome } from '../../shared/steering/steering-api.js';
 import type { Db } from '../db/database.js';
-import { alarmEvents, auditLog, interlockTrips, logbookEntries, runs, sequences, shots } from '../db/schema.js';
+import { alarmEvents, auditLog, interlockTrips, logbookEntries, runs, runSteps, sequences, shots } from '../db/schema.js';
 
 /** Most events per kind of record in one answer (the earliest ones). */
 export const MAX_EVENTS_PER_KIND = 2000;
@@ -22,7 +24,7 @@ const AUDITED: Record<string, HistoryEventKind> = {
 
 export async function historyEvents(db: Db, fromMs: number, toMs: number): Promise<HistoryEvent[]> {
   const [from, to] = [new Date(fromMs), new Date(toMs)];
-  const lists = await Promise.all([alarms(db, fromMs, toMs), trips(db, fromMs, toMs), notes(db, from, to), runMarks(db, from, to), shotMarks(db, from, to), audited(db, from, to)]);
+  const lists = await Promise.all([alarms(db, fromMs, toMs), trips(db, fromMs, toMs), notes(db, from, to), runMarks(db, from, to), stepMarks(db, from, to), shotMarks(db, from, to), audited(db, from, to)]);
   return lists.flat().sort((a, b) => a.t - b.t);
 }
 
@@ -72,6 +74,40 @@ async function runMarks(db: Db, from: Date, to: Date): Promise<HistoryEvent[]> {
     ...started.map((r) => mark(r.startedAt.getTime(), 'run', r.id, `Run ${r.id} started: sequence "${r.name}" version ${r.version}`, r.actor, r.reason)),
     ...ended.map((r) => mark((r.endedAt ?? r.startedAt).getTime(), 'run', r.id, `Run ${r.id} ${r.state}`, null, r.endReason)),
   ];
+}
+
+async function stepMarks(db: Db, from: Date, to: Date): Promise<HistoryEvent[]> {
+  const rows = await db
+    .select()
+    .from(runSteps)
+    .where(and(gte(runSteps.startedAt, from), lt(runSteps.startedAt, to)))
+    .orderBy(asc(runSteps.startedAt), asc(runSteps.runId), asc(runSteps.stepIndex))
+    .limit(MAX_EVENTS_PER_KIND);
+  return rows.map((r) =>
+    mark(r.startedAt.getTime(), 'step', `${r.runId}.${r.stepIndex + 1}`, `Run ${r.runId} step ${r.stepIndex + 1}: ${stepText(r.step)}`, null, stepEnd(r.outcome, r.endedAt && r.endedAt.getTime() - r.startedAt.getTime())),
+  );
+}
+
+function stepText(step: SequenceStep): string {
+  switch (step.kind) {
+    case 'ramp':
+      return `ramp to |B| ${step.magnitudeG} G, θ ${step.thetaDeg}°, φ ${step.phiDeg}° over ${seconds(step.durationMs)}`;
+    case 'hold':
+      return `hold for ${seconds(step.durationMs)}`;
+    default:
+      return `shot "${step.label}"`;
+  }
+}
+
+const OUTCOME_TEXT: Record<StepOutcome, string> = { done: 'Done', aborted: 'Aborted', tripped: 'Interrupted by an interlock trip' };
+
+/** How a step ended, e.g. "Aborted after 0.4 s"; null while it goes. */
+function stepEnd(outcome: StepOutcome | null, ms: number | null): string | null {
+  return outcome && ms !== null ? `${OUTCOME_TEXT[outcome]} after ${seconds(ms)}` : null;
+}
+
+function seconds(ms: number): string {
+  return `${(ms / 1000).toFixed(1)} s`;
 }
 
 async function shotMarks(db: Db, from: Date, to: Date): Promise<HistoryEvent[]> {

@@ -1,9 +1,9 @@
 import { randomBytes } from 'node:crypto';
-import { desc, eq, inArray } from 'drizzle-orm';
+import { desc, eq, inArray, isNull } from 'drizzle-orm';
 import type { RunRecord, RunState, SequenceRecord, ShotRecord } from '../../shared/steering/steering-api.js';
 import { appendAudit } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
-import { runs, sequences, shots } from '../db/schema.js';
+import { runs, runSteps, sequences, shots } from '../db/schema.js';
 
 /** Runs listed by `GET /api/runs`. */
 const LIST_LIMIT = 100;
@@ -18,10 +18,6 @@ export async function createRun(db: Db, run: { sequence: SequenceRecord; actor: 
     await appendAudit(tx, { actor: run.actor, action: 'run.start', subject: `run:${row.id}`, newValue: { sequenceId: run.sequence.id, name: run.sequence.name, version: run.sequence.version }, reason: run.reason });
     return row.id;
   });
-}
-
-export async function setRunStep(db: Db, runId: number, step: number): Promise<void> {
-  await db.update(runs).set({ step }).where(eq(runs.id, runId));
 }
 
 /** Ends a run (done or aborted), with the audit entry of an abort in the same transaction. */
@@ -94,7 +90,10 @@ export async function findRun(db: Db, id: number): Promise<RunRecord | null> {
   return toRun(row as RunRow, shotRows);
 }
 
-/** Runs left `running` by a server that stopped: they cannot go on, so they end as aborted. */
+/** Runs left `running` by a server that stopped, and the steps they were on: they cannot go on, so they end as aborted. */
 export async function abortOrphanedRuns(db: Db, at: Date): Promise<void> {
-  await db.update(runs).set({ state: 'aborted', endedAt: at, endReason: 'the server stopped during the run' }).where(eq(runs.state, 'running'));
+  await db.transaction(async (tx) => {
+    await tx.update(runSteps).set({ endedAt: at, outcome: 'aborted' }).where(isNull(runSteps.endedAt));
+    await tx.update(runs).set({ state: 'aborted', endedAt: at, endReason: 'the server stopped during the run' }).where(eq(runs.state, 'running'));
+  });
 }

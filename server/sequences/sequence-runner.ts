@@ -2,7 +2,9 @@
  * Runs a sequence: pre-flights all of it from the field in force, records the run, then works
  * through the steps — a ramp hands the steering driver its next target, a hold waits, a shot
  * records the measured field and the prediction for it — one run at a time. An abort holds the
- * present field; a trip ends the run as aborted (steering has stopped by then).
+ * present field; a trip ends the run as aborted (steering has stopped by then). Each step's start
+ * is written while the step goes (the runner does not wait for it); a start that cannot be
+ * recorded stops the run, holding the present field. How the last step ended is written at the end.
  */
 import type { Logger } from 'pino';
 import type { Calibration } from '../../shared/field/calibration.js';
@@ -10,16 +12,18 @@ import { fieldAngles } from '../../shared/field/field-vector.js';
 import type { LiveState } from '../../shared/live/live-state.js';
 import type { ProfileRecord } from '../../shared/profiles/profile-record.js';
 import { profileTrapField } from '../../shared/profiles/trap-orientation.js';
-import type { SequenceRecord, SequenceStep, ShotPrediction } from '../../shared/steering/steering-api.js';
+import type { SequenceRecord, SequenceStep, ShotPrediction, StepOutcome } from '../../shared/steering/steering-api.js';
 import { targetVector } from '../../shared/steering/target.js';
 import type { Db } from '../db/database.js';
+import { writeFailureText } from '../db/write-failure.js';
 import { HttpError } from '../http/http-error.js';
 import type { PathPredictor } from '../steering/path-predictor.js';
 import { rampsOfSequence } from '../steering/planner.js';
 import { PreflightRefusal, type SteerDesk } from '../steering/steer-desk.js';
 import { fieldInForce, type Steering } from '../steering/steering.js';
-import { addShot, createRun, endRun, setRunStep } from './run-repository.js';
+import { addShot, createRun, endRun } from './run-repository.js';
 import { findSequence } from './sequence-repository.js';
+import { endSteps, startStep } from './step-repository.js';
 
 export interface RunnerDeps {
   db: Db;
@@ -35,8 +39,11 @@ export interface RunnerDeps {
 interface ActiveRun {
   id: number;
   sequence: SequenceRecord;
-  /** Set when the run must stop (`recorded`: its end is stored already); wakes the step that waits. */
-  stop: { why: string; recorded: boolean } | null;
+  /**
+   * Set when the run must stop (`recorded`: its end is stored already; `outcome`: how the step
+   * it was on ended); wakes the step that waits.
+   */
+  stop: { why: string; recorded: boolean; outcome: StepOutcome } | null;
   wake: () => void;
 }
 
@@ -46,7 +53,7 @@ export class SequenceRunner {
 
   constructor(private readonly deps: RunnerDeps) {
     deps.steering.onTripStop((program) => {
-      if (this.active && program.runId === this.active.id) this.stop(this.active, { why: 'the interlock tripped during the run', recorded: false });
+      if (this.active && program.runId === this.active.id) this.stop(this.active, { why: 'the interlock tripped during the run', recorded: false, outcome: 'tripped' });
     });
   }
 
@@ -87,7 +94,7 @@ export class SequenceRunner {
     if (!run || run.id !== runId) throw new HttpError(409, `Run ${runId} is not running`);
     await recorded(() => endRun(this.deps.db, runId, { state: 'aborted', at: new Date(), why: `aborted by ${actor}: ${reason}`, actor, reason }));
     this.deps.steering.holdHere(actor, `run ${runId} aborted: ${reason}`);
-    this.stop(run, { why: `aborted by ${actor}: ${reason}`, recorded: true });
+    this.stop(run, { why: `aborted by ${actor}: ${reason}`, recorded: true, outcome: 'aborted' });
     await this.finished;
   }
 
@@ -98,7 +105,7 @@ export class SequenceRunner {
 
   /** Stops the run in force at shutdown. */
   async close(): Promise<void> {
-    if (this.active) this.stop(this.active, { why: 'the server stopped during the run', recorded: false });
+    if (this.active) this.stop(this.active, { why: 'the server stopped during the run', recorded: false, outcome: 'aborted' });
     await this.finished;
   }
 
@@ -116,10 +123,19 @@ export class SequenceRunner {
   private async execute(run: ActiveRun, actor: string, reason: string): Promise<void> {
     const { deps } = this;
     let failure: string | null = null;
+    /** The step the run is on, when it began, and whether it has run its whole course. */
+    let reached: { index: number; startedAt: Date; completed: boolean } | null = null;
     try {
       for (let i = 0; i < run.sequence.steps.length && !run.stop; i++) {
-        await setRunStep(deps.db, run.id, i).catch((error) => deps.log.error({ err: error, runId: run.id }, 'storing the run step failed'));
-        await this.step(run, run.sequence.steps[i], i, actor, reason);
+        const step = run.sequence.steps[i];
+        reached = { index: i, startedAt: new Date(), completed: false };
+        const stored = startStep(deps.db, { runId: run.id, index: i, step, at: reached.startedAt }).catch((error) => this.stepNotRecorded(run, i, error));
+        try {
+          await this.step(run, step, i, actor, reason);
+          reached.completed = !run.stop;
+        } finally {
+          await stored;
+        }
       }
     } catch (error) {
       failure = (error as Error).message;
@@ -128,12 +144,25 @@ export class SequenceRunner {
     }
     this.active = null;
     deps.steering.detachRun(run.id);
+    if (reached) {
+      const outcome = reached.completed ? 'done' : (run.stop?.outcome ?? 'aborted');
+      await endSteps(deps.db, run.id, reached, { at: new Date(), outcome }).catch((error) => deps.log.error({ err: error, runId: run.id }, 'storing the end of a step failed'));
+    }
     if (run.stop?.recorded) return;
     const state = run.stop || failure ? 'aborted' : 'done';
     const why = run.stop?.why ?? failure;
     await endRun(deps.db, run.id, { state, at: new Date(), why: why ?? null, actor: state === 'aborted' ? 'system' : actor, reason: why ?? reason })
       .catch((error) => deps.log.error({ err: error, runId: run.id }, 'storing the end of a run failed'));
     deps.log.info({ runId: run.id, state, why }, 'sequence run ended');
+  }
+
+  /** A step whose start could not be recorded did not count: the run stops, holding the present field. */
+  private stepNotRecorded(run: ActiveRun, index: number, error: unknown): void {
+    const why = `the start of step ${index + 1} could not be recorded (${writeFailureText(error)})`;
+    this.deps.log.error({ err: error, runId: run.id }, 'storing the start of a step failed');
+    if (run.stop) return;
+    this.deps.steering.holdHere('system', `run ${run.id} stopped: ${why}`);
+    this.stop(run, { why, recorded: false, outcome: 'aborted' });
   }
 
   private async step(run: ActiveRun, step: SequenceStep, index: number, actor: string, reason: string): Promise<void> {

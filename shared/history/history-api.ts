@@ -107,7 +107,7 @@ export interface HistoryInForce {
   alarmLimits: HistoryAlarmLimits[];
 }
 
-export type HistoryEventKind = 'alarm' | 'trip' | 'reset' | 'note' | 'shot' | 'run' | 'calibration' | 'profile' | 'steer';
+export type HistoryEventKind = 'alarm' | 'trip' | 'reset' | 'note' | 'shot' | 'run' | 'step' | 'calibration' | 'profile' | 'steer';
 
 /** A record in the window, for the timeline's marks. */
 export interface HistoryEvent {
@@ -116,7 +116,7 @@ export interface HistoryEvent {
   /** The same moment, Unix epoch ms. */
   t: number;
   kind: HistoryEventKind;
-  /** The record's id in its own list (alarm id, trip time, logbook entry, shot id, run id, calibration or profile id, audit entry). */
+  /** The record's id in its own list (alarm id, trip time, logbook entry, shot id, run id, run and step number as `12.3`, calibration or profile id, audit entry). */
   id: string;
   /** One line for the mark's tooltip. */
   label: string;

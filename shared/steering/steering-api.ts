@@ -97,6 +97,9 @@ export interface SequenceSaveRequest {
 
 export type RunState = 'running' | 'done' | 'aborted';
 
+/** How a step of a run ended: its whole course, cut short by an abort (or a stop of the run), or by an interlock trip. */
+export type StepOutcome = 'done' | 'aborted' | 'tripped';
+
 /** The prediction recorded with a shot (active sample profile, measured field). */
 export interface ShotPrediction {
   fermiSurfaceAspect: number | null;

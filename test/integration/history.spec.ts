@@ -161,7 +161,7 @@ describe('history: stored window of telemetry, predictions and records', () => {
     });
   });
 
-  it("gives a run's window with its shots as events", async () => {
+  it("gives a run's window with its shots and steps as events", async () => {
     const steps = [
       { kind: 'ramp', magnitudeG: 7, thetaDeg: 30, phiDeg: 0, durationMs: 1000 },
       { kind: 'hold', durationMs: 500 },
@@ -188,6 +188,19 @@ describe('history: stored window of telemetry, predictions and records', () => {
     expect(shots.map((e) => e.id)).toEqual(run.shots.map((s) => s.id));
     expect(shots.map((e) => e.at)).toEqual(run.shots.map((s) => s.at));
     expect(body.events.filter((e) => e.kind === 'run').map((e) => e.label)).toEqual([expect.stringMatching(/^Run \d+ started: sequence "History scan"/), `Run ${run.id} done`]);
+    // Each step's start, in order, between the run's start and its first shot for the first three.
+    const stepMarks = body.events.filter((e) => e.kind === 'step');
+    expect(stepMarks.map((e) => e.label)).toEqual([
+      `Run ${run.id} step 1: ramp to |B| 7 G, θ 30°, φ 0° over 1.0 s`,
+      `Run ${run.id} step 2: hold for 0.5 s`,
+      `Run ${run.id} step 3: shot "θ 30°"`,
+      `Run ${run.id} step 4: ramp to |B| 7 G, θ 50°, φ 0° over 1.0 s`,
+      `Run ${run.id} step 5: shot "θ 50°"`,
+    ]);
+    expect(stepMarks.map((e) => e.detail)).toEqual(Array.from({ length: 5 }, () => expect.stringMatching(/^Done after \d+\.\d s$/)));
+    expect(stepMarks[0].t).toBeGreaterThanOrEqual(Date.parse(run.startedAt));
+    expect(stepMarks[2].t).toBeLessThanOrEqual(Date.parse(run.shots[0].at));
+    expect(stepMarks[3].t - stepMarks[1].t).toBeGreaterThanOrEqual(500);
     expect(body.events.find((e) => e.kind === 'note')).toMatchObject({ at: noteAt, label: 'Logbook: Cloud looks rounder than predicted', actor: 'operator@tiltwatch.example' });
     expect(body.events.map((e) => e.t)).toEqual([...body.events.map((e) => e.t)].sort((a, b) => a - b));
     // The shot's stored field is what the history shows at its moment.
