@@ -45,13 +45,19 @@ describe('Replay page in Chromium', () => {
 
   it('plays a recorded window: seeks by mark and timeline, changes speed, and shows what history holds', async () => {
     const { stack } = env;
-    // Let the simulator run a while, with a logbook note in the middle as a mark.
+    // Let the simulator run a while, with a short sequence run and a logbook note in it as marks.
     const operator = await signIn(stack.server.url, 'operator');
+    const post = async (token: string, path: string, body: unknown) =>
+      (await fetch(`${stack.server.url}${path}`, { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` }, body: JSON.stringify(body) })).json() as Promise<Record<string, number>>;
     const firstDataMs = await waitFor(async () => {
       const live = (await (await fetch(`${stack.server.url}/api/live`, { headers: { authorization: `Bearer ${operator}` } })).json()) as LiveState;
       return live.time ? Date.parse(live.time) : undefined;
     }, 'the first telemetry', 30_000);
+    const steps = [{ kind: 'hold', durationMs: 1000 }, { kind: 'shot', label: 'replay check' }, { kind: 'hold', durationMs: 1000 }];
+    const sequence = await post(await signIn(stack.server.url, 'lead'), '/api/sequences', { name: 'Replay marks', steps, reason: 'replay check' });
+    const { runId } = await post(operator, `/api/sequences/${sequence['id']}/run`, { reason: 'replay check' });
     await waitFor(() => (Date.now() > firstDataMs + 10_000 ? true : undefined), 'ten seconds of telemetry', 30_000);
+    await post(operator, '/api/steering/release', { reason: 'end of the replay check run' });
     const noteAtMs = firstDataMs + 5000;
     const note = await fetch(`${stack.server.url}/api/logbook/entries`, {
       method: 'POST',
@@ -77,6 +83,11 @@ describe('Replay page in Chromium', () => {
     const bar = page.getByRole('region', { name: 'Replay controls' });
     await expect.poll(() => bar.innerText()).toMatch(/Replay — recorded .+, not live\./);
     await expect.poll(() => page.getByRole('status', { name: 'Connection' }).innerText()).not.toMatch(/^\s*\S*\s*Live\b/);
+
+    // Each step of the run is a mark of its own, named in the legend.
+    await expect.poll(() => page.getByRole('button', { name: /^Jump to Run step at / }).count()).toBe(3);
+    expect(await page.getByRole('button', { name: /^Jump to Run step at / }).first().getAttribute('aria-label')).toMatch(new RegExp(`— Run ${runId} step 1: hold for 1\\.0 s$`));
+    expect(await page.locator('tw-replay-timeline .legend').innerText()).toContain('Run step');
 
     // Jump to the note's mark.
     await page.getByRole('button', { name: /^Jump to Note .*Field steady for the replay check/ }).click();

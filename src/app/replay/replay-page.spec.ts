@@ -60,6 +60,7 @@ describe('ReplayPage', { timeout: 30_000 }, () => {
     const alarm = host.querySelector<HTMLButtonElement>('.mark[data-kind="alarm"]')!;
     expect(alarm.getAttribute('aria-label')).toMatch(/^Jump to Alarm at \d\d:\d\d:\d\d — Alarm temperature\.x\.H/);
     expect(text('tw-replay-timeline .legend')).toContain('Alarm');
+    expect(text('tw-replay-timeline .legend')).toContain('Run step');
     alarm.click();
     await fixture.whenStable();
     expect(clockMs()).toBe(FIXTURE_FROM + 15_000);

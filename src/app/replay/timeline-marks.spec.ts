@@ -15,18 +15,21 @@ describe('placeMarks', () => {
       event(FROM + 450_000, 'trip', 'Interlock trip, first out: X coil temperature'),
       event(FROM + 150_000, 'alarm', 'Alarm temperature.x.H (medium): raise'),
       event(FROM, 'run', 'Run 7 started: sequence "θ scan" version 3'),
+      event(FROM + 60_000, 'step', 'Run 7 step 1: ramp to |B| 7 G, θ 50°, φ 0° over 1.0 s'),
       event(TO, 'shot', ''),
     ];
     const marks = placeMarks(events, FROM, TO);
     expect(marks.map((m) => [m.kind, m.percent])).toEqual([
       ['run', 0],
+      ['step', 10],
       ['alarm', 25],
       ['trip', 75],
       ['shot', 100],
     ]);
-    expect(marks[1].text).toMatch(/^Alarm at \d\d:\d\d:\d\d — Alarm temperature\.x\.H \(medium\): raise$/);
-    expect(marks[2].text).toMatch(/^Trip at .* — Interlock trip, first out: X coil temperature$/);
-    expect(marks[3].text).toMatch(/^Shot at \d\d:\d\d:\d\d — Shot$/);
+    expect(marks[1].text).toMatch(/^Run step at \d\d:\d\d:\d\d — Run 7 step 1: ramp to \|B\| 7 G, θ 50°, φ 0° over 1\.0 s$/);
+    expect(marks[2].text).toMatch(/^Alarm at \d\d:\d\d:\d\d — Alarm temperature\.x\.H \(medium\): raise$/);
+    expect(marks[3].text).toMatch(/^Trip at .* — Interlock trip, first out: X coil temperature$/);
+    expect(marks[4].text).toMatch(/^Shot at \d\d:\d\d:\d\d — Shot$/);
   });
 
   it('leaves out events outside the window, of unreadable time or of an unknown kind', () => {

@@ -16,6 +16,7 @@ export const MARK_LOOK: Record<HistoryEventKind, MarkLook> = {
   shot: { icon: 'photo_camera', label: 'Shot' },
   steer: { icon: 'navigation', label: 'Steering command' },
   run: { icon: 'flag', label: 'Run' },
+  step: { icon: 'start', label: 'Run step' },
   calibration: { icon: 'tune', label: 'Calibration' },
   profile: { icon: 'science', label: 'Sample profile' },
 };

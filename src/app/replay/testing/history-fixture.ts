@@ -112,6 +112,7 @@ export function historyFixture(): HistoryResponse {
     events: [
       fixtureEvent(15_000, 'alarm', 'Alarm temperature.x.H (medium): raise, normal → unacknowledged'),
       fixtureEvent(45_000, 'note', 'Logbook: θ scan started'),
+      fixtureEvent(48_000, 'step', 'Run 7 step 3: shot "θ 30°"'),
       fixtureEvent(50_000, 'shot', 'Shot shot-1 (θ 30°), run 7'),
     ],
     run: null,
