@@ -44,6 +44,7 @@ import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
 import type { AlarmMemory, AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
 import type { ConditionStatus } from '../interlock/trip-conditions.js';
+import type { StoredSteering } from '../steering/steering-store.js';
 
 /** Compressed converter codes of the six fast channels (see server/storage/sample-codec.ts). */
 const sampleBlob = customType<{ data: Uint8Array; driverData: Uint8Array }>({
@@ -553,6 +554,17 @@ export const handoverItems = pgTable('handover_items', {
 export const alarmStates = pgTable('alarm_states', {
   alarmId: text('alarm_id').primaryKey(),
   memory: jsonb('memory').$type<AlarmMemory>().notNull(),
+  /** Server time of the write, Unix epoch ms. */
+  updatedAtMs: epochMs('updated_at_ms').notNull(),
+});
+
+/**
+ * What steering had in force when it last changed (server/steering/steering-store.ts): one row
+ * (id 1), written with the audit entry of each steer command and after every other change.
+ */
+export const steeringState = pgTable('steering_state', {
+  id: integer('id').primaryKey(),
+  state: jsonb('state').$type<StoredSteering>().notNull(),
   /** Server time of the write, Unix epoch ms. */
   updatedAtMs: epochMs('updated_at_ms').notNull(),
 });

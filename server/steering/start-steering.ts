@@ -1,7 +1,8 @@
 /**
  * Assembles steering for the server: the path predictor (own worker, the live engine's
  * ε_dd,crit cache), the setpoint driver, the command desk, sequences and runs, and the routes.
- * The limits come from the alarm limits and the stored level set in force.
+ * The limits come from the alarm limits and the stored level set in force. The steering state
+ * stored before a restart is restored (nothing is sent; see steering.ts) and every change is stored.
  * Steering exists before supervision (the alarms ask it for the target); what it needs from
  * supervision and ingest is handed over with `connect()`. The owner calls `close()`.
  */
@@ -21,11 +22,12 @@ import { abortOrphanedRuns } from '../sequences/run-repository.js';
 import { sequenceHandlers, type SequenceRoutes } from '../sequences/sequence-routes.js';
 import { seedDemoSequences } from '../sequences/sequence-repository.js';
 import { SequenceRunner } from '../sequences/sequence-runner.js';
-import { auditTo, SteerDesk } from './steer-desk.js';
+import { SteerDesk } from './steer-desk.js';
 import { PathPredictor } from './path-predictor.js';
 import type { PreflightLimits } from './preflight.js';
 import { Steering } from './steering.js';
 import { steeringHandlers, type SteeringRoutes } from './steering-routes.js';
+import { auditWithState, loadSteering, SteeringWriter } from './steering-store.js';
 
 export interface SteeringParts {
   steering: Steering;
@@ -62,6 +64,14 @@ export async function startSteering(deps: {
     tripped: () => interlockTripped() || live.snapshot().controller.hardwareTripped,
   });
   steering.onTripStop((program) => log.warn({ target: program.target, runId: program.runId }, 'steering stopped by a trip'));
+  const stored = await loadSteering(db);
+  if (stored) {
+    steering.restore(stored);
+    const { mode, target } = steering.status();
+    if (mode !== 'idle') log.warn({ mode, target }, 'steering state restored from before the restart; no setpoint is sent until the next command');
+  }
+  const writer = new SteeringWriter(db, log);
+  steering.onChange((state) => writer.write(state));
   const predictor = new PathPredictor({ cache: criticalCache });
 
   /** Alarm levels in force, and the lead's trip levels and operating settings (stored level set). */
@@ -88,7 +98,7 @@ export async function startSteering(deps: {
     profile: () => prediction.activeProfile(),
     limits,
     interlockTripped,
-    audit: auditTo(db),
+    audit: auditWithState(db),
     runActive: () => runner.activeRunId() !== null,
     log,
   });
@@ -116,6 +126,7 @@ export async function startSteering(deps: {
     async close() {
       await runner.close();
       steering.close();
+      await writer.drain();
       await predictor.close();
     },
   };

@@ -7,6 +7,7 @@ import type { AuditEntry } from '../audit/audit-log.js';
 import { HttpError } from '../http/http-error.js';
 import { PreflightRefusal, SteerDesk } from './steer-desk.js';
 import { Steering } from './steering.js';
+import type { StoredSteering } from './steering-store.js';
 
 const CAL: Calibration = { ...DEMO_CALIBRATION, id: 1, version: 1, label: 'demo' };
 const NOW = 1.8e12;
@@ -18,7 +19,7 @@ const LIVE = {
   controller: { online: true, tripped: false, hardwareTripped: false, hardwareTripCause: null, softwareHold: false, mode: 'demo', lastFrameAt: new Date(NOW - 20).toISOString() },
 } as unknown as LiveState;
 
-function desk(audit: (e: AuditEntry) => Promise<void>, tripped = false) {
+function desk(audit: (e: AuditEntry, state: StoredSteering) => Promise<void>, tripped = false) {
   const sent: string[] = [];
   const steering = new Steering({ link: { publish: (_t, payload) => sent.push(payload) }, tripped: () => false, now: () => NOW });
   const d = new SteerDesk({
@@ -41,15 +42,22 @@ function desk(audit: (e: AuditEntry) => Promise<void>, tripped = false) {
 const request = { magnitudeG: 6, thetaDeg: 40, phiDeg: 10, rampMs: 2000, reason: 'test' };
 
 describe('steer commands', () => {
-  it('records the command before anything is sent', async () => {
+  it('records the command with the steering state it leads to before anything is sent', async () => {
     const order: string[] = [];
-    const { d, sent, steering } = desk(async (e) => {
+    const states: StoredSteering[] = [];
+    const { d, sent, steering } = desk(async (e, state) => {
       order.push(`audit ${e.action} (${sent.length} sent)`);
+      states.push(state);
     });
     await d.setTarget('operator@tiltwatch.example', request);
     expect(order).toEqual(['audit steering.target (0 sent)']);
     expect(sent.length).toBe(1);
     expect(steering.status().mode).toBe('ramping');
+    expect(states).toEqual([steering.stored()]);
+    expect(states[0].program).toMatchObject({ target: { magnitudeG: 6, thetaDeg: 40, phiDeg: 10, rampMs: 2000 }, reached: false, reason: 'test' });
+
+    await d.release('operator@tiltwatch.example', 'done');
+    expect(states[1]).toEqual({ program: null, lastStop: { at: expect.any(String), why: 'released by operator@tiltwatch.example: done' } });
   });
 
   it('sends nothing and answers 503 when the record cannot be written', async () => {

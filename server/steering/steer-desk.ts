@@ -1,7 +1,7 @@
 /**
  * The steering commands behind the routes: pre-flight a plan, take a target, abort, release.
- * Each command that changes what the controller is told is written to the audit trail first
- * and only then acted on, so a command is reported done only once it is recorded; when the
+ * Each command that changes what the controller is told is written to the audit trail first,
+ * with the steering state it leads to in the same transaction, and only then acted on, so a command is reported done only once it is recorded; when the
  * record cannot be written nothing is sent. Commands run one after another.
  */
 import type { Logger } from 'pino';
@@ -12,12 +12,13 @@ import type { LiveState } from '../../shared/live/live-state.js';
 import type { ProfileRecord } from '../../shared/profiles/profile-record.js';
 import type { PlannedPoint, PreflightResult, SteerTargetRequest } from '../../shared/steering/steering-api.js';
 import { targetVector } from '../../shared/steering/target.js';
-import { appendAudit, type AuditEntry } from '../audit/audit-log.js';
+import type { AuditEntry } from '../audit/audit-log.js';
 import { HttpError } from '../http/http-error.js';
 import type { PathPredictor } from './path-predictor.js';
 import { plannedPoints, withPredictions, type PlannedRamp } from './planner.js';
 import { preflight, type PreflightLimits } from './preflight.js';
 import { fieldInForce, type Steering } from './steering.js';
+import type { StoredSteering } from './steering-store.js';
 
 /** A telemetry frame older than this (ms) means the controller is not reporting. */
 const REPORTING_WITHIN_MS = 2000;
@@ -32,8 +33,8 @@ export interface SteerDeskDeps {
   /** Limits in force (alarm and trip levels, the lead's collapse-ratio limit). */
   limits: () => Promise<PreflightLimits>;
   interlockTripped: () => boolean;
-  /** Writes one audit entry durably (rejects when it cannot). */
-  audit: (entry: AuditEntry) => Promise<void>;
+  /** Writes one audit entry and the steering state it leads to durably, together (rejects when it cannot). */
+  audit: (entry: AuditEntry, state: StoredSteering) => Promise<void>;
   /** True while a run steers (manual targets are refused then). */
   runActive: () => boolean;
   log: Pick<Logger, 'info' | 'warn' | 'error'>;
@@ -106,8 +107,9 @@ export class SteerDesk {
       if (!plan.ok || !plan.from) throw new PreflightRefusal(result);
       this.refuseWhileBusy();
       const target = { magnitudeG: request.magnitudeG, thetaDeg: request.thetaDeg, phiDeg: request.phiDeg, rampMs: request.rampMs };
-      await this.record({ actor, action: 'steering.target', subject: 'steering', oldValue: this.deps.steering.status().target, newValue: target, reason: request.reason });
-      this.deps.steering.run({ from: plan.from, to: targetVector(request), rampMs: request.rampMs, calibration: plan.calibration, target, actor, reason: request.reason, runId: null, path: plan.path });
+      const program = { from: plan.from, to: targetVector(request), rampMs: request.rampMs, calibration: plan.calibration, target, actor, reason: request.reason, runId: null, path: plan.path };
+      await this.record({ actor, action: 'steering.target', subject: 'steering', oldValue: this.deps.steering.status().target, newValue: target, reason: request.reason }, this.deps.steering.stored(program));
+      this.deps.steering.run(program);
       this.deps.log.info({ actor, target, reason: request.reason }, 'steering to a new target');
       return result;
     });
@@ -116,20 +118,26 @@ export class SteerDesk {
   /** Ends the ramp where it is and holds the field there (audited); 409 when nothing steers. */
   abort(actor: string, reason: string): Promise<void> {
     return this.serial(async () => {
-      if (!this.deps.steering.current()) throw new HttpError(409, 'Nothing is being steered: there is no ramp to abort');
+      const hold = this.deps.steering.holdProgram(actor, reason);
+      if (!hold) throw new HttpError(409, 'Nothing is being steered: there is no ramp to abort');
       if (this.deps.runActive()) throw new HttpError(409, 'A sequence run steers the field: abort the run on Sequences instead');
-      await this.record({ actor, action: 'steering.abort', subject: 'steering', oldValue: this.deps.steering.status().target, reason });
-      this.deps.steering.holdHere(actor, reason);
+      await this.record({ actor, action: 'steering.abort', subject: 'steering', oldValue: this.deps.steering.status().target, reason }, this.deps.steering.stored(hold));
+      this.deps.steering.run(hold);
     });
   }
 
-  /** Stops steering; the controller's demo program (if any) takes over once it hears nothing. */
+  /**
+   * Stops steering (or clears the state restored after a restart); the controller's demo
+   * program (if any) takes over once it hears nothing.
+   */
   release(actor: string, reason: string): Promise<void> {
     return this.serial(async () => {
-      if (!this.deps.steering.current()) throw new HttpError(409, 'Nothing is being steered');
+      const { steering } = this.deps;
+      if (steering.status().mode === 'idle') throw new HttpError(409, 'Nothing is being steered');
       if (this.deps.runActive()) throw new HttpError(409, 'A sequence run steers the field: abort the run first');
-      await this.record({ actor, action: 'steering.release', subject: 'steering', oldValue: this.deps.steering.status().target, reason });
-      this.deps.steering.release(`released by ${actor}: ${reason}`);
+      const why = `released by ${actor}: ${reason}`;
+      await this.record({ actor, action: 'steering.release', subject: 'steering', oldValue: steering.status().target, reason }, { program: null, lastStop: { at: new Date().toISOString(), why } });
+      steering.release(why);
     });
   }
 
@@ -140,10 +148,10 @@ export class SteerDesk {
     return run;
   }
 
-  /** Writes the audit entry; a failure is a 503 and nothing changes. */
-  async record(entry: AuditEntry): Promise<void> {
+  /** Writes the audit entry with the state it leads to; a failure is a 503 and nothing changes. */
+  private async record(entry: AuditEntry, state: StoredSteering): Promise<void> {
     try {
-      await this.deps.audit(entry);
+      await this.deps.audit(entry, state);
     } catch (error) {
       this.deps.log.error({ err: error, action: entry.action }, 'a steering command could not be recorded; nothing was sent');
       throw new HttpError(503, 'The command could not be recorded in the audit trail, so nothing was sent to the controller. Try again; if it persists, check the database.');
@@ -172,9 +180,4 @@ export class PreflightRefusal extends Error {
 
 function singleRamp(request: SteerTargetRequest): (from: Vec3) => PlannedRamp[] {
   return (from) => [{ startMs: 0, from, to: targetVector(request), rampMs: request.rampMs }];
-}
-
-/** The durable audit writer for a database. */
-export function auditTo(db: Parameters<typeof appendAudit>[0]): (entry: AuditEntry) => Promise<void> {
-  return (entry) => appendAudit(db, entry);
 }

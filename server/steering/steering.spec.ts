@@ -88,4 +88,47 @@ describe('steering the setpoints along the path', () => {
     expect(steering.status().lastStop?.why).toMatch(/tripped/);
     expect(stops).toHaveLength(1);
   });
+
+describe('the steering state across a restart', () => {
+  it('stores each change, and restores a reached target for the alarms without sending anything', () => {
+    const before = rig();
+    const states: unknown[] = [];
+    before.steering.onChange((state) => states.push(state));
+    before.steering.run(program);
+    expect(states).toHaveLength(1);
+    expect(before.steering.stored().program).toMatchObject({ target: program.target, reached: false });
+    before.advance(2100);
+    expect(states).toHaveLength(2);
+    const stored = before.steering.stored();
+    expect(stored.program).toMatchObject({ reached: true, actor: 'operator@tiltwatch.example', reason: 'test' });
+
+    const after = rig();
+    after.steering.restore(JSON.parse(JSON.stringify(stored)));
+    after.steering.start();
+    after.advance(3000);
+    after.steering.close();
+    expect(after.sent).toEqual([]);
+    expect(after.steering.status()).toMatchObject({ mode: 'restored', target: program.target });
+    expect(after.steering.fieldNow()).toBeNull();
+    const context = after.steering.alarmContext();
+    expect(context.rampProgrammed).toBe(false);
+    expect(centralAngleDeg(context.targetDirection!, to)).toBeLessThan(1e-9);
+  });
+
+  it('restores a ramp under way as interrupted: no target for the alarms, no setpoints, and a trip clears it', () => {
+    const before = rig();
+    before.steering.run(program);
+    before.advance(500);
+    const after = rig();
+    after.steering.restore(before.steering.stored());
+    after.advance(3000);
+    expect(after.sent).toEqual([]);
+    expect(after.steering.status().mode).toBe('interrupted');
+    expect(after.steering.alarmContext()).toEqual({ targetDirection: null, rampProgrammed: false });
+    after.trip();
+    after.advance(10);
+    expect(after.steering.status()).toMatchObject({ mode: 'idle', lastStop: { why: expect.stringMatching(/tripped/) } });
+    expect(after.stops).toEqual([]);
+  });
+});
 });

@@ -5,6 +5,12 @@
  * while holding, which also keeps the controller in remote mode: its demo program resumes only
  * once nothing steers). A trip ends steering at once: the controller holds zero and a new
  * target is needed after the reset. Supervisory only; the hardware interlocks stay in charge.
+ *
+ * Each change is handed to `onChange` listeners in its stored form (steering-store.ts). After a
+ * restart `restore()` takes the stored state without sending anything: a target that had been
+ * reached is shown and used by the deviation alarm, a ramp that was under way is shown as
+ * interrupted (the field stopped somewhere on its path, so only the measured field counts).
+ * The restored state ends with the next command or a trip; no setpoint goes out until then.
  */
 import type { Calibration } from '../../shared/field/calibration.js';
 import { currentsForField, fieldAngles, fieldVector, type Vec3 } from '../../shared/field/field-vector.js';
@@ -14,6 +20,7 @@ import type { PlannedPoint, SteeringStatus } from '../../shared/steering/steerin
 import type { SetpointCommand } from '../../shared/telemetry/messages.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import type { CommandLink } from '../interlock/supervisor.js';
+import type { StoredProgram, StoredSteering } from './steering-store.js';
 
 /** Setpoint period while ramping and while holding, ms. */
 export const RAMP_PERIOD_MS = 50;
@@ -53,7 +60,10 @@ export class Steering {
   private timer: NodeJS.Timeout | null = null;
   private lastSentMs = -Infinity;
   private lastStop: { at: number; why: string } | null = null;
+  /** What a restart found stored and nothing has replaced since; never sent to the controller. */
+  private restored: StoredProgram | null = null;
   private readonly tripListeners: ((program: Program) => void)[] = [];
+  private readonly changeListeners: ((state: StoredSteering) => void)[] = [];
   private readonly now: () => number;
 
   constructor(private readonly deps: SteeringDeps) {
@@ -75,6 +85,27 @@ export class Steering {
     this.tripListeners.push(cb);
   }
 
+  /** Calls `cb` with the stored form of the state after each change. */
+  onChange(cb: (state: StoredSteering) => void): void {
+    this.changeListeners.push(cb);
+  }
+
+  /** Takes the state stored before a restart; sends nothing (see the file comment). */
+  restore(state: StoredSteering): void {
+    // A run in force at the stop has been ended as aborted (abortOrphanedRuns): nothing belongs to it any more.
+    this.restored = state.program && { ...state.program, runId: null };
+    this.lastStop = state.lastStop ? { at: Date.parse(state.lastStop.at), why: state.lastStop.why } : null;
+  }
+
+  /** The stored form of the state in force, or of `next` once it would be taken now. */
+  stored(next?: Omit<Program, 'startMs'>): StoredSteering {
+    const now = this.now();
+    const p = next ? { ...next, startMs: now } : this.program;
+    if (!p) return { program: this.restored, lastStop: this.lastStop ? { at: new Date(this.lastStop.at).toISOString(), why: this.lastStop.why } : null };
+    const program = { target: { ...p.target }, to: p.to, startedAt: new Date(p.startMs).toISOString(), actor: p.actor, reason: p.reason, runId: p.runId, reached: now >= p.startMs + p.rampMs };
+    return { program, lastStop: null };
+  }
+
   /** The field the program commands now, or null when nothing steers. */
   fieldNow(): Vec3 | null {
     return this.program ? this.fieldAt(this.program, this.now()) : null;
@@ -82,36 +113,49 @@ export class Steering {
 
   /** A run that ended leaves its last target held, no longer tied to the run. */
   detachRun(runId: number): void {
-    if (this.program?.runId === runId) this.program = { ...this.program, runId: null };
+    if (this.program?.runId !== runId) return;
+    this.program = { ...this.program, runId: null };
+    this.changed();
   }
 
   /** Takes a new program at once and sends its first setpoint. */
   run(program: Omit<Program, 'startMs'>): Program {
     const started: Program = { ...program, startMs: this.now() };
     this.program = started;
+    this.restored = null;
     this.lastStop = null;
     this.send(this.now());
+    this.changed();
     return started;
   }
 
   /** Ends the ramp where it is and holds that field; returns the held field, or null when nothing steers. */
   holdHere(actor: string, reason: string, runId: number | null = null): Vec3 | null {
+    const hold = this.holdProgram(actor, reason, runId);
+    if (!hold) return null;
+    this.run(hold);
+    return hold.to;
+  }
+
+  /** The program that holds the field the ramp has reached now, or null when nothing steers. */
+  holdProgram(actor: string, reason: string, runId: number | null = null): Omit<Program, 'startMs'> | null {
     const p = this.program;
     if (!p) return null;
     const here = this.fieldAt(p, this.now());
     const angles = fieldAngles(here);
-    this.run({
+    return {
       ...p, from: here, to: here, rampMs: 0, actor, reason, runId,
       target: { magnitudeG: angles.magnitude, thetaDeg: angles.thetaDeg ?? 0, phiDeg: angles.phiDeg ?? 0, rampMs: 0 },
       path: [],
-    });
-    return here;
+    };
   }
 
   /** Stops steering: no more setpoints; the controller keeps the last one until its demo program takes over. */
   release(why: string): void {
     this.program = null;
+    this.restored = null;
     this.lastStop = { at: this.now(), why };
+    this.changed();
   }
 
   /** The program in force, or null. */
@@ -122,13 +166,20 @@ export class Steering {
   /** For the alarms: the target direction (null when none or |B| = 0) and whether a ramp is programmed. */
   alarmContext(nowMs: number = this.now()): { targetDirection: Vec3 | null; rampProgrammed: boolean } {
     const p = this.program;
-    if (!p) return { targetDirection: null, rampProgrammed: false };
+    if (!p) return { targetDirection: this.restored?.reached ? unit(this.restored.to) : null, rampProgrammed: false };
     return { targetDirection: unit(p.to), rampProgrammed: nowMs < p.startMs + p.rampMs + SETTLE_MS };
   }
 
   status(): SteeringStatus {
     const p = this.program;
     const now = this.now();
+    const r = this.restored;
+    if (!p && r) {
+      return {
+        mode: r.reached ? 'restored' : 'interrupted',
+        target: { ...r.target }, actor: r.actor, reason: r.reason, startedAt: r.startedAt, path: [], runId: r.runId, lastStop: null,
+      };
+    }
     return {
       mode: p ? (now < p.startMs + p.rampMs ? 'ramping' : 'holding') : 'idle',
       target: p ? { ...p.target } : null,
@@ -144,18 +195,28 @@ export class Steering {
   /** Runs on the timer; public for tests that drive the clock. */
   tick(): void {
     const p = this.program;
-    if (!p) return;
+    if (!p && !this.restored) return;
     const now = this.now();
     if (this.deps.tripped()) {
       this.program = null;
+      this.restored = null;
       this.lastStop = { at: now, why: 'the interlock tripped; the controller ramps to zero and holds' };
-      for (const cb of this.tripListeners) cb(p);
+      if (p) for (const cb of this.tripListeners) cb(p);
+      this.changed();
       return;
     }
+    if (!p) return;
     const period = now < p.startMs + p.rampMs ? RAMP_PERIOD_MS : HOLD_PERIOD_MS;
     // A ramp's last setpoint goes out on time even when the hold period has begun.
     const rampEndedSinceLast = this.lastSentMs < p.startMs + p.rampMs && now >= p.startMs + p.rampMs;
     if (now - this.lastSentMs >= period || rampEndedSinceLast) this.send(now);
+    if (rampEndedSinceLast) this.changed();
+  }
+
+  private changed(): void {
+    if (this.changeListeners.length === 0) return;
+    const state = this.stored();
+    for (const cb of this.changeListeners) cb(state);
   }
 
   private fieldAt(p: Program, nowMs: number): Vec3 {

@@ -51,8 +51,12 @@ export interface SteerTargetRequest {
   reason: string;
 }
 
-/** What steers the field now. */
-export type SteeringMode = 'idle' | 'ramping' | 'holding';
+/**
+ * What steers the field now. After a server restart nothing is sent until the next command:
+ * `restored` is a target that had been reached before the restart, `interrupted` a ramp that
+ * was under way when the server stopped (the field stopped at an unknown point of its path).
+ */
+export type SteeringMode = 'idle' | 'ramping' | 'holding' | 'restored' | 'interrupted';
 
 /** Body of `GET /api/steering` and of the WebSocket `steering` message. */
 export interface SteeringStatus {

@@ -100,4 +100,17 @@ describe('SteerPage', () => {
     expect(fieldError(host(), 'Reason for abort or release')).toBe('Reason for abort or release: must not contain control characters');
     expect(fieldError(host(), 'Reason (goes into the audit trail)')).toBeNull();
   });
+
+  it('shows what a restart left: a kept target, or an interrupted ramp whose measured field counts, with release but no abort', async () => {
+    await open({ ...HOLDING, mode: 'restored' });
+    expect(host().querySelector('.mode')!.textContent).toContain('Target kept from before the restart');
+    expect(host().querySelector('[data-restart="restored"]')!.textContent).toContain('sends no setpoint');
+    fixture.destroy();
+
+    await open({ ...HOLDING, mode: 'interrupted' });
+    expect(host().querySelector('.mode')!.textContent).toContain('Ramp interrupted by a restart');
+    expect(host().querySelector('[data-restart="interrupted"]')!.textContent).toContain('the measured field is what counts now');
+    expect(button('Release steering')).toBeDefined();
+    expect(button('Abort ramp')).toBeUndefined();
+  });
 });

@@ -3,7 +3,10 @@ import { MatIconModule } from '@angular/material/icon';
 import type { SteeringStatus } from '../../../shared/steering/steering-api';
 import { formatAzimuth, formatLocalTime, formatQuantity } from '../readout/format-quantity';
 
-/** One line on what steers the field now: idle, ramping (with progress) or holding, who and why. */
+/**
+ * One line on what steers the field now: idle, ramping (with progress), holding, or what a
+ * restart of the server left (a target kept, or a ramp it interrupted), who and why.
+ */
 @Component({
   selector: 'tw-steer-status',
   imports: [MatIconModule],
@@ -23,6 +26,17 @@ import { formatAzimuth, formatLocalTime, formatQuantity } from '../readout/forma
             — {{ p }}
           }
         </p>
+        @if (s.mode === 'restored') {
+          <p class="restart" data-restart="restored">
+            <mat-icon aria-hidden="true" inline>restart_alt</mat-icon> The server restarted after this target had been reached. It sends no setpoint
+            until a new target is set or steering is released; the deviation alarm still measures against this target.
+          </p>
+        } @else if (s.mode === 'interrupted') {
+          <p class="restart" data-restart="interrupted">
+            <mat-icon aria-hidden="true" inline>warning</mat-icon> A server restart interrupted this ramp: where along its path the field stopped is
+            not known, so the measured field is what counts now. Nothing is sent and no deviation from this target is alarmed until a new target is set.
+          </p>
+        }
       } @else {
         <p class="who">Nothing steers: the controller follows its own program (or keeps its last setpoint).</p>
       }
@@ -50,6 +64,9 @@ import { formatAzimuth, formatLocalTime, formatQuantity } from '../readout/forma
     .target {
       font-variant-numeric: tabular-nums;
     }
+    .restart {
+      font: var(--mat-sys-body-medium);
+    }
     .who,
     .stop {
       font: var(--mat-sys-body-medium);
@@ -63,8 +80,8 @@ export class SteerStatus {
   /** Browser clock, ms, for the ramp's progress. */
   readonly now = input<number>(Date.now());
 
-  protected readonly icon = computed(() => ({ idle: 'pause_circle', ramping: 'moving', holding: 'my_location' })[this.status()?.mode ?? 'idle']);
-  protected readonly headline = computed(() => ({ idle: 'Idle', ramping: 'Ramping to', holding: 'Holding' })[this.status()?.mode ?? 'idle']);
+  protected readonly icon = computed(() => ({ idle: 'pause_circle', ramping: 'moving', holding: 'my_location', restored: 'my_location', interrupted: 'report' })[this.status()?.mode ?? 'idle']);
+  protected readonly headline = computed(() => ({ idle: 'Idle', ramping: 'Ramping to', holding: 'Holding', restored: 'Target kept from before the restart', interrupted: 'Ramp interrupted by a restart, towards' })[this.status()?.mode ?? 'idle']);
   protected readonly progress = computed(() => {
     const s = this.status();
     if (!s || s.mode !== 'ramping' || !s.target || !s.startedAt || s.target.rampMs <= 0) return null;
