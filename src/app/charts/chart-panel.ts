@@ -116,6 +116,8 @@ export class ChartPanel {
         ...plotSize(host),
         ms: 1,
         scales,
+        // Without an axis on the right, room for the half of the last time label that overhangs the plot.
+        padding: [null, axes.some((axis) => axis.side !== 'left') ? null : Math.round(2.5 * rem), null, null],
         cursor: { drag: { x: false, y: false, setScale: false } },
         legend: { live: true },
         hooks: { draw: [(u) => this.drawMarker(u, color('--tw-chart-marker'))] },
