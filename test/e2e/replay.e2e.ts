@@ -86,7 +86,7 @@ describe('Replay page in Chromium', () => {
 
     // Each step of the run is a mark of its own, named in the legend.
     await expect.poll(() => page.getByRole('button', { name: /^Jump to Run step at / }).count()).toBe(3);
-    expect(await page.getByRole('button', { name: /^Jump to Run step at / }).first().getAttribute('aria-label')).toMatch(new RegExp(`— Run ${runId} step 1: hold for 1\\.0 s$`));
+    expect(await page.getByRole('button', { name: /^Jump to Run step at / }).first().getAttribute('aria-label')).toMatch(new RegExp(`— Run ${runId} step 1: hold for 1\\.0 s\\. Done after [\\d.]+ s$`));
     expect(await page.locator('tw-replay-timeline .legend').innerText()).toContain('Run step');
 
     // Jump to the note's mark.

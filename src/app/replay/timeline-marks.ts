@@ -48,6 +48,11 @@ export function placeMarks(events: readonly HistoryEvent[], fromMs: number, toMs
       timeMs,
       percent: ((timeMs - fromMs) / span) * 100,
       icon: look.icon,
-      text: `${look.label} at ${formatLocalTime(timeMs)} — ${event.label.trim() || look.label}`,
+      text: `${look.label} at ${formatLocalTime(timeMs)} — ${event.label.trim() || look.label}${outcome(event)}`,
     }));
+}
+
+/** A run step's mark also says how the step ended ("Done after 1.0 s"); other marks keep to their line. */
+function outcome(event: HistoryEvent): string {
+  return event.kind === 'step' && event.detail ? `. ${event.detail}` : '';
 }
