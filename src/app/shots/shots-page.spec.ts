@@ -73,4 +73,30 @@ describe('ShotsPage', { timeout: 30_000 }, () => {
     await settle();
     expect(host.querySelector('.agreement .figure')!.textContent).toMatch(/0\.50\s*× predicted/);
   });
+
+  it('opens a run older than the list by its number, and says beside the field when there is none', async () => {
+    await open('viewer');
+    const field = () => [...host.querySelectorAll('mat-form-field')].find((f) => f.textContent!.includes('Run number'))!;
+    const input = field().querySelector('input')!;
+    const submit = () => [...host.querySelectorAll('button')].find((b) => b.textContent!.includes('Open'))!.click();
+    input.value = '999';
+    input.dispatchEvent(new Event('input'));
+    submit();
+    await settle();
+    http.expectOne('/api/runs/999').flush({ error: 'No run with id 999' }, { status: 404, statusText: 'Not Found' });
+    await settle();
+    fixture.detectChanges();
+    expect(field().textContent).toContain('Run number: there is no run 999');
+
+    const older: RunRecord = { ...RUN, id: 1, sequenceName: 'Old scan', shots: [] };
+    input.value = '1';
+    input.dispatchEvent(new Event('input'));
+    submit();
+    await settle();
+    http.expectOne('/api/runs/1').flush(older);
+    await settle();
+    http.expectOne((r) => r.url === '/api/shots' && r.params.get('run') === '1').flush({ shots: [] });
+    await settle();
+    expect(host.querySelector('mat-select')!.textContent).toContain('Run 1 · Old scan');
+  });
 });

@@ -1,17 +1,20 @@
-import { HttpClient } from '@angular/common/http';
+import { HttpClient, HttpErrorResponse } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSortModule, type Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { ActivatedRoute, Router } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import { hasRole } from '../../../shared/auth/roles';
 import type { ShotsResponse } from '../../../shared/shots/shots-api';
 import type { RunRecord } from '../../../shared/steering/steering-api';
 import { errorText } from '../api/error-text';
+import { fieldMessage, markField } from '../api/field-errors';
 import { Session } from '../auth/session';
 import { formatLocalDateTime, formatNumber, formatQuantity, NO_VALUE } from '../readout/format-quantity';
 import { SteeringRequests } from '../steering/steering-requests';
@@ -23,11 +26,12 @@ import { agreement, shotsCsv, shotView, sortShots, type ShotColumn, type ShotVie
  * The Shots page: the shots of a run with the prediction stored at each and the TOF image the
  * imaging analysis measured, as a sortable table, two charts against θ (aspect ratios with
  * error bars, and their difference), how far measured and predicted deformations are apart,
- * a CSV export, and for operators the upload of measurement files.
+ * a CSV export, and for operators the upload of measurement files. The run list holds the
+ * newest runs; an older one opens by its number (or `?run=ID`).
  */
 @Component({
   selector: 'tw-shots-page',
-  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatSelectModule, MatSortModule, MatTableModule, MeasurementUpload, ShotChart],
+  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, MatSortModule, MatTableModule, MeasurementUpload, ReactiveFormsModule, ShotChart],
   templateUrl: './shots-page.html',
   styleUrl: './shots-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -55,6 +59,9 @@ export class ShotsPage {
   protected readonly agreement = computed(() => agreement(this.views()));
   protected readonly measuredCount = computed(() => this.views().filter((v) => v.measuredAspect !== null).length);
   protected readonly run = computed(() => this.runs().find((r) => r.id === this.runId()) ?? null);
+  /** Opens any run by its number, also one older than the list holds. */
+  protected readonly runNumber = new FormControl<number | null>(null);
+  protected readonly fieldMessage = fieldMessage;
 
   protected readonly number = (value: number | null, digits: number) => (value === null ? NO_VALUE : formatNumber(value, digits));
   protected readonly quantity = formatQuantity;
@@ -74,11 +81,27 @@ export class ShotsPage {
       const runs = await this.requests.runs();
       this.runs.set(runs);
       const asked = keep ?? Number(this.route.snapshot.queryParamMap.get('run'));
+      if (Number.isInteger(asked) && asked > 0 && !runs.some((r) => r.id === asked)) return await this.openRun(asked);
       const first = runs.find((r) => r.id === asked) ?? runs.find((r) => r.shots.length > 0) ?? runs[0];
       if (first) await this.showRun(first.id);
     } catch (err) {
       this.problem.set(errorText(err));
     }
+  }
+
+  /** Shows the run numbered `id` (the field's number by default), reading it when the list does not hold it. */
+  protected async openRun(id = this.runNumber.value): Promise<void> {
+    if (id === null || !Number.isInteger(id) || id < 1) return markField(this.runNumber, 'Run number: give a whole number from 1');
+    if (!this.runs().some((r) => r.id === id)) {
+      try {
+        const run = await this.requests.getRun(id);
+        this.runs.update((runs) => [...runs, run].sort((a, b) => b.id - a.id));
+      } catch (err) {
+        const missing = err instanceof HttpErrorResponse && err.status === 404;
+        return markField(this.runNumber, missing ? `Run number: there is no run ${id}` : `Run number: ${errorText(err)}`);
+      }
+    }
+    await this.showRun(id);
   }
 
   protected async showRun(runId: number): Promise<void> {
