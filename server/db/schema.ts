@@ -44,7 +44,7 @@ import type { AlarmLimit, AlarmPriority } from '../alarms/alarm-limit.js';
 import type { AlarmMemory, AlarmState } from '../alarms/alarm-state.js';
 import type { FirstOut } from '../interlock/interlock.js';
 import type { ConditionStatus } from '../interlock/trip-conditions.js';
-import type { StoredSteering } from '../steering/steering-store.js';
+import type { StoredSteering } from '../steering/stored-steering.js';
 
 /** Compressed converter codes of the six fast channels (see server/storage/sample-codec.ts). */
 const sampleBlob = customType<{ data: Uint8Array; driverData: Uint8Array }>({
@@ -559,7 +559,7 @@ export const alarmStates = pgTable('alarm_states', {
 });
 
 /**
- * What steering had in force when it last changed (server/steering/steering-store.ts): one row
+ * What steering had in force when it last changed (server/steering/stored-steering.ts, written by steering-store.ts): one row
  * (id 1), written with the audit entry of each steer command and after every other change.
  */
 export const steeringState = pgTable('steering_state', {

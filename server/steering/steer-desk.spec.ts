@@ -7,7 +7,7 @@ import type { AuditEntry } from '../audit/audit-log.js';
 import { HttpError } from '../http/http-error.js';
 import { PreflightRefusal, SteerDesk } from './steer-desk.js';
 import { Steering } from './steering.js';
-import type { StoredSteering } from './steering-store.js';
+import type { StoredSteering } from './stored-steering.js';
 
 const CAL: Calibration = { ...DEMO_CALIBRATION, id: 1, version: 1, label: 'demo' };
 const NOW = 1.8e12;

@@ -18,7 +18,7 @@ import type { PathPredictor } from './path-predictor.js';
 import { plannedPoints, withPredictions, type PlannedRamp } from './planner.js';
 import { preflight, type PreflightLimits } from './preflight.js';
 import { fieldInForce, type Steering } from './steering.js';
-import type { StoredSteering } from './steering-store.js';
+import type { StoredSteering } from './stored-steering.js';
 
 /** A telemetry frame older than this (ms) means the controller is not reporting. */
 const REPORTING_WITHIN_MS = 2000;

@@ -6,27 +6,10 @@
  */
 import { eq } from 'drizzle-orm';
 import type { Logger } from 'pino';
-import type { Vec3 } from '../../shared/field/field-vector.js';
 import { appendAudit, type AuditEntry } from '../audit/audit-log.js';
 import type { Db } from '../db/database.js';
 import { steeringState } from '../db/schema.js';
-
-/** The program in force as stored: `reached` once the ramp had ended when it was written. */
-export interface StoredProgram {
-  target: { magnitudeG: number; thetaDeg: number; phiDeg: number; rampMs: number };
-  /** The target field, trap frame, G. */
-  to: Vec3;
-  startedAt: string;
-  actor: string;
-  reason: string;
-  runId: number | null;
-  reached: boolean;
-}
-
-export interface StoredSteering {
-  program: StoredProgram | null;
-  lastStop: { at: string; why: string } | null;
-}
+import type { StoredSteering } from './stored-steering.js';
 
 const ROW_ID = 1;
 

@@ -20,7 +20,7 @@ import type { PlannedPoint, SteeringStatus } from '../../shared/steering/steerin
 import type { SetpointCommand } from '../../shared/telemetry/messages.js';
 import { TOPICS } from '../../shared/telemetry/topics.js';
 import type { CommandLink } from '../interlock/supervisor.js';
-import type { StoredProgram, StoredSteering } from './steering-store.js';
+import type { StoredProgram, StoredSteering } from './stored-steering.js';
 
 /** Setpoint period while ramping and while holding, ms. */
 export const RAMP_PERIOD_MS = 50;
