@@ -9,7 +9,7 @@ import { FAST, SLOW, appendChunks } from '../charts/telemetry-history';
 import type { CoilReadings } from '../live/coil-strip';
 import { resampleHistory } from '../prediction/prediction-series';
 import type {
-  HistoryAlarmLimits, HistoryCalibration, HistoryEvent, HistoryInForce, HistoryLevels, HistoryPrediction, HistoryPredictionStatus, HistoryResponse, HistoryRun,
+  HistoryAlarmLimits, HistoryCalibration, HistoryEvent, HistoryInForce, HistoryLevels, HistoryPredictionStatus, HistoryResponse, HistoryRun,
 } from '../../../shared/history/history-api';
 
 /** Columns of `ReplayData.sigma`: one standard deviation of |B|, θ, φ (NaN without one). */
@@ -34,9 +34,8 @@ export interface ReplayData {
   slow: RingBuffer;
   /** Times of the recorded predictions (no columns); each stands until the next. */
   predictionTimes: RingBuffer;
-  prediction: HistoryPrediction;
-  /** Whether the prediction applied, each change holding until the next. */
-  status: HistoryPredictionStatus;
+  /** The recorded predictions, with `status`: whether they applied, each change holding until the next. */
+  prediction: HistoryResponse['prediction'];
   /** Level set, calibration, profile versions and alarm limits in force over the window. */
   inForce: HistoryInForce;
   /** (β − 1) and (TOF aspect − 1) in percent, `PREDICTED` columns, for the chart. */
@@ -86,8 +85,7 @@ export function toReplayData(response: HistoryResponse): ReplayData {
   const gap: [number, number] = [Number.NaN, Number.NaN];
   // As on Live, the chart shows a gap where the prediction did not apply.
   for (const point of points) predicted.push(point.t, applied(prediction.status, point.t) ? point.values : gap);
-  const { status } = prediction;
-  return { fromMs, toMs, resolutionMs: response.resolutionMs, fast, sigma, slow, predictionTimes, prediction, status, inForce: response.inForce, predicted, events: response.events, run: response.run };
+  return { fromMs, toMs, resolutionMs: response.resolutionMs, fast, sigma, slow, predictionTimes, prediction, inForce: response.inForce, predicted, events: response.events, run: response.run };
 }
 
 /** Index of the last of ascending `times` at or before `timeMs`; −1 when none is. */
@@ -159,7 +157,7 @@ export function momentAt(data: ReplayData, timeMs: number): ReplayMoment {
       waterReturnC: null,
     },
     prediction: predictionAt(data, data.predictionTimes.indexAtOrBefore(timeMs)),
-    predictionStatus: statusAt(data.status, timeMs, fastIndex < 0 ? null : orNull(fast(FAST.bMag))),
+    predictionStatus: statusAt(data.prediction.status, timeMs, fastIndex < 0 ? null : orNull(fast(FAST.bMag))),
     levels: inForceAt(data.inForce.levels, timeMs, true),
     alarmLimits: inForceAt(data.inForce.alarmLimits, timeMs, true),
     calibration: inForceAt(data.inForce.calibrations, timeMs),
